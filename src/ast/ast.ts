@@ -1,0 +1,54 @@
+import type { SourceSpan } from '../diagnostics/diagnostic.js';
+
+/** Expressions as written: numbers with optional units, names, calls and arithmetic. */
+export type Expr =
+  | { kind: 'number'; value: number; text: string; unit?: string; unitSpan?: SourceSpan; span: SourceSpan }
+  | { kind: 'name'; name: string; span: SourceSpan }
+  | { kind: 'call'; callee: string; args: Expr[]; span: SourceSpan }
+  | { kind: 'unary'; op: '-' | '+'; operand: Expr; span: SourceSpan }
+  | { kind: 'binary'; op: '+' | '-' | '*' | '/' | '^'; left: Expr; right: Expr; span: SourceSpan };
+
+/** `key=value[, value…] [at expr]` */
+export interface KeyArg {
+  kind: 'key';
+  key: string;
+  keySpan: SourceSpan;
+  values: Expr[];
+  at?: Expr;
+  span: SourceSpan;
+}
+
+/** A quoted string argument (used by `title`). */
+export interface TextArg {
+  kind: 'text';
+  value: string;
+  span: SourceSpan;
+}
+
+export type Arg = KeyArg | TextArg;
+
+/** One statement: a leading keyword, an optional label (a name or a number) and arguments. */
+export interface Statement {
+  keyword: string;
+  keywordSpan: SourceSpan;
+  label?: { text: string; isNumber: boolean; span: SourceSpan };
+  args: Arg[];
+  span: SourceSpan;
+}
+
+export interface NetlistAst {
+  file: string;
+  statements: Statement[];
+}
+
+/** Span covering `a` through `b` when both lie on one line; otherwise `a`. */
+export function joinSpans(a: SourceSpan, b: SourceSpan): SourceSpan {
+  if (a.file !== b.file || a.line !== b.line) return a;
+  const end = Math.max(a.column + a.length, b.column + b.length);
+  return { file: a.file, line: a.line, column: a.column, length: end - a.column };
+}
+
+/** If the expression is a bare name (a node reference, say), its text. */
+export function asName(e: Expr | undefined): string | undefined {
+  return e && e.kind === 'name' ? e.name : undefined;
+}

@@ -1,0 +1,198 @@
+import type { CstNode, IToken, IRecognitionException } from 'chevrotain';
+import { parseToCst } from '../parse/parser.js';
+import { DiagnosticBag, type SourceSpan } from '../diagnostics/diagnostic.js';
+import { joinSpans, type Arg, type Expr, type NetlistAst, type Statement } from './ast.js';
+
+type Children = Record<string, (CstNode | IToken)[] | undefined>;
+
+function tokSpan(file: string, t: IToken): SourceSpan {
+  return { file, line: t.startLine ?? 1, column: t.startColumn ?? 1, length: Math.max(1, t.image.length) };
+}
+
+function nodes(c: Children, key: string): CstNode[] {
+  return (c[key] ?? []) as CstNode[];
+}
+function toks(c: Children, key: string): IToken[] {
+  return (c[key] ?? []) as IToken[];
+}
+
+/** Turns the concrete syntax tree into the plain AST; the grammar stays free of semantics. */
+class AstBuilder {
+  constructor(private readonly file: string) {}
+
+  statement(node: CstNode): Statement {
+    const c = node.children as Children;
+    const kw = toks(c, 'keyword')[0]!;
+    const labelTok = toks(c, 'label')[0];
+    const args = nodes(c, 'argument').map((a) => this.argument(a));
+    const keywordSpan = tokSpan(this.file, kw);
+    let span = keywordSpan;
+    const last = args[args.length - 1];
+    if (last) span = joinSpans(span, last.span);
+    return {
+      keyword: kw.image,
+      keywordSpan,
+      label: labelTok
+        ? { text: labelTok.image, isNumber: labelTok.tokenType.name === 'NumberLit', span: tokSpan(this.file, labelTok) }
+        : undefined,
+      args,
+      span,
+    };
+  }
+
+  argument(node: CstNode): Arg {
+    const c = node.children as Children;
+    const text = toks(c, 'text')[0];
+    if (text) {
+      return { kind: 'text', value: unquote(text.image), span: tokSpan(this.file, text) };
+    }
+    const key = toks(c, 'key')[0]!;
+    const list = nodes(c, 'valueList')[0]!;
+    const values = nodes(list.children as Children, 'items').map((e) => this.expression(e));
+    const atNode = nodes(c, 'atValue')[0];
+    const at = atNode ? this.expression(atNode) : undefined;
+    const keySpan = tokSpan(this.file, key);
+    const lastExpr = at ?? values[values.length - 1]!;
+    return { kind: 'key', key: key.image, keySpan, values, at, span: joinSpans(keySpan, lastExpr.span) };
+  }
+
+  expression(node: CstNode): Expr {
+    const c = node.children as Children;
+    return this.chain(nodes(c, 'operands').map((t) => this.term(t)), toks(c, 'operators'));
+  }
+
+  term(node: CstNode): Expr {
+    const c = node.children as Children;
+    return this.chain(nodes(c, 'operands').map((f) => this.factor(f)), toks(c, 'operators'));
+  }
+
+  private chain(operands: Expr[], ops: IToken[]): Expr {
+    let acc = operands[0]!;
+    for (let i = 0; i < ops.length; i++) {
+      const right = operands[i + 1]!;
+      acc = {
+        kind: 'binary',
+        op: ops[i]!.image as '+' | '-' | '*' | '/',
+        left: acc,
+        right,
+        span: joinSpans(acc.span, right.span),
+      };
+    }
+    return acc;
+  }
+
+  factor(node: CstNode): Expr {
+    const c = node.children as Children;
+    const sign = toks(c, 'sign')[0];
+    if (sign) {
+      const operand = this.factor(nodes(c, 'operand')[0]!);
+      return { kind: 'unary', op: sign.image as '-' | '+', operand, span: joinSpans(tokSpan(this.file, sign), operand.span) };
+    }
+    return this.power(nodes(c, 'power')[0]!);
+  }
+
+  power(node: CstNode): Expr {
+    const c = node.children as Children;
+    const base = this.primary(nodes(c, 'base')[0]!);
+    const exp = nodes(c, 'exponent')[0];
+    if (!exp) return base;
+    const right = this.factor(exp);
+    return { kind: 'binary', op: '^', left: base, right, span: joinSpans(base.span, right.span) };
+  }
+
+  primary(node: CstNode): Expr {
+    const c = node.children as Children;
+    const num = toks(c, 'number')[0];
+    if (num) {
+      const unit = toks(c, 'unit')[0];
+      const span = tokSpan(this.file, num);
+      const unitSpan = unit ? tokSpan(this.file, unit) : undefined;
+      return {
+        kind: 'number',
+        value: Number(num.image),
+        text: num.image,
+        unit: unit?.image,
+        unitSpan,
+        span: unitSpan ? joinSpans(span, unitSpan) : span,
+      };
+    }
+    const callee = toks(c, 'callee')[0];
+    if (callee) {
+      const args = nodes(c, 'args').map((a) => this.expression(a));
+      const rp = toks(c, 'RParen')[0];
+      const span = tokSpan(this.file, callee);
+      return { kind: 'call', callee: callee.image, args, span: rp ? joinSpans(span, tokSpan(this.file, rp)) : span };
+    }
+    const name = toks(c, 'name')[0];
+    if (name) return { kind: 'name', name: name.image, span: tokSpan(this.file, name) };
+    return this.expression(nodes(c, 'inner')[0]!);
+  }
+}
+
+function unquote(s: string): string {
+  return s.slice(1, -1).replace(/\\(.)/g, (_, ch: string) => (ch === 'n' ? '\n' : ch === 't' ? '\t' : ch));
+}
+
+const TOKEN_WORDS: Record<string, string> = {
+  Identifier: 'a name',
+  NumberLit: 'a number',
+  StringLit: 'a quoted string',
+  Equals: '`=`',
+  Comma: '`,`',
+  LParen: '`(`',
+  RParen: '`)`',
+  At: '`at`',
+  EOF: 'the end of the line',
+};
+
+function describe(t: IToken): string {
+  if (t.tokenType.name === 'EOF') return 'the end of the line';
+  return `\`${t.image}\``;
+}
+
+/** A plain message (and a hint) for a grammar error, instead of the parser generator's token lists. */
+function explain(e: IRecognitionException, line: IToken[]): { message: string; help?: string; at: IToken } {
+  const at = e.token.tokenType.name === 'EOF' ? line[line.length - 1]! : e.token;
+  const found = describe(e.token);
+  const prev = line[line.indexOf(e.token) - 1];
+  if (e.name === 'NotAllInputParsedException' || /EOF/.test(e.message)) {
+    if (e.token.tokenType.name === 'Equals' && prev) {
+      return { message: `unexpected ${found} after \`${prev.image}\``, help: 'arguments are written `key=value`; a statement starts with a keyword and an optional name, e.g. `resistor r1 a=in b=out value=50 ohm`', at };
+    }
+    if (e.token.tokenType.name === 'NumberLit' || e.token.tokenType.name === 'Identifier') {
+      return { message: `unexpected ${found}: expected \`key=value\``, help: 'every argument after the statement name is written `key=value`', at };
+    }
+    return { message: `unexpected ${found}`, at };
+  }
+  const m = /Expecting token of type --> (\w+) <--/.exec(e.message);
+  const want = m ? TOKEN_WORDS[m[1]!] ?? m[1]! : 'a value';
+  if (e.token.tokenType.name === 'EOF') {
+    return { message: `the line ends where ${want} was expected`, help: prev?.image === '=' ? 'give a value after `=`' : undefined, at };
+  }
+  if (/one of these possible Token sequences/.test(e.message) || e.name === 'NoViableAltException') {
+    return { message: `unexpected ${found}: expected a value (a number, a name or a parenthesised expression)`, at };
+  }
+  return { message: `unexpected ${found}: expected ${want}`, at };
+}
+
+/** Parses a netlist text to its AST, reporting every lexical and grammar error into `bag`. */
+export function parseNetlist(text: string, file: string, bag: DiagnosticBag): NetlistAst {
+  const cst = parseToCst(text);
+  for (const e of cst.lexErrors) {
+    bag.error('syntax', e.message, { file, line: e.line, column: e.column, length: e.length });
+  }
+  const builder = new AstBuilder(file);
+  const statements: Statement[] = [];
+  for (const line of cst.lines) {
+    if (line.errors.length > 0) {
+      const { message, help, at } = explain(line.errors[0]!, line.tokens);
+      const span = tokSpan(file, at);
+      if (at !== line.errors[0]!.token) span.column += at.image.length; // point just past the last token
+      bag.error('syntax', message, span, help);
+      continue;
+    }
+    const st = line.cst!.children.statement as CstNode[];
+    statements.push(builder.statement(st[0]!));
+  }
+  return { file, statements };
+}

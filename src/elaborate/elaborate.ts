@@ -1,0 +1,443 @@
+import type { Arg, Expr, KeyArg, NetlistAst, Statement } from '../ast/ast.js';
+import { DiagnosticBag, type SourceSpan } from '../diagnostics/diagnostic.js';
+import { closest, didYouMean } from '../diagnostics/suggest.js';
+import { ELEMENTS } from '../elements/registry.js';
+import { GROUND, GROUND_NAME, type ElementInstance, type PropertySpec } from '../elements/types.js';
+import type { Circuit, ParameterValue, Port } from './circuit.js';
+import { describeUnit, evaluate, math, toSI, type EvalScope, type Quantity } from './evaluate.js';
+import { floatingGroups } from './islands.js';
+import { buildSweep } from './sweep.js';
+
+/** A parameter override from outside the netlist (`--set name=value`). */
+export interface Override {
+  name: string;
+  expr: Expr;
+  span: SourceSpan;
+}
+
+export interface ElaborateOptions {
+  /** Replace parameter definitions by these expressions. */
+  overrides?: Override[];
+  /** Replace the netlist's sweep statements by these. */
+  sweep?: Statement[];
+}
+
+/** Statement keywords that are not elements. */
+export const STATEMENT_KEYWORDS = ['title', 'let', 'port', 'sweep'] as const;
+
+const DEFAULT_REFERENCE = 50;
+
+/**
+ * Elaborates a parsed netlist: evaluates parameters (units carried through), checks every
+ * statement against its schema, resolves nodes and builds the sweep. Errors and warnings go into
+ * `bag`; the returned circuit is only meaningful when the bag has no errors.
+ */
+export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: ElaborateOptions = {}): Circuit {
+  const params = new Map<string, { value: Quantity | undefined; span: SourceSpan; used: boolean }>();
+  const laterParams = new Map<string, SourceSpan>();
+  const overrides = new Map<string, Override>();
+  for (const o of options.overrides ?? []) overrides.set(o.name, o);
+
+  // Names of every `let` in the file, so that a reference to a later one gets a precise message.
+  for (const st of ast.statements) {
+    if (st.keyword !== 'let') continue;
+    for (const a of st.args) if (a.kind === 'key' && !laterParams.has(a.key)) laterParams.set(a.key, a.keySpan);
+  }
+
+  const scope: EvalScope = {
+    lookup: (n) => params.get(n)?.value,
+    names: () => params.keys(),
+    used: (n) => {
+      const p = params.get(n);
+      if (p) p.used = true;
+    },
+    explainMissing: (n) => {
+      const later = laterParams.get(n);
+      if (later && !params.has(n)) return `\`${n}\` is defined later, at line ${later.line}; a parameter can only use those defined before it`;
+      return undefined;
+    },
+  };
+
+  const nodeIndex = new Map<string, number>();
+  const nodeNames: string[] = [];
+  const nodeUses: { count: number; first: SourceSpan; by: string[]; elementUses: number }[] = [];
+  const useNode = (name: string, span: SourceSpan, by: string, isPort: boolean): number => {
+    if (name === GROUND_NAME) return GROUND;
+    let i = nodeIndex.get(name);
+    if (i === undefined) {
+      i = nodeNames.length;
+      nodeIndex.set(name, i);
+      nodeNames.push(name);
+      nodeUses.push({ count: 0, first: span, by: [], elementUses: 0 });
+    }
+    const u = nodeUses[i]!;
+    u.count++;
+    u.by.push(by);
+    if (!isPort) u.elementUses++;
+    return i;
+  };
+
+  let title: string | undefined;
+  const elements: ElementInstance[] = [];
+  const elementNames = new Map<string, SourceSpan>();
+  const ports = new Map<number, Port>();
+  const sweepStatements: Statement[] = [];
+  const knownKeywords = [...STATEMENT_KEYWORDS, ...ELEMENTS.keys()];
+  /** Keys that a misspelt argument of the statement being read was taken to mean. */
+  let suggestedKeys = new Set<string>();
+
+  for (const st of ast.statements) {
+    switch (st.keyword) {
+      case 'title': {
+        const text = st.args.find((a) => a.kind === 'text');
+        if (st.label || !text || st.args.length !== 1) {
+          bag.error('bad-title', 'a title is one quoted string', st.keywordSpan, 'write `title "433 MHz harmonic filter"`');
+        } else if (title !== undefined) {
+          bag.error('duplicate-title', 'the netlist has a title already', st.keywordSpan);
+        } else title = (text as { value: string }).value;
+        break;
+      }
+      case 'let':
+        defineParameters(st);
+        break;
+      case 'port':
+        definePort(st);
+        break;
+      case 'sweep':
+        sweepStatements.push(st);
+        break;
+      default: {
+        const type = ELEMENTS.get(st.keyword);
+        if (!type) {
+          bag.error('unknown-keyword', `unknown statement \`${st.keyword}\``, st.keywordSpan, didYouMean(st.keyword, knownKeywords) ?? `a statement starts with one of: ${knownKeywords.join(', ')}`);
+          break;
+        }
+        defineElement(st, type);
+      }
+    }
+  }
+
+  function defineParameters(st: Statement) {
+    if (st.label) {
+      bag.error('bad-let', 'write a parameter as `let name = value`', st.label.span);
+      return;
+    }
+    if (st.args.length === 0) bag.error('bad-let', '`let` needs `name = value`', st.keywordSpan);
+    for (const a of st.args) {
+      if (a.kind !== 'key') {
+        bag.error('bad-let', 'write a parameter as `let name = value`', a.span);
+        continue;
+      }
+      if (a.values.length !== 1 || a.at) {
+        bag.error('bad-let', 'a parameter takes one value', a.span);
+        continue;
+      }
+      if (params.has(a.key)) {
+        bag.error('duplicate-parameter', `parameter \`${a.key}\` is defined twice (first at line ${params.get(a.key)!.span.line})`, a.keySpan);
+        continue;
+      }
+      const o = overrides.get(a.key);
+      const value = evaluate(o ? o.expr : a.values[0]!, scope, bag);
+      params.set(a.key, { value, span: a.keySpan, used: false });
+    }
+  }
+
+  function keyArgs(st: Statement, allowed: string[], what: string): Map<string, KeyArg> {
+    const m = new Map<string, KeyArg>();
+    suggestedKeys = new Set<string>();
+    for (const a of st.args) {
+      if (a.kind !== 'key') {
+        bag.error('unexpected-text', `a quoted string is not an argument of ${what}`, a.span);
+        continue;
+      }
+      if (!allowed.includes(a.key)) {
+        const near = closest(a.key, allowed);
+        if (near) suggestedKeys.add(near);
+        bag.error('unknown-argument', `${what} has no argument \`${a.key}\``, a.keySpan, near ? `did you mean \`${near}\`?` : `its arguments are: ${allowed.join(', ')}`);
+        continue;
+      }
+      if (m.has(a.key)) {
+        bag.error('duplicate-argument', `\`${a.key}\` is given twice`, a.keySpan);
+        continue;
+      }
+      m.set(a.key, a);
+    }
+    return m;
+  }
+
+  function nodeArg(a: KeyArg, by: string, isPort: boolean): number | undefined {
+    const e = a.values[0]!;
+    if (a.values.length !== 1 || e.kind !== 'name' || a.at) {
+      const help = e.kind === 'number' && e.value === 0 ? `the reference node is called \`${GROUND_NAME}\`` : 'node names are plain names such as `in`, `mid` or `ground`';
+      bag.error('bad-node', `\`${a.key}\` takes a node name`, e.span, help);
+      return undefined;
+    }
+    if (/^(gnd|GND|Gnd|Ground|GROUND)$/.test(e.name)) {
+      bag.warning('ground-alias', `node \`${e.name}\` is an ordinary node, not the reference`, e.span, `the reference node is called \`${GROUND_NAME}\``);
+    }
+    return useNode(e.name, e.span, by, isPort);
+  }
+
+  function numberArg(a: KeyArg, unit: string | null, quantity: string): number | undefined {
+    if (a.values.length !== 1) {
+      bag.error('bad-value', `\`${a.key}\` takes one value`, a.span);
+      return undefined;
+    }
+    const q = evaluate(a.values[0]!, scope, bag);
+    if (q === undefined) return undefined;
+    const r = toSI(q, unit);
+    if ('error' in r) {
+      bag.error('wrong-unit', `\`${a.key}\` must be ${unit === null ? 'a plain number' : article(quantity) + ` (${unit})`}, but ${r.error}`, a.values[0]!.span, unitHelp(unit));
+      return undefined;
+    }
+    if (!Number.isFinite(r.value)) {
+      bag.error('bad-value', `\`${a.key}\` is not finite`, a.values[0]!.span);
+      return undefined;
+    }
+    return r.value;
+  }
+
+  function atArg(a: KeyArg): number | undefined {
+    if (!a.at) return undefined;
+    const q = evaluate(a.at, scope, bag);
+    if (q === undefined) return undefined;
+    const r = toSI(q, 'Hz');
+    if ('error' in r) {
+      bag.error('wrong-unit', `the value after \`at\` must be a frequency (Hz), but ${r.error}`, a.at.span, unitHelp('Hz'));
+      return undefined;
+    }
+    return r.value;
+  }
+
+  function defineElement(st: Statement, type: NonNullable<ReturnType<typeof ELEMENTS.get>>) {
+    const what = `\`${type.keyword}\``;
+    if (!st.label || st.label.isNumber) {
+      bag.error('missing-name', `${what} needs a name after the keyword`, st.label?.span ?? st.keywordSpan, `e.g. \`${type.example}\``);
+      return;
+    }
+    const name = st.label.text;
+    const prev = elementNames.get(name);
+    if (prev) {
+      bag.error('duplicate-name', `an element named \`${name}\` exists already (line ${prev.line})`, st.label.span);
+      return;
+    }
+    elementNames.set(name, st.label.span);
+    const allowed = [...type.terminals.map((t) => t.key), ...type.properties.map((p) => p.key)];
+    const args = keyArgs(st, allowed, what);
+    const el: ElementInstance = { type: type.keyword, name, nodes: [], nodeNames: [], props: {}, at: {}, span: st.span, propSpans: {} };
+    let ok = true;
+    for (const t of type.terminals) {
+      const a = args.get(t.key);
+      if (!a) {
+        if (suggestedKeys.has(t.key)) {
+          ok = false;
+          continue;
+        }
+        if (t.defaultNode !== undefined) {
+          el.nodes.push(useNode(t.defaultNode, st.label.span, name, false));
+          el.nodeNames.push(t.defaultNode);
+          continue;
+        }
+        bag.error('missing-terminal', `${what} \`${name}\` needs terminal \`${t.key}\` (${t.doc})`, st.label.span, `add \`${t.key}=<node>\``);
+        ok = false;
+        continue;
+      }
+      const n = nodeArg(a, name, false);
+      if (n === undefined) ok = false;
+      el.nodes.push(n ?? GROUND);
+      el.nodeNames.push((a.values[0] as { name?: string }).name ?? '?');
+    }
+    for (const p of type.properties) {
+      const a = args.get(p.key);
+      if (!a) {
+        if (p.required && suggestedKeys.has(p.key)) ok = false;
+        else if (p.required) {
+          bag.error('missing-property', `${what} \`${name}\` needs \`${p.key}\` (${p.doc})`, st.label.span, `add \`${p.key}=<${p.quantity}>\``);
+          ok = false;
+        } else if (p.defaultValue !== undefined) el.props[p.key] = p.defaultValue;
+        continue;
+      }
+      el.propSpans[p.key] = a.span;
+      if (a.at && !p.takesAt) {
+        bag.error('unexpected-at', `\`${p.key}\` does not take \`at\``, a.at.span);
+        ok = false;
+      }
+      if (p.takesAt && !a.at) {
+        bag.error('missing-at', `\`${p.key}\` needs the frequency it holds at`, a.span, `write e.g. \`${p.key}=40 at 433 MHz\``);
+        ok = false;
+      }
+      const v = numberArg(a, p.unit, p.quantity);
+      if (v === undefined) {
+        ok = false;
+        continue;
+      }
+      if (!signOk(p, v)) {
+        bag.error('bad-value', `\`${p.key}\` must be ${p.sign === 'positive' ? 'above zero' : p.sign === 'nonnegative' ? 'zero or more' : 'other than zero'}`, a.values[0]!.span);
+        ok = false;
+      }
+      el.props[p.key] = v;
+      if (p.takesAt && a.at) {
+        const f = atArg(a);
+        if (f === undefined) ok = false;
+        else el.at[p.key] = f;
+      }
+    }
+    if (!ok) return;
+    type.validate?.(el, (message, key, help) => bag.error('bad-element', message, (key && args.get(key)?.span) || st.label!.span, help));
+    if (el.nodes.length === 2 && el.nodes[0] === el.nodes[1]) {
+      bag.warning('shorted-element', `both terminals of \`${name}\` are on node \`${el.nodeNames[0]}\`: it has no effect`, st.span);
+    }
+    elements.push(el);
+  }
+
+  function definePort(st: Statement) {
+    if (!st.label || !st.label.isNumber || !/^\d+$/.test(st.label.text) || Number(st.label.text) < 1) {
+      bag.error('bad-port', 'a port needs a number from 1 after `port`', st.label?.span ?? st.keywordSpan, 'e.g. `port 1 plus=in ref=50 ohm`');
+      return;
+    }
+    const number = Number(st.label.text);
+    if (ports.has(number)) {
+      bag.error('duplicate-port', `port ${number} is defined twice (first at line ${ports.get(number)!.span.line})`, st.label.span);
+      return;
+    }
+    const args = keyArgs(st, ['plus', 'minus', 'ref'], '`port`');
+    const plusArg = args.get('plus');
+    if (!plusArg) {
+      bag.error('missing-terminal', `port ${number} needs \`plus=<node>\``, st.label.span, '`minus` defaults to ground');
+      return;
+    }
+    const by = `port ${number}`;
+    const plus = nodeArg(plusArg, by, true);
+    const minusArg = args.get('minus');
+    const minus = minusArg ? nodeArg(minusArg, by, true) : GROUND;
+    const refArg = args.get('ref');
+    const reference = refArg ? numberArg(refArg, 'ohm', 'resistance') : DEFAULT_REFERENCE;
+    if (plus === undefined || minus === undefined || reference === undefined) return;
+    if (!(reference > 0)) {
+      bag.error('bad-value', 'a reference impedance must be above 0 ohm', refArg!.values[0]!.span);
+      return;
+    }
+    if (plus === minus) {
+      bag.error('bad-port', `port ${number} has both terminals on the same node`, st.span);
+      return;
+    }
+    const name = (a: KeyArg | undefined) => (a ? (a.values[0] as { name: string }).name : GROUND_NAME);
+    ports.set(number, { number, plus, minus, plusName: name(plusArg), minusName: name(minusArg), reference, span: st.span });
+  }
+
+  // Sweep: the override wins over the file's statements.
+  const sweepSource = options.sweep && options.sweep.length > 0 ? options.sweep : sweepStatements;
+  const frequencies = buildSweep(sweepSource, bag, (a, unit, quantity) => numberArg(a, unit, quantity), (st, allowed, what) => keyArgs(st, allowed, what));
+  if (sweepSource.length === 0) {
+    bag.error('no-sweep', 'the netlist has no `sweep`', { file: ast.file, line: 1, column: 1, length: 1 }, 'add e.g. `sweep linear start=1 MHz stop=1 GHz points=201`, or give `--sweep` on the command line');
+  }
+
+  // Ports: numbered 1..N without gaps.
+  const portList = [...ports.values()].sort((a, b) => a.number - b.number);
+  if (portList.length === 0 && !bag.hasErrors) {
+    bag.error('no-ports', 'the netlist has no `port`', { file: ast.file, line: 1, column: 1, length: 1 }, 'add e.g. `port 1 plus=in`');
+  }
+  portList.forEach((p, i) => {
+    if (p.number !== i + 1) {
+      bag.error('port-gap', `ports must be numbered 1 to ${portList.length} without gaps; port ${i + 1} is missing`, p.span);
+    }
+  });
+
+  // Overrides that name no parameter.
+  for (const o of overrides.values()) {
+    if (!params.has(o.name)) {
+      bag.error('unknown-parameter', `\`--set ${o.name}\`: the netlist has no parameter \`${o.name}\``, o.span, didYouMean(o.name, params.keys()));
+    }
+  }
+
+  // Warnings about the connections.
+  nodeUses.forEach((u, i) => {
+    const name = nodeNames[i]!;
+    if (u.elementUses === 0) {
+      bag.warning('port-on-bare-node', `${u.by[0]} is on node \`${name}\`, which no element touches`, u.first);
+    } else if (u.count === 1) {
+      bag.warning('dangling-node', `node \`${name}\` has a single connection (${u.by[0]})`, u.first, didYouMean(name, nodeNames.filter((n) => n !== name)) ?? 'check the spelling of the node name');
+    }
+  });
+  for (const [name, p] of params) {
+    if (!p.used && !overrides.has(name)) {
+      bag.warning('unused-parameter', `parameter \`${name}\` is never used`, p.span);
+    }
+  }
+
+  // Node groups with no path to ground: a group that carries a port is a balanced network and is
+  // given a reference of its own (its first node), which changes nothing since no current can
+  // flow to ground from it; a group with neither ground nor a port is a mistake.
+  const localReferences: number[] = [];
+  const portNodes = new Set(portList.flatMap((p) => [p.plus, p.minus]));
+  const links = [...elements.map((e) => e.nodes), ...portList.map((p) => [p.plus, p.minus])];
+  for (const group of bag.hasErrors ? [] : floatingGroups(nodeNames.length, links)) {
+    if (group.some((n) => portNodes.has(n))) {
+      localReferences.push(group[0]!);
+      continue;
+    }
+    const names = group.map((n) => `\`${nodeNames[n]}\``);
+    const shown = names.length > 6 ? [...names.slice(0, 6), `and ${names.length - 6} more`] : names;
+    bag.error('floating-nodes', `${group.length === 1 ? 'node' : 'nodes'} ${shown.join(', ')} ${group.length === 1 ? 'is' : 'are'} connected neither to ground nor to any port`, nodeUses[group[0]!]!.first, 'connect the group to `ground` or put a port across it');
+  }
+
+  const parameters: ParameterValue[] = [];
+  for (const [name, p] of params) {
+    if (p.value === undefined) continue;
+    parameters.push({ name, ...siOf(p.value), span: p.span });
+  }
+
+  return {
+    file: ast.file,
+    title,
+    nodeNames,
+    elements,
+    ports: portList,
+    localReferences,
+    frequencies,
+    parameters,
+    warnings: bag.items.filter((d) => d.severity === 'warning'),
+  };
+}
+
+function signOk(p: PropertySpec, v: number): boolean {
+  switch (p.sign) {
+    case 'positive':
+      return v > 0;
+    case 'nonnegative':
+      return v >= 0;
+    case 'nonzero':
+      return v !== 0;
+    default:
+      return true;
+  }
+}
+
+function article(quantity: string): string {
+  return /^[aeiou]/.test(quantity) ? `an ${quantity}` : `a ${quantity}`;
+}
+
+const UNIT_EXAMPLES: Record<string, string> = {
+  F: 'e.g. `4.7 pF`',
+  H: 'e.g. `22 nH`',
+  ohm: 'e.g. `50 ohm` or `4.7 kohm`',
+  S: 'e.g. `20 mS`',
+  Hz: 'e.g. `433 MHz`',
+};
+
+function unitHelp(unit: string | null): string | undefined {
+  if (unit === null) return 'give a plain number';
+  const ex = UNIT_EXAMPLES[unit];
+  return `give ${describeUnit(unit)}${ex ? `, ${ex}` : ''}; a bare number is read in ${unit}`;
+}
+
+const SI_UNITS = ['ohm', 'S', 'F', 'H', 'Hz', 's', 'm', 'rad'];
+
+function siOf(q: Quantity): { value: number; unit: string } {
+  if (typeof q === 'number') return { value: q, unit: '' };
+  for (const u of SI_UNITS) if (q.equalBase(math.unit(1, u))) return { value: q.toNumber(u), unit: u };
+  const si = q.toSI();
+  return { value: (si as unknown as { value: number }).value, unit: si.formatUnits() };
+}
+
+export type { Arg };

@@ -1,0 +1,43 @@
+import { addAdmittance, admittanceSlots } from './stamp.js';
+import type { ElementType } from './types.js';
+
+/**
+ * A capacitor, optionally lossy through a series resistance (ESR): either given directly (`esr=`)
+ * or from a quality factor at a stated frequency (`q=Q at f0`), which sets ESR = 1/(2π·f0·C·Q).
+ * The ESR is then held constant over frequency, so the model's Q falls as 1/f away from f0.
+ *
+ * Admittance: Y = jωC / (1 + jωC·ESR).
+ */
+export const capacitor: ElementType = {
+  keyword: 'capacitor',
+  summary: 'capacitor between terminals a and b, with optional series loss (esr, or q at a frequency)',
+  example: 'capacitor cshunt a=mid b=ground value=6.8 pF q=300 at 433 MHz',
+  terminals: [
+    { key: 'a', doc: 'first terminal' },
+    { key: 'b', doc: 'second terminal' },
+  ],
+  properties: [
+    { key: 'value', unit: 'F', quantity: 'capacitance', required: true, sign: 'positive', doc: 'capacitance' },
+    { key: 'esr', unit: 'ohm', quantity: 'resistance', sign: 'nonnegative', doc: 'equivalent series resistance' },
+    { key: 'q', unit: null, quantity: 'quality factor', takesAt: true, sign: 'positive', doc: 'quality factor at the frequency after `at`' },
+  ],
+  validate(el, fail) {
+    if (el.props.esr !== undefined && el.props.q !== undefined) {
+      fail('give the loss either as `esr` or as `q`, not both', 'q');
+    }
+    if (el.props.q !== undefined && !(el.at.q! > 0)) fail('the frequency after `at` must be above 0 Hz', 'q');
+  },
+  openAt: (_el, omega) => omega === 0,
+  compile(el, b) {
+    const s = admittanceSlots(b, el.nodes[0]!, el.nodes[1]!);
+    const c = el.props.value!;
+    const q = el.props.q;
+    const r = q !== undefined ? 1 / (2 * Math.PI * el.at.q! * c * q) : (el.props.esr ?? 0);
+    return (omega, v) => {
+      // Y = jωC / (1 + jωCR) = (ω²C²R + jωC) / (1 + (ωCR)²)
+      const wc = omega * c;
+      const d = 1 + wc * r * wc * r;
+      addAdmittance(v, s, (wc * wc * r) / d, wc / d);
+    };
+  },
+};

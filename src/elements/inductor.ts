@@ -1,0 +1,38 @@
+import { addBranchImpedance, branchSlots } from './stamp.js';
+import type { ElementType } from './types.js';
+
+/**
+ * An inductor, optionally lossy through a series resistance: given directly (`rs=`) or from a
+ * quality factor at a stated frequency (`q=Q at f0`), which sets Rs = 2π·f0·L/Q, held constant over
+ * frequency (so the model's Q rises in proportion to f away from f0).
+ *
+ * Stamped with a branch current so that it is an exact short at 0 Hz: v_a − v_b = (Rs + jωL)·i.
+ */
+export const inductor: ElementType = {
+  keyword: 'inductor',
+  summary: 'inductor between terminals a and b, with optional series loss (rs, or q at a frequency)',
+  example: 'inductor lseries a=in b=mid value=22 nH q=45 at 433 MHz',
+  terminals: [
+    { key: 'a', doc: 'first terminal' },
+    { key: 'b', doc: 'second terminal' },
+  ],
+  properties: [
+    { key: 'value', unit: 'H', quantity: 'inductance', required: true, sign: 'positive', doc: 'inductance' },
+    { key: 'rs', unit: 'ohm', quantity: 'resistance', sign: 'nonnegative', doc: 'series resistance' },
+    { key: 'q', unit: null, quantity: 'quality factor', takesAt: true, sign: 'positive', doc: 'quality factor at the frequency after `at`' },
+  ],
+  validate(el, fail) {
+    if (el.props.rs !== undefined && el.props.q !== undefined) {
+      fail('give the loss either as `rs` or as `q`, not both', 'q');
+    }
+    if (el.props.q !== undefined && !(el.at.q! > 0)) fail('the frequency after `at` must be above 0 Hz', 'q');
+  },
+  compile(el, b) {
+    const i = b.branch(`current through ${el.name}`);
+    const s = branchSlots(b, el.nodes[0]!, el.nodes[1]!, i);
+    const l = el.props.value!;
+    const q = el.props.q;
+    const r = q !== undefined ? (2 * Math.PI * el.at.q! * l) / q : (el.props.rs ?? 0);
+    return (omega, v) => addBranchImpedance(v, s, r, omega * l);
+  },
+};

@@ -1,0 +1,85 @@
+import type { SourceSpan } from '../diagnostics/diagnostic.js';
+
+/** Ground: the reserved node name and its index. */
+export const GROUND_NAME = 'ground';
+export const GROUND = -1;
+
+/** A named terminal of an element, given in the netlist as `key=node`. */
+export interface TerminalSpec {
+  key: string;
+  doc: string;
+  /** Node used when the terminal is not given; absent means the terminal is required. */
+  defaultNode?: string;
+}
+
+/** A numeric property of an element, given as `key=expression [at frequency]`. */
+export interface PropertySpec {
+  key: string;
+  /** SI unit the value must have the dimension of (`F`, `H`, `ohm`, `S`, `Hz`…); null for a pure number. */
+  unit: string | null;
+  /** What the quantity is called, for messages ("capacitance"). */
+  quantity: string;
+  required?: boolean;
+  /** Value used when the property is not given. */
+  defaultValue?: number;
+  /** Whether the property takes `at <frequency>` (and then requires it). */
+  takesAt?: boolean;
+  /** Sign rule checked at elaboration. */
+  sign?: 'positive' | 'nonnegative' | 'nonzero';
+  doc: string;
+}
+
+/** An element after elaboration: plain numbers in SI units, nodes as indices. */
+export interface ElementInstance {
+  type: string;
+  name: string;
+  /** Node index per terminal, in the order of the type's `terminals`; GROUND (-1) for ground. */
+  nodes: number[];
+  /** Node names per terminal, for messages. */
+  nodeNames: string[];
+  /** Property values in SI units (only those given or defaulted). */
+  props: Record<string, number>;
+  /** For properties given with `at f`: that frequency in Hz. */
+  at: Record<string, number>;
+  span: SourceSpan;
+  /** Where each property was written, for messages. */
+  propSpans: Record<string, SourceSpan>;
+}
+
+/**
+ * What an element can ask of the stamp plan while it is compiled: unknown indices and matrix
+ * slots. Slots are fixed once per circuit; the per-frequency stampers only add numbers into them.
+ */
+export interface StampBuilder {
+  /** A fresh unknown (an extra row and column), e.g. a branch current. */
+  branch(label: string): number;
+  /** The slot of matrix entry (row, col); -1 when either is ground. */
+  entry(row: number, col: number): number;
+}
+
+/**
+ * Adds this element's contribution at angular frequency `omega` into the slot values `v`
+ * (complex interleaved: slot s has its real part at 2s and imaginary part at 2s+1).
+ * Must not allocate.
+ */
+export type Stamper = (omega: number, v: Float64Array) => void;
+
+/** Everything one element type is: its netlist schema, its documentation and its stamp. */
+export interface ElementType {
+  keyword: string;
+  /** One line for the grammar reference and `--help`. */
+  summary: string;
+  /** A netlist line using the element. */
+  example: string;
+  terminals: readonly TerminalSpec[];
+  properties: readonly PropertySpec[];
+  /** Cross-property rules (e.g. two loss forms given at once); report problems through `fail`. */
+  validate?(el: ElementInstance, fail: (message: string, key?: string, help?: string) => void): void;
+  /**
+   * Whether the element conducts nothing between its terminals at angular frequency `omega`
+   * (a capacitor at 0 Hz). Used only to explain a singular system; absent means "never open".
+   */
+  openAt?(el: ElementInstance, omega: number): boolean;
+  /** Compiles the element into a stamper over fixed slots. */
+  compile(el: ElementInstance, b: StampBuilder): Stamper;
+}

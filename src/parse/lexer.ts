@@ -1,0 +1,56 @@
+import { createToken, Lexer, type TokenType } from 'chevrotain';
+
+// Token vocabulary of the netlist language. Statements are line-based: a newline ends one,
+// a backslash at the end of a line continues it. `#` starts a comment that runs to the end of the line.
+
+export const WhiteSpace = createToken({ name: 'WhiteSpace', pattern: /[ \t]+/, group: Lexer.SKIPPED });
+export const Continuation = createToken({
+  name: 'Continuation',
+  pattern: /\\[ \t]*(?:#[^\n\r]*)?\r?\n/,
+  group: Lexer.SKIPPED,
+  line_breaks: true,
+});
+export const Comment = createToken({ name: 'Comment', pattern: /#[^\n\r]*/, group: Lexer.SKIPPED });
+export const Newline = createToken({ name: 'Newline', pattern: /\r?\n|\r/, line_breaks: true });
+export const StringLit = createToken({ name: 'StringLit', pattern: /"(?:[^"\\\n\r]|\\.)*"/ });
+export const NumberLit = createToken({
+  name: 'NumberLit',
+  pattern: /(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?/,
+});
+export const Identifier = createToken({
+  name: 'Identifier',
+  pattern: /[A-Za-z_\u00B5\u03BC\u03A9][A-Za-z0-9_\u00B5\u03BC\u03A9]*/,
+});
+/** `at` introduces the frequency a loss figure is given at (`q=40 at 433 MHz`). */
+export const At = createToken({ name: 'At', pattern: /at\b/, longer_alt: Identifier });
+export const Equals = createToken({ name: 'Equals', pattern: /=/ });
+export const Comma = createToken({ name: 'Comma', pattern: /,/ });
+export const LParen = createToken({ name: 'LParen', pattern: /\(/ });
+export const RParen = createToken({ name: 'RParen', pattern: /\)/ });
+export const Plus = createToken({ name: 'Plus', pattern: /\+/ });
+export const Minus = createToken({ name: 'Minus', pattern: /-/ });
+export const Star = createToken({ name: 'Star', pattern: /\*/ });
+export const Slash = createToken({ name: 'Slash', pattern: /\// });
+export const Caret = createToken({ name: 'Caret', pattern: /\^/ });
+
+export const allTokens: TokenType[] = [
+  WhiteSpace,
+  Continuation,
+  Comment,
+  Newline,
+  StringLit,
+  NumberLit,
+  At,
+  Identifier,
+  Equals,
+  Comma,
+  LParen,
+  RParen,
+  Plus,
+  Minus,
+  Star,
+  Slash,
+  Caret,
+];
+
+export const netlistLexer = new Lexer(allTokens, { positionTracking: 'full', ensureOptimizations: false });

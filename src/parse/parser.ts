@@ -1,0 +1,220 @@
+import { CstParser, EOF, type CstNode, type IToken, type IRecognitionException } from 'chevrotain';
+import {
+  allTokens,
+  At,
+  Caret,
+  Comma,
+  Equals,
+  Identifier,
+  LParen,
+  Minus,
+  Newline,
+  NumberLit,
+  Plus,
+  RParen,
+  Slash,
+  Star,
+  StringLit,
+  netlistLexer,
+} from './lexer.js';
+
+/**
+ * The pure grammar of the netlist language (no semantics: those live in the AST visitor).
+ *
+ *   statement   := Identifier [label] argument*
+ *   label       := Identifier (not followed by '=') | NumberLit
+ *   argument    := Identifier '=' valueList [At expression] | StringLit
+ *   valueList   := expression (',' expression)*
+ *   expression  := term (('+' | '-') term)*
+ *   term        := factor (('*' | '/') factor)*
+ *   factor      := ('-' | '+') factor | power
+ *   power       := primary ['^' factor]
+ *   primary     := NumberLit [unit] | Identifier '(' [expression (',' expression)*] ')' | Identifier | '(' expression ')'
+ *   unit        := Identifier (not followed by '=' or '(')
+ *
+ * A file is a sequence of lines; each non-empty line is one statement (a trailing backslash continues a line).
+ */
+export class NetlistParser extends CstParser {
+  constructor() {
+    super(allTokens, { maxLookahead: 3, recoveryEnabled: false });
+    this.performSelfAnalysis();
+  }
+
+  /** One line of the file: exactly one statement and nothing after it. */
+  public line = this.RULE('line', () => {
+    this.SUBRULE(this.statement);
+    this.CONSUME(EOF);
+  });
+
+  public statement = this.RULE('statement', () => {
+    this.CONSUME(Identifier, { LABEL: 'keyword' });
+    this.OPTION({
+      GATE: () => this.LA(2).tokenType !== Equals,
+      DEF: () => {
+        this.OR([
+          { ALT: () => this.CONSUME2(Identifier, { LABEL: 'label' }) },
+          { ALT: () => this.CONSUME(NumberLit, { LABEL: 'label' }) },
+        ]);
+      },
+    });
+    this.MANY(() => this.SUBRULE(this.argument));
+  });
+
+  public argument = this.RULE('argument', () => {
+    this.OR([
+      {
+        ALT: () => {
+          this.CONSUME(Identifier, { LABEL: 'key' });
+          this.CONSUME(Equals);
+          this.SUBRULE(this.valueList);
+          this.OPTION(() => {
+            this.CONSUME(At);
+            this.SUBRULE(this.expression, { LABEL: 'atValue' });
+          });
+        },
+      },
+      { ALT: () => this.CONSUME(StringLit, { LABEL: 'text' }) },
+    ]);
+  });
+
+  public valueList = this.RULE('valueList', () => {
+    this.SUBRULE(this.expression, { LABEL: 'items' });
+    this.MANY(() => {
+      this.CONSUME(Comma);
+      this.SUBRULE2(this.expression, { LABEL: 'items' });
+    });
+  });
+
+  public expression = this.RULE('expression', () => {
+    this.SUBRULE(this.term, { LABEL: 'operands' });
+    this.MANY(() => {
+      this.OR([
+        { ALT: () => this.CONSUME(Plus, { LABEL: 'operators' }) },
+        { ALT: () => this.CONSUME(Minus, { LABEL: 'operators' }) },
+      ]);
+      this.SUBRULE2(this.term, { LABEL: 'operands' });
+    });
+  });
+
+  public term = this.RULE('term', () => {
+    this.SUBRULE(this.factor, { LABEL: 'operands' });
+    this.MANY(() => {
+      this.OR([
+        { ALT: () => this.CONSUME(Star, { LABEL: 'operators' }) },
+        { ALT: () => this.CONSUME(Slash, { LABEL: 'operators' }) },
+      ]);
+      this.SUBRULE2(this.factor, { LABEL: 'operands' });
+    });
+  });
+
+  public factor = this.RULE('factor', () => {
+    this.OR([
+      {
+        ALT: () => {
+          this.OR2([
+            { ALT: () => this.CONSUME(Minus, { LABEL: 'sign' }) },
+            { ALT: () => this.CONSUME(Plus, { LABEL: 'sign' }) },
+          ]);
+          this.SUBRULE(this.factor, { LABEL: 'operand' });
+        },
+      },
+      { ALT: () => this.SUBRULE(this.power) },
+    ]);
+  });
+
+  public power = this.RULE('power', () => {
+    this.SUBRULE(this.primary, { LABEL: 'base' });
+    this.OPTION(() => {
+      this.CONSUME(Caret);
+      this.SUBRULE(this.factor, { LABEL: 'exponent' });
+    });
+  });
+
+  public primary = this.RULE('primary', () => {
+    this.OR([
+      {
+        ALT: () => {
+          this.CONSUME(NumberLit, { LABEL: 'number' });
+          this.OPTION({
+            GATE: () => this.LA(2).tokenType !== Equals && this.LA(2).tokenType !== LParen,
+            DEF: () => this.CONSUME(Identifier, { LABEL: 'unit' }),
+          });
+        },
+      },
+      {
+        GATE: () => this.LA(2).tokenType === LParen,
+        ALT: () => {
+          this.CONSUME2(Identifier, { LABEL: 'callee' });
+          this.CONSUME(LParen);
+          this.OPTION2(() => {
+            this.SUBRULE(this.expression, { LABEL: 'args' });
+            this.MANY(() => {
+              this.CONSUME(Comma);
+              this.SUBRULE2(this.expression, { LABEL: 'args' });
+            });
+          });
+          this.CONSUME(RParen);
+        },
+      },
+      { ALT: () => this.CONSUME3(Identifier, { LABEL: 'name' }) },
+      {
+        ALT: () => {
+          this.CONSUME2(LParen);
+          this.SUBRULE3(this.expression, { LABEL: 'inner' });
+          this.CONSUME2(RParen);
+        },
+      },
+    ]);
+  });
+}
+
+/** One parser instance serves every parse (chevrotain parsers are reusable by resetting their input). */
+export const parser = new NetlistParser();
+
+export interface LexError {
+  line: number;
+  column: number;
+  length: number;
+  message: string;
+}
+
+export interface ParsedLine {
+  cst: CstNode | undefined;
+  tokens: IToken[];
+  errors: IRecognitionException[];
+}
+
+export interface CstFile {
+  lines: ParsedLine[];
+  lexErrors: LexError[];
+}
+
+/**
+ * Tokenises a whole file, then parses it statement by statement, so that a mistake on one line
+ * does not hide mistakes on the others.
+ */
+export function parseToCst(text: string): CstFile {
+  const lexed = netlistLexer.tokenize(text);
+  const lexErrors: LexError[] = lexed.errors.map((e) => ({
+    line: e.line ?? 1,
+    column: e.column ?? 1,
+    length: e.length,
+    message: `unexpected character ${JSON.stringify(text.substr(e.offset, 1))}`,
+  }));
+  const lines: ParsedLine[] = [];
+  let current: IToken[] = [];
+  const flush = () => {
+    if (current.length === 0) return;
+    parser.input = current;
+    const cst = parser.line();
+    const errors = parser.errors.slice();
+    lines.push({ cst: errors.length ? undefined : cst, tokens: current, errors });
+    current = [];
+  };
+  for (const tok of lexed.tokens) {
+    if (tok.tokenType === Newline) flush();
+    else current.push(tok);
+  }
+  flush();
+  return { lines, lexErrors };
+}

@@ -1,0 +1,106 @@
+import type { Circuit } from '../elaborate/circuit.js';
+import { ELEMENTS } from '../elements/registry.js';
+import { addAdmittance, admittanceSlots } from '../elements/stamp.js';
+import { GROUND, type StampBuilder, type Stamper } from '../elements/types.js';
+
+/**
+ * The stamp plan of a circuit: the unknowns, the fixed sparsity pattern (one slot per distinct
+ * matrix entry), and one stamper per element that adds its values into those slots at a given
+ * frequency. It is built once per circuit; the sweep only runs the stampers.
+ *
+ * Ports are terminated in their reference impedances (a conductance 1/Zref across each port), so
+ * the system is the one whose solution gives the incident/reflected power waves directly; see
+ * `solve/sweep.ts`.
+ */
+export interface StampPlan {
+  /** Number of unknowns: node voltages first, then branch currents. */
+  size: number;
+  /** Unknown index of each circuit node, or GROUND for ground and local references. */
+  nodeUnknown: Int32Array;
+  /** What each unknown is, for messages: a node name or a branch description. */
+  unknownNames: string[];
+  /** Row and column of each slot. */
+  slotRow: Int32Array;
+  slotCol: Int32Array;
+  stampers: Stamper[];
+  /** Per port: unknown of its plus and minus terminals (GROUND = -1) and its reference in ohms. */
+  portPlus: Int32Array;
+  portMinus: Int32Array;
+  portReference: Float64Array;
+}
+
+/** Builds the stamp plan: assigns unknowns, fixes the pattern and compiles every element. */
+export function buildPlan(circuit: Circuit): StampPlan {
+  const nodeUnknown = new Int32Array(circuit.nodeNames.length);
+  const unknownNames: string[] = [];
+  const local = new Set(circuit.localReferences);
+  for (let i = 0; i < circuit.nodeNames.length; i++) {
+    if (local.has(i)) {
+      nodeUnknown[i] = GROUND;
+      continue;
+    }
+    nodeUnknown[i] = unknownNames.length;
+    unknownNames.push(`node \`${circuit.nodeNames[i]}\``);
+  }
+  const toUnknown = (node: number) => (node === GROUND ? GROUND : nodeUnknown[node]!);
+
+  // Slots are handed out in order of first use; entries touching ground get no slot.
+  const slotIndex = new Map<number, number>();
+  const rows: number[] = [];
+  const cols: number[] = [];
+  // Branches are numbered after the nodes; their final index is known only at the end,
+  // so stampers refer to unknowns through this builder while compiling.
+  const branchNames: string[] = [];
+  const nodeCount = unknownNames.length;
+  const builder: StampBuilder = {
+    branch(label) {
+      branchNames.push(label);
+      return nodeCount + branchNames.length - 1;
+    },
+    entry(row, col) {
+      if (row < 0 || col < 0) return -1;
+      // key on (row, col); sizes stay far below 2^26 unknowns
+      const key = row * 67108864 + col;
+      let s = slotIndex.get(key);
+      if (s === undefined) {
+        s = rows.length;
+        slotIndex.set(key, s);
+        rows.push(row);
+        cols.push(col);
+      }
+      return s;
+    },
+  };
+
+  const stampers: Stamper[] = [];
+  for (const el of circuit.elements) {
+    const type = ELEMENTS.get(el.type)!;
+    const mapped = { ...el, nodes: el.nodes.map(toUnknown) };
+    stampers.push(type.compile(mapped, builder));
+  }
+  const portPlus = new Int32Array(circuit.ports.length);
+  const portMinus = new Int32Array(circuit.ports.length);
+  const portReference = new Float64Array(circuit.ports.length);
+  circuit.ports.forEach((p, k) => {
+    portPlus[k] = toUnknown(p.plus);
+    portMinus[k] = toUnknown(p.minus);
+    portReference[k] = p.reference;
+    const s = admittanceSlots(builder, portPlus[k]!, portMinus[k]!);
+    const g = 1 / p.reference;
+    stampers.push((_omega, v) => addAdmittance(v, s, g, 0));
+  });
+  // Every unknown gets its diagonal slot, so that the pattern is structurally square.
+  const size = nodeCount + branchNames.length;
+  for (let i = 0; i < size; i++) builder.entry(i, i);
+  return {
+    size,
+    nodeUnknown,
+    unknownNames: [...unknownNames, ...branchNames],
+    slotRow: Int32Array.from(rows),
+    slotCol: Int32Array.from(cols),
+    stampers,
+    portPlus,
+    portMinus,
+    portReference,
+  };
+}

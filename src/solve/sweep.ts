@@ -1,0 +1,167 @@
+import type { Circuit } from '../elaborate/circuit.js';
+import { NodeSets } from '../elaborate/islands.js';
+import { ELEMENTS } from '../elements/registry.js';
+import { GROUND } from '../elements/types.js';
+import { createLu, luFactor, luSolve, rcondEstimate, LU_OK } from '../network/complex.js';
+import type { NetworkData } from '../network/types.js';
+import { buildPlan, type StampPlan } from '../plan/plan.js';
+
+/** Reciprocal condition number below which a system counts as singular to working precision. */
+export const SINGULAR_RCOND = 1e-15;
+
+/** The nodal system has no unique solution at some frequency (a floating node, say). */
+export class SingularSystemError extends Error {
+  constructor(
+    message: string,
+    /** Frequency in Hz where it happened. */
+    readonly frequency: number,
+    /** The nodes (or unknowns) to blame, by name. */
+    readonly culprits: string[],
+    readonly help?: string,
+  ) {
+    super(message);
+    this.name = 'SingularSystemError';
+  }
+}
+
+export interface SweepOptions {
+  /** Frequencies in Hz (default: the circuit's sweep). */
+  frequencies?: Float64Array;
+  /** A plan built earlier for the same circuit. */
+  plan?: StampPlan;
+}
+
+/**
+ * Solves the circuit's S-parameters over the sweep.
+ *
+ * Method: every port j is terminated in its reference Zj and driven, one at a time, by a Norton
+ * source of 2/√Zj (the Thevenin source 2√Zj behind Zj), which makes the incident power wave
+ * a_j = 1 and all others zero. Then the reflected waves are b_i = (v_i − Zi·i_i)/(2√Zi) =
+ * v_i/√Zi − δij, so S_ij = v_i/√Zi − δij with v_i the voltage across port i. This equals
+ * S = (Z̄+U)⁻¹(Z̄−U), Z̄ = G·Z·G, G = diag(1/√Zref), wherever Z exists, but needs neither Z nor Y:
+ * only the terminated nodal system must be regular.
+ *
+ * The loop over frequencies allocates nothing: the matrix, factors and right-hand sides are
+ * allocated once.
+ */
+export function solveSweep(circuit: Circuit, options: SweepOptions = {}): NetworkData {
+  const plan = options.plan ?? buildPlan(circuit);
+  const freqs = options.frequencies ?? circuit.frequencies;
+  const n = plan.size;
+  const p = plan.portPlus.length;
+  const nSlots = plan.slotRow.length;
+  const vals = new Float64Array(2 * nSlots);
+  const pos = new Int32Array(nSlots);
+  for (let s = 0; s < nSlots; s++) pos[s] = 2 * (plan.slotRow[s]! * n + plan.slotCol[s]!);
+  const a = new Float64Array(2 * n * n);
+  const lu = createLu(n);
+  const rhs = new Float64Array(2 * n * p);
+  const x = new Float64Array(2 * n * p);
+  const sqrtRef = plan.portReference.map(Math.sqrt);
+  const out = new Float64Array(2 * p * p * freqs.length);
+  const stampers = plan.stampers;
+
+  // Right-hand sides are the same at every frequency.
+  for (let j = 0; j < p; j++) {
+    const drive = 2 / sqrtRef[j]!;
+    const pl = plan.portPlus[j]!;
+    const mi = plan.portMinus[j]!;
+    if (pl !== GROUND) rhs[2 * (pl * p + j)] += drive;
+    if (mi !== GROUND) rhs[2 * (mi * p + j)] -= drive;
+  }
+
+  for (let k = 0; k < freqs.length; k++) {
+    const omega = 2 * Math.PI * freqs[k]!;
+    vals.fill(0);
+    for (let e = 0; e < stampers.length; e++) stampers[e]!(omega, vals);
+    a.fill(0);
+    for (let s = 0; s < nSlots; s++) {
+      const q = pos[s]!;
+      a[q] += vals[2 * s]!;
+      a[q + 1] += vals[2 * s + 1]!;
+    }
+    const status = luFactor(n, a, lu, 0);
+    if (status !== LU_OK || rcondEstimate(lu) < SINGULAR_RCOND) {
+      throw explainSingular(circuit, plan, freqs[k]!, status);
+    }
+    luSolve(lu, rhs, x, p);
+    const base = 2 * p * p * k;
+    for (let i = 0; i < p; i++) {
+      const pl = plan.portPlus[i]!;
+      const mi = plan.portMinus[i]!;
+      const inv = 1 / sqrtRef[i]!;
+      for (let j = 0; j < p; j++) {
+        let vr = pl !== GROUND ? x[2 * (pl * p + j)]! : 0;
+        let vi = pl !== GROUND ? x[2 * (pl * p + j) + 1]! : 0;
+        if (mi !== GROUND) {
+          vr -= x[2 * (mi * p + j)]!;
+          vi -= x[2 * (mi * p + j) + 1]!;
+        }
+        const o = base + 2 * (i * p + j);
+        out[o] = vr * inv - (i === j ? 1 : 0);
+        out[o + 1] = vi * inv;
+      }
+    }
+  }
+  return {
+    parameter: 'S',
+    ports: p,
+    frequencies: Float64Array.from(freqs),
+    references: Float64Array.from(plan.portReference),
+    values: out,
+    title: circuit.title,
+  };
+}
+
+function formatHz(f: number): string {
+  if (f === 0) return '0 Hz';
+  const units: [number, string][] = [
+    [1e9, 'GHz'],
+    [1e6, 'MHz'],
+    [1e3, 'kHz'],
+  ];
+  for (const [s, u] of units) if (f >= s) return `${Number((f / s).toPrecision(9))} ${u}`;
+  return `${Number(f.toPrecision(9))} Hz`;
+}
+
+/**
+ * Names what makes the system singular: the nodes with no path to ground through elements that
+ * conduct at this frequency (a node between capacitors at 0 Hz, say); failing that, the unknown
+ * at which elimination broke down.
+ */
+function explainSingular(circuit: Circuit, plan: StampPlan, f: number, pivot: number): SingularSystemError {
+  const omega = 2 * Math.PI * f;
+  const sets = new NodeSets(circuit.nodeNames.length);
+  for (const r of circuit.localReferences) sets.join(r, GROUND);
+  const opened: string[] = [];
+  for (const el of circuit.elements) {
+    const type = ELEMENTS.get(el.type)!;
+    if (type.openAt?.(el, omega)) {
+      opened.push(el.name);
+      continue;
+    }
+    for (let t = 1; t < el.nodes.length; t++) sets.join(el.nodes[0]!, el.nodes[t]!);
+  }
+  for (const p of circuit.ports) sets.join(p.plus, p.minus);
+  const floating = circuit.nodeNames.filter((_, i) => !sets.grounded(i));
+  const at = formatHz(f);
+  if (floating.length > 0) {
+    const shown = floating.slice(0, 8).map((n) => `\`${n}\``);
+    if (floating.length > 8) shown.push(`and ${floating.length - 8} more`);
+    return new SingularSystemError(
+      `the circuit cannot be solved at ${at}: ${floating.length === 1 ? 'node' : 'nodes'} ${shown.join(', ')} ${floating.length === 1 ? 'has' : 'have'} no path to ground at this frequency`,
+      f,
+      floating,
+      opened.length > 0 && f === 0
+        ? `capacitors are open at 0 Hz (${opened.slice(0, 4).join(', ')}${opened.length > 4 ? ', …' : ''}); start the sweep above 0 Hz or give the node a DC path`
+        : 'give the node(s) a path to ground',
+    );
+  }
+  const who = pivot >= 0 && pivot < plan.unknownNames.length ? plan.unknownNames[pivot]! : 'an unknown';
+  return new SingularSystemError(
+    `the circuit cannot be solved at ${at}: the nodal system is singular (at ${who})`,
+    f,
+    [who],
+    'look for a loop of ideal inductors or a resonance with no loss that isolates part of the circuit',
+  );
+}
