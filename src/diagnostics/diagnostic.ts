@@ -23,6 +23,8 @@ export interface Diagnostic {
 /** Thrown by the library when an input has errors; carries every diagnostic found, not just the first. */
 export class InputError extends Error {
   readonly diagnostics: Diagnostic[];
+  /** The texts the diagnostics point into, for {@link formatDiagnostics}. */
+  readonly sources?: SourceMap;
   constructor(diagnostics: Diagnostic[], sources?: SourceMap) {
     const errors = diagnostics.filter((d) => d.severity === 'error');
     const first = errors[0] ?? diagnostics[0];
@@ -33,6 +35,7 @@ export class InputError extends Error {
     );
     this.name = 'InputError';
     this.diagnostics = diagnostics;
+    this.sources = sources;
   }
 }
 
