@@ -1,0 +1,74 @@
+/**
+ * CSV writer for network data.
+ *
+ * Schema (one header row, then one row per frequency point, "\n" line ends, comma separated,
+ * no quoting needed because no field holds a comma):
+ *
+ * - column 1: `freq_hz`, the frequency in Hz;
+ * - then, for every matrix entry (i, j) in row-major order (11, 12, …, 1N, 21, …, NN), two
+ *   columns named `<P><i><j>_<a>` and `<P><i><j>_<b>`, where `<P>` is the parameter letter
+ *   (S, Z or Y) and the suffixes are, by format:
+ *   - `RI`: `_re`, `_im` (real and imaginary part; Z in ohms, Y in siemens),
+ *   - `MA`: `_mag`, `_deg` (magnitude, angle in degrees in (-180, 180]),
+ *   - `DB`: `_db`, `_deg` (20·log10 of the magnitude, angle in degrees);
+ * - with 10 ports or more the indices are separated by an underscore in every column name
+ *   (`S1_1_re`, …, `S10_2_re`) so that names stay unambiguous.
+ *
+ * Numbers are written as the shortest text that reads back as the same double (ECMAScript
+ * Number-to-String); with `digits`, the data values (not `freq_hz`) are first rounded to that many
+ * significant digits. Negative zero is written as 0. An exact zero magnitude in DB is written as
+ * 20·log10 of the smallest positive double (about -6466.1). No locale, no clock: the same bytes
+ * every run. Title and comments of the network are not written (CSV has no comment syntax).
+ */
+import type { NetworkData } from '../network/types.js';
+import { checkDigits, checkNetworkData, encodeComplex, formatShortest, type ComplexFormat } from './touchstone.js';
+
+export interface CsvWriteOptions {
+  /** Default 'RI'. */
+  format?: ComplexFormat;
+  /** Significant digits 1..17; default: shortest round-trip text. */
+  digits?: number;
+}
+
+const SUFFIX: Record<ComplexFormat, [string, string]> = {
+  RI: ['re', 'im'],
+  MA: ['mag', 'deg'],
+  DB: ['db', 'deg'],
+};
+
+/** Column names of the CSV for `ports` ports (see the module comment). */
+export function csvHeader(parameter: string, ports: number, format: ComplexFormat = 'RI'): string[] {
+  const [a, b] = SUFFIX[format];
+  const sep = ports >= 10 ? '_' : '';
+  const cols = ['freq_hz'];
+  for (let i = 1; i <= ports; i++) {
+    for (let j = 1; j <= ports; j++) {
+      const name = `${parameter}${i}${sep}${j}`;
+      cols.push(`${name}_${a}`, `${name}_${b}`);
+    }
+  }
+  return cols;
+}
+
+/** Formats network data as CSV (schema in the module comment). */
+export function formatCsv(net: NetworkData, opts: CsvWriteOptions = {}): string {
+  const format = opts.format ?? 'RI';
+  if (SUFFIX[format] === undefined) throw new Error(`CSV: unknown format ${String(format)}`);
+  const digits = opts.digits === undefined ? undefined : checkDigits(opts.digits, 17);
+  checkNetworkData(net, 'CSV');
+  const n = net.ports;
+  const out: string[] = [csvHeader(net.parameter, n, format).join(',')];
+  const pair = new Float64Array(2);
+  const row: string[] = [];
+  for (let k = 0; k < net.frequencies.length; k++) {
+    row.length = 0;
+    row.push(formatShortest(net.frequencies[k]!)); // always in full, so close points never merge
+    const base = 2 * k * n * n;
+    for (let q = 0; q < n * n; q++) {
+      encodeComplex(format, net.values[base + 2 * q]!, net.values[base + 2 * q + 1]!, pair);
+      row.push(formatShortest(pair[0]!, digits), formatShortest(pair[1]!, digits));
+    }
+    out.push(row.join(','));
+  }
+  return out.join('\n') + '\n';
+}

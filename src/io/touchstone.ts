@@ -1,0 +1,827 @@
+/**
+ * Touchstone writer and reader (versions 1.1 and 2.0).
+ *
+ * What this module relies on from the standard. The source is the Touchstone File Format
+ * Specification, IBIS Open Forum: version 1.1 (2002) and version 2.0 (2009). Every point below is
+ * recalled, not looked up in the text while writing, so all of it is "(from memory)":
+ *
+ * - `!` starts a comment that runs to the end of the line, anywhere on a line. Keywords, option-line
+ *   fields and values are case-insensitive. Blank lines are allowed.
+ * - Option line `# <unit> <parameter> <format> R <n>`; fields may be left out and the defaults are
+ *   GHz, S, MA, R 50. Units Hz, kHz, MHz, GHz; parameters S, Y, Z, H, G; formats DB, MA, RI.
+ *   Only the first option line counts; later ones are ignored (1.1 text). We read the fields in any
+ *   order, each at most once.
+ * - Formats: RI = real and imaginary part; MA = magnitude and angle in degrees;
+ *   DB = 20·log10(magnitude) and angle in degrees.
+ * - Data order per frequency point: the frequency, then complex pairs. 1-port: N11.
+ *   2-port: N11 N21 N12 N22, all on one line. 3 ports and more: the matrix row by row (N11 N12 …),
+ *   each matrix row starting on a new line and at most four complex pairs per line, so rows of a
+ *   5-port and larger continue on further lines. A 3-port therefore has three lines per frequency
+ *   point, one per matrix row, each with three pairs (the first line also carries the frequency).
+ * - Version 1.1 has one real reference resistance for all ports (R on the option line); Z and Y
+ *   data are normalised to it (z = Z/R, y = Y·R). S data are referred to it.
+ * - Version 1.1, 2-ports only: noise parameters may follow the network data, five numbers a line
+ *   (frequency, NFmin in dB, |Γopt|, angle of Γopt in degrees, Rn normalised); the noise block
+ *   starts where the frequency is not above the last network frequency.
+ * - Version 2.0: `[Version] 2.0` is the first non-comment line; then the option line;
+ *   `[Number of Ports]`; `[Two-Port Data Order]` 12_21 or 21_12, required for 2-ports;
+ *   `[Number of Frequencies]` (required); `[Number of Noise Frequencies]` (required when there is
+ *   noise data); `[Reference]` with one value per port, which overrides the option-line R and may
+ *   continue on the following lines; `[Matrix Format]` Full (default), Lower or Upper (Lower: row i
+ *   holds N_i1..N_ii; Upper: row i holds N_ii..N_iN; the other triangle is the mirror image);
+ *   `[Mixed-Mode Order]`; `[Begin Information]` … `[End Information]`; `[Network Data]`;
+ *   `[Noise Data]`; `[End]` (required, last).
+ * - Version 2.0: Z and Y (and H, G) data are NOT normalised: Z is written in ohms and Y in
+ *   siemens. We implement that (from memory; this is the one point most worth checking against
+ *   the text of the 2.0 specification).
+ * - `12_21` means N11 N12 N21 N22 (row-major); `21_12` means N11 N21 N12 N22 (the 1.1 order).
+ *
+ * Our own choices (not from the standard):
+ * - The reader accepts any split of one frequency point over lines, but each point must start on
+ *   a new line and no line may hold numbers of two points; the count must be exact.
+ * - We do not read H or G data, mixed-mode files, or 2.0 versions other than "2.0".
+ * - The writer always writes [Matrix Format] Full and, for 2-ports, [Two-Port Data Order] 21_12
+ *   so that the N11 N21 N12 N22 data order is the same in both versions.
+ * - Data values are written in exponent form with `digits` significant digits (two-digit exponent
+ *   at least); frequencies (in the chosen unit) and references as the shortest text that reads
+ *   back as the same double, whatever `digits` is. A leading space stands in for the sign of
+ *   non-negative values so columns line up. Negative zero is written as zero.
+ * - An exact zero magnitude has no dB value; we write 20·log10 of the smallest positive double
+ *   (about -6466.1 dB), which reads back as zero or the smallest subnormal.
+ * - Output is made only of ECMAScript-specified conversions (toExponential, toPrecision, String)
+ *   and Math functions, with "\n" line ends: no locale, no clock, so the same bytes every run.
+ */
+import type { NetworkData, ParameterKind } from '../network/types.js';
+
+/** Touchstone versions we read and write. */
+export type TouchstoneVersion = '1.1' | '2.0';
+/** How a complex number is written: real/imaginary, magnitude/degrees, or dB/degrees. */
+export type ComplexFormat = 'RI' | 'MA' | 'DB';
+/** Frequency units of the option line. */
+export type FrequencyUnit = 'Hz' | 'kHz' | 'MHz' | 'GHz';
+
+export interface TouchstoneWriteOptions {
+  /** Default '1.1'. Version 1.1 needs all port references equal. */
+  version?: TouchstoneVersion;
+  /** Default 'RI'. */
+  format?: ComplexFormat;
+  /** Default 'GHz'. */
+  frequencyUnit?: FrequencyUnit;
+  /** Significant digits of data values, 1..17. Default 15. */
+  digits?: number;
+  /** Lines written as `!` comments at the top, after the network's title and comments. */
+  comments?: string[];
+}
+
+export interface TouchstoneReadOptions {
+  /** Used in error messages and, for version 1.1, to find the port count from `.sNp`. */
+  fileName?: string;
+  /** Port count; needed for version 1.1 when the file name gives none. */
+  ports?: number;
+}
+
+/** A reader error with its place in the file (line and column are 1-based). */
+export class TouchstoneError extends Error {
+  readonly file: string;
+  readonly line: number;
+  readonly column: number;
+  constructor(file: string, line: number, column: number, message: string) {
+    super(message);
+    this.name = 'TouchstoneError';
+    this.file = file;
+    this.line = line;
+    this.column = column;
+  }
+  /** `file:line:column: message`. */
+  describe(): string {
+    return `${this.file}:${this.line}:${this.column}: ${this.message}`;
+  }
+}
+
+export const DEFAULT_DIGITS = 15;
+
+/** dB value written for an exact zero magnitude: 20·log10 of the smallest positive double. */
+export const DB_OF_ZERO = 20 * Math.log10(Number.MIN_VALUE);
+
+const UNIT_SCALE: Record<FrequencyUnit, number> = { Hz: 1, kHz: 1e3, MHz: 1e6, GHz: 1e9 };
+const DEG = 180 / Math.PI;
+const RAD = Math.PI / 180;
+
+/** File extension for an N-port Touchstone file: `.s2p` for 2 ports. */
+export function touchstoneExtension(ports: number): string {
+  if (!Number.isInteger(ports) || ports < 1) {
+    throw new RangeError(`port count must be a positive integer, got ${ports}`);
+  }
+  return `.s${ports}p`;
+}
+
+// ---------------------------------------------------------------------------------------------
+// Shared helpers (also used by the CSV and JSON writers)
+
+/**
+ * Converts (re, im) to the two numbers of `format`, written into out[0], out[1].
+ * Angles in degrees in (-180, 180]; a zero magnitude in dB becomes {@link DB_OF_ZERO}.
+ */
+export function encodeComplex(format: ComplexFormat, re: number, im: number, out: Float64Array): void {
+  if (format === 'RI') {
+    out[0] = re;
+    out[1] = im;
+    return;
+  }
+  const mag = Math.hypot(re, im);
+  out[0] = format === 'MA' ? mag : mag === 0 ? DB_OF_ZERO : 20 * Math.log10(mag);
+  out[1] = Math.atan2(im, re) * DEG;
+}
+
+/** Inverse of {@link encodeComplex}: the two numbers of `format` to (re, im) in out[0], out[1]. */
+export function decodeComplex(format: ComplexFormat, a: number, b: number, out: Float64Array): void {
+  if (format === 'RI') {
+    out[0] = a;
+    out[1] = b;
+    return;
+  }
+  const mag = format === 'MA' ? a : Math.pow(10, a / 20);
+  const th = b * RAD;
+  out[0] = mag * Math.cos(th);
+  out[1] = mag * Math.sin(th);
+}
+
+/**
+ * Checks that a NetworkData is well formed: positive integer port count, array lengths that
+ * match, finite values, positive finite references, finite non-negative strictly increasing
+ * frequencies. Throws an Error naming `what` (the writer) otherwise.
+ */
+export function checkNetworkData(net: NetworkData, what: string): void {
+  const n = net.ports;
+  if (!Number.isInteger(n) || n < 1) throw new Error(`${what}: port count must be a positive integer, got ${n}`);
+  if (net.parameter !== 'S' && net.parameter !== 'Z' && net.parameter !== 'Y') {
+    throw new Error(`${what}: parameter must be S, Z or Y, got ${String(net.parameter)}`);
+  }
+  if (net.references.length !== n) {
+    throw new Error(`${what}: ${net.references.length} reference impedances for ${n} ports`);
+  }
+  for (let p = 0; p < n; p++) {
+    const r = net.references[p]!;
+    if (!(Number.isFinite(r) && r > 0)) throw new Error(`${what}: reference of port ${p + 1} must be positive, got ${r}`);
+  }
+  const nf = net.frequencies.length;
+  if (net.values.length !== 2 * n * n * nf) {
+    throw new Error(`${what}: ${net.values.length} values, expected ${2 * n * n * nf} (2·${n}²·${nf})`);
+  }
+  for (let k = 0; k < nf; k++) {
+    const f = net.frequencies[k]!;
+    if (!(Number.isFinite(f) && f >= 0)) throw new Error(`${what}: frequency ${k + 1} must be finite and >= 0, got ${f}`);
+    if (k > 0 && !(f > net.frequencies[k - 1]!)) {
+      throw new Error(`${what}: frequencies must increase; point ${k + 1} (${f} Hz) is not above point ${k} (${net.frequencies[k - 1]} Hz)`);
+    }
+  }
+  for (let x = 0; x < net.values.length; x++) {
+    if (!Number.isFinite(net.values[x]!)) {
+      const pair = x >> 1;
+      const k = Math.floor(pair / (n * n));
+      const i = Math.floor((pair % (n * n)) / n);
+      const j = pair % n;
+      throw new Error(`${what}: value of ${net.parameter}(${i + 1},${j + 1}) at point ${k + 1} is not finite`);
+    }
+  }
+}
+
+/** Checks a significant-digit count (1..17) and returns it, or the default. */
+export function checkDigits(digits: number | undefined, fallback: number): number {
+  if (digits === undefined) return fallback;
+  if (!Number.isInteger(digits) || digits < 1 || digits > 17) {
+    throw new RangeError(`digits must be an integer from 1 to 17, got ${digits}`);
+  }
+  return digits;
+}
+
+/** Shortest text that reads back as `x` rounded to `digits` significant digits. */
+export function formatShortest(x: number, digits?: number): string {
+  const v = digits === undefined ? x : Number(x.toPrecision(digits));
+  return v === 0 ? '0' : String(v);
+}
+
+/** Exponent form with `digits` significant digits and an exponent of at least two digits. */
+function formatExp(x: number, digits: number): string {
+  const v = x === 0 ? 0 : x; // -0 → 0
+  const s = v.toExponential(digits - 1);
+  const e = s.indexOf('e');
+  const exp = s.slice(e + 2);
+  return `${s.slice(0, e)}e${s[e + 1]}${exp.length < 2 ? '0' + exp : exp}`;
+}
+
+// ---------------------------------------------------------------------------------------------
+// Writer
+
+/** Pair order of one frequency point: [i0, j0, i1, j1, …], 0-based. */
+function pairOrder(n: number): number[] {
+  if (n === 2) return [0, 0, 1, 0, 0, 1, 1, 1]; // N11 N21 N12 N22
+  const order: number[] = [];
+  for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) order.push(i, j);
+  return order;
+}
+
+function commentLines(lines: readonly string[]): string[] {
+  const out: string[] = [];
+  for (const text of lines) {
+    for (const l of text.split(/\r\n|\r|\n/)) out.push(l === '' ? '!' : `! ${l}`);
+  }
+  return out;
+}
+
+/**
+ * Formats network data as a Touchstone file (see the module comment for the layout).
+ * Throws an Error when the data are malformed or, for version 1.1, when the ports do not share
+ * one reference impedance.
+ */
+export function formatTouchstone(net: NetworkData, opts: TouchstoneWriteOptions = {}): string {
+  const version = opts.version ?? '1.1';
+  const format = opts.format ?? 'RI';
+  const unit = opts.frequencyUnit ?? 'GHz';
+  const digits = checkDigits(opts.digits, DEFAULT_DIGITS);
+  if (version !== '1.1' && version !== '2.0') throw new Error(`Touchstone: unknown version ${String(version)}`);
+  if (format !== 'RI' && format !== 'MA' && format !== 'DB') throw new Error(`Touchstone: unknown format ${String(format)}`);
+  const scale = UNIT_SCALE[unit];
+  if (scale === undefined) throw new Error(`Touchstone: unknown frequency unit ${String(unit)}`);
+  checkNetworkData(net, 'Touchstone');
+  const n = net.ports;
+  const nf = net.frequencies.length;
+  if (nf === 0) throw new Error('Touchstone: no frequency points to write');
+  const r0 = net.references[0]!;
+  if (version === '1.1') {
+    for (let p = 1; p < n; p++) {
+      if (net.references[p] !== r0) {
+        throw new Error(
+          `Touchstone 1.1 needs one reference impedance for all ports, but port 1 has ${r0} ohm and port ${p + 1} has ${net.references[p]} ohm; write version 2.0 instead`,
+        );
+      }
+    }
+  }
+  // Version 1.1 normalises Z and Y to R (z = Z/R, y = Y·R); version 2.0 writes them as they are.
+  let norm = 1;
+  if (version === '1.1') {
+    if (net.parameter === 'Z') norm = 1 / r0;
+    else if (net.parameter === 'Y') norm = r0;
+  }
+
+  const lines: string[] = [];
+  const header: string[] = [];
+  if (net.title !== undefined && net.title !== '') header.push(net.title);
+  if (net.comments) header.push(...net.comments);
+  if (opts.comments) header.push(...opts.comments);
+  lines.push(...commentLines(header));
+  const optionLine = `# ${unit} ${net.parameter} ${format} R ${formatShortest(r0)}`;
+  if (version === '2.0') {
+    lines.push('[Version] 2.0');
+    lines.push(optionLine);
+    lines.push(`[Number of Ports] ${n}`);
+    if (n === 2) lines.push('[Two-Port Data Order] 21_12');
+    lines.push(`[Number of Frequencies] ${nf}`);
+    const refs: string[] = [];
+    for (let p = 0; p < n; p++) refs.push(formatShortest(net.references[p]!));
+    lines.push(`[Reference] ${refs.join(' ')}`);
+    lines.push('[Matrix Format] Full');
+    lines.push('[Network Data]');
+  } else {
+    lines.push(optionLine);
+  }
+
+  const order = pairOrder(n);
+  const pair = new Float64Array(2);
+  const num = (x: number): string => {
+    const s = formatExp(x, digits);
+    return s[0] === '-' ? s : ' ' + s;
+  };
+  // Pairs per output line: 1- and 2-ports put the whole point on one line; 3 ports and more put
+  // each matrix row on its own line(s), at most four pairs a line.
+  const rowLen = n <= 2 ? n * n : n;
+  let lastScaled = -Infinity;
+  for (let k = 0; k < nf; k++) {
+    // Frequencies are always written in full (shortest round-trip text), whatever `digits` is,
+    // so that close points never merge.
+    const scaled = net.frequencies[k]! / scale;
+    if (!(scaled > lastScaled)) {
+      throw new Error(`Touchstone: frequencies ${net.frequencies[k - 1]} Hz and ${net.frequencies[k]} Hz are equal in ${unit}`);
+    }
+    lastScaled = scaled;
+    const freqText = formatShortest(scaled);
+    const indent = ' '.repeat(freqText.length);
+    let line = freqText;
+    for (let q = 0; q < n * n; q++) {
+      const i = order[2 * q]!;
+      const j = order[2 * q + 1]!;
+      const at = 2 * ((k * n + i) * n + j);
+      encodeComplex(format, net.values[at]! * norm, net.values[at + 1]! * norm, pair);
+      const posInRow = q % rowLen;
+      if (q > 0 && (posInRow === 0 || (n > 2 && posInRow % 4 === 0))) {
+        lines.push(line);
+        line = indent;
+      }
+      line += ' ' + num(pair[0]!) + ' ' + num(pair[1]!);
+    }
+    lines.push(line);
+  }
+  if (version === '2.0') lines.push('[End]');
+  return lines.join('\n') + '\n';
+}
+
+// ---------------------------------------------------------------------------------------------
+// Reader
+
+interface Token {
+  text: string;
+  /** 1-based column. */
+  col: number;
+}
+
+const NUMBER_RE = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
+
+const KNOWN_KEYWORDS = new Set([
+  'version',
+  'number of ports',
+  'two-port data order',
+  'number of frequencies',
+  'number of noise frequencies',
+  'reference',
+  'matrix format',
+  'mixed-mode order',
+  'begin information',
+  'end information',
+  'network data',
+  'noise data',
+  'end',
+]);
+
+/** Keywords allowed after [Network Data]. */
+const AFTER_DATA_KEYWORDS = new Set(['noise data', 'end', 'begin information', 'end information']);
+
+function tokenize(text: string, offset: number): Token[] {
+  const out: Token[] = [];
+  const re = /\S+/g;
+  let m: RegExpExecArray | null;
+  while ((m = re.exec(text)) !== null) out.push({ text: m[0], col: offset + m.index + 1 });
+  return out;
+}
+
+type MatrixFormat = 'full' | 'lower' | 'upper';
+
+class Reader {
+  private readonly file: string;
+  private readonly lines: string[];
+  private readonly opts: TouchstoneReadOptions;
+  private version: TouchstoneVersion = '1.1';
+  private lineNo = 0; // 1-based number of the line being read
+
+  // option line
+  private optionSeen = false;
+  private scale = 1e9;
+  private parameter: ParameterKind = 'S';
+  private format: ComplexFormat = 'MA';
+  private optionR = 50;
+
+  // version 2.0 keywords, with the line each was seen on
+  private seen = new Map<string, number>();
+  private ports = 0;
+  private twoPortOrder: '12_21' | '21_12' = '21_12';
+  private declaredFreqs = 0;
+  private declaredNoise = -1;
+  private refs: number[] | undefined;
+  private refsPending = false;
+  private matrixFormat: MatrixFormat = 'full';
+
+  // network data
+  private section: 'header' | 'network' | 'noise' | 'info' | 'after-end' = 'header';
+  private order: number[] = [];
+  private perPoint = 0;
+  private point: number[] = [];
+  private pointLine = 0;
+  private pointCol = 0;
+  private freqs: number[] = [];
+  private vals: number[] = [];
+  private lastNoiseFreq = -Infinity;
+  private noiseCount = 0;
+  private noiseLine = 0;
+  private readonly comments: string[] = [];
+
+  constructor(text: string, opts: TouchstoneReadOptions) {
+    this.opts = opts;
+    this.file = opts.fileName ?? '<input>';
+    this.lines = (text.charCodeAt(0) === 0xfeff ? text.slice(1) : text).split(/\r\n|\r|\n/);
+    if (this.lines.length > 1 && this.lines[this.lines.length - 1] === '') this.lines.pop();
+  }
+
+  private fail(line: number, col: number, msg: string): never {
+    throw new TouchstoneError(this.file, line, col, msg);
+  }
+
+  read(): NetworkData {
+    let first = true;
+    for (let li = 0; li < this.lines.length; li++) {
+      this.lineNo = li + 1;
+      const raw = this.lines[li]!;
+      const bang = raw.indexOf('!');
+      const content = bang >= 0 ? raw.slice(0, bang) : raw;
+      if (bang >= 0) {
+        const c = raw.slice(bang + 1);
+        this.comments.push((c.startsWith(' ') ? c.slice(1) : c).trimEnd());
+      }
+      const trimmed = content.trim();
+      if (trimmed === '') continue;
+      const lead = content.length - content.trimStart().length;
+      if (this.section === 'after-end') continue; // anything after [End] is not read
+      if (this.section === 'info' && !trimmed.startsWith('[')) continue; // information block: skipped
+      if (first) {
+        first = false;
+        if (trimmed.startsWith('[') && this.keywordName(content, lead) === 'version') this.version = '2.0';
+      }
+      if (trimmed.startsWith('[')) {
+        this.keyword(content, lead);
+      } else if (trimmed.startsWith('#')) {
+        this.optionLine(content, lead);
+      } else if (this.refsPending) {
+        this.referenceValues(tokenize(content, 0));
+      } else {
+        this.dataLine(tokenize(content, 0));
+      }
+    }
+    return this.finish();
+  }
+
+  private keywordName(content: string, lead: number): string {
+    const close = content.indexOf(']', lead);
+    if (close < 0) this.fail(this.lineNo, lead + 1, 'keyword has no closing "]"');
+    return content.slice(lead + 1, close).trim().replace(/\s+/g, ' ').toLowerCase();
+  }
+
+  private keyword(content: string, lead: number): void {
+    const name = this.keywordName(content, lead);
+    const close = content.indexOf(']', lead);
+    const args = tokenize(content.slice(close + 1), close + 1);
+    const line = this.lineNo;
+    const col = lead + 1;
+    const shown = content.slice(lead, close + 1);
+
+    if (this.section === 'info') {
+      if (name === 'end information') {
+        this.section = 'header';
+        this.noArgs(args, shown);
+      }
+      return; // everything inside the information block is skipped
+    }
+    if (this.version === '1.1') {
+      if (name === 'version') this.fail(line, col, '[Version] must be the first line that is not a comment or blank');
+      this.fail(line, col, KNOWN_KEYWORDS.has(name)
+        ? `keyword ${shown} belongs to Touchstone 2.0, but the file does not start with [Version] 2.0`
+        : `unknown keyword ${shown}`);
+    }
+    if (!KNOWN_KEYWORDS.has(name)) this.fail(line, col, `unknown keyword ${shown}`);
+    if (this.refsPending) {
+      this.fail(this.seen.get('reference')!, 1, `[Reference] needs ${this.ports} values, found ${this.refs!.length}`);
+    }
+    if (this.seen.has(name) && name !== 'end information') {
+      this.fail(line, col, `${shown} appears twice (first at line ${this.seen.get(name)})`);
+    }
+    if (this.section === 'network') this.endNetwork(line);
+    if (this.section === 'noise') this.endNoise(line);
+    if (name !== 'version' && !this.seen.has('version')) {
+      this.fail(line, col, '[Version] must be the first line that is not a comment or blank');
+    }
+    if (this.seen.has('network data') && !AFTER_DATA_KEYWORDS.has(name)) {
+      this.fail(line, col, `${shown} must come before [Network Data]`);
+    }
+    this.seen.set(name, line);
+    const needPorts = (): void => {
+      if (!this.seen.has('number of ports')) this.fail(line, col, `${shown} must come after [Number of Ports]`);
+    };
+
+    switch (name) {
+      case 'version': {
+        const v = this.oneArg(args, shown);
+        if (v.text !== '2.0') this.fail(line, v.col, `unsupported Touchstone version "${v.text}"; this reader knows 1.1 and 2.0`);
+        return;
+      }
+      case 'number of ports': {
+        if (!this.optionSeen) this.fail(line, col, 'the option line (# …) must come before [Number of Ports]');
+        this.ports = this.positiveInt(this.oneArg(args, shown), shown);
+        if (this.opts.ports !== undefined && this.opts.ports !== this.ports) {
+          this.fail(line, args[0]!.col, `file has ${this.ports} ports, but ${this.opts.ports} were expected`);
+        }
+        return;
+      }
+      case 'two-port data order': {
+        needPorts();
+        const a = this.oneArg(args, shown);
+        if (this.ports !== 2) this.fail(line, col, `[Two-Port Data Order] is only for 2-port files, this one has ${this.ports} ports`);
+        if (a.text === '12_21' || a.text === '21_12') this.twoPortOrder = a.text;
+        else this.fail(line, a.col, `[Two-Port Data Order] must be 12_21 or 21_12, got "${a.text}"`);
+        return;
+      }
+      case 'number of frequencies':
+        needPorts();
+        this.declaredFreqs = this.positiveInt(this.oneArg(args, shown), shown);
+        return;
+      case 'number of noise frequencies':
+        needPorts();
+        this.declaredNoise = this.positiveInt(this.oneArg(args, shown), shown);
+        return;
+      case 'reference':
+        needPorts();
+        this.refs = [];
+        this.refsPending = true;
+        this.referenceValues(args);
+        return;
+      case 'matrix format': {
+        const a = this.oneArg(args, shown);
+        const v = a.text.toLowerCase();
+        if (v === 'full' || v === 'lower' || v === 'upper') this.matrixFormat = v;
+        else this.fail(line, a.col, `[Matrix Format] must be Full, Lower or Upper, got "${a.text}"`);
+        return;
+      }
+      case 'mixed-mode order':
+        return this.fail(line, col, 'mixed-mode files ([Mixed-Mode Order]) are not supported');
+      case 'begin information':
+        this.noArgs(args, shown);
+        this.section = 'info';
+        return;
+      case 'end information':
+        return this.fail(line, col, '[End Information] without [Begin Information]');
+      case 'network data':
+        this.noArgs(args, shown);
+        needPorts();
+        if (!this.optionSeen) this.fail(line, col, 'missing option line (# …) before [Network Data]');
+        if (!this.seen.has('number of frequencies')) this.fail(line, col, '[Number of Frequencies] is required before [Network Data]');
+        if (this.ports === 2 && !this.seen.has('two-port data order')) {
+          this.fail(line, col, '[Two-Port Data Order] is required in 2-port files');
+        }
+        this.startNetwork();
+        return;
+      case 'noise data':
+        this.noArgs(args, shown);
+        if (!this.seen.has('network data')) this.fail(line, col, '[Noise Data] must come after [Network Data]');
+        if (this.ports !== 2) this.fail(line, col, 'noise data are only defined for 2-port files');
+        if (this.declaredNoise < 0) this.fail(line, col, '[Number of Noise Frequencies] is required before [Noise Data]');
+        this.section = 'noise';
+        this.noiseLine = line;
+        return;
+      case 'end':
+        this.noArgs(args, shown);
+        if (!this.seen.has('network data')) this.fail(line, col, '[End] before [Network Data]');
+        this.section = 'after-end';
+        return;
+    }
+  }
+
+  private oneArg(args: Token[], shown: string): Token {
+    if (args.length === 0) this.fail(this.lineNo, 1, `${shown} needs a value`);
+    if (args.length > 1) this.fail(this.lineNo, args[1]!.col, `${shown} takes one value, found ${args.length}`);
+    return args[0]!;
+  }
+
+  private noArgs(args: Token[], shown: string): void {
+    if (args.length > 0) this.fail(this.lineNo, args[0]!.col, `${shown} takes no value, found "${args[0]!.text}"`);
+  }
+
+  private positiveInt(t: Token, shown: string): number {
+    if (!/^\+?\d+$/.test(t.text) || Number(t.text) < 1) {
+      this.fail(this.lineNo, t.col, `${shown} needs a positive whole number, got "${t.text}"`);
+    }
+    return Number(t.text);
+  }
+
+  private number(t: Token): number {
+    if (!NUMBER_RE.test(t.text)) this.fail(this.lineNo, t.col, `"${t.text}" is not a number`);
+    const v = Number(t.text);
+    if (!Number.isFinite(v)) this.fail(this.lineNo, t.col, `"${t.text}" is out of range`);
+    return v;
+  }
+
+  private referenceValues(tokens: Token[]): void {
+    const refs = this.refs!;
+    for (const t of tokens) {
+      if (refs.length === this.ports) {
+        this.fail(this.lineNo, t.col, `[Reference] needs ${this.ports} values; "${t.text}" is one too many`);
+      }
+      const v = this.number(t);
+      if (!(v > 0)) this.fail(this.lineNo, t.col, `reference impedance must be positive, got ${t.text}`);
+      refs.push(v);
+    }
+    if (refs.length === this.ports) this.refsPending = false;
+  }
+
+  private optionLine(content: string, lead: number): void {
+    if (this.optionSeen) return; // only the first option line counts (1.1 text, from memory)
+    this.optionSeen = true;
+    const tokens = tokenize(content.slice(lead + 1), lead + 1);
+    const got = new Set<string>();
+    const once = (what: string, t: Token): void => {
+      if (got.has(what)) this.fail(this.lineNo, t.col, `option line gives the ${what} twice ("${t.text}")`);
+      got.add(what);
+    };
+    for (let q = 0; q < tokens.length; q++) {
+      const t = tokens[q]!;
+      const u = t.text.toUpperCase();
+      switch (u) {
+        case 'HZ': case 'KHZ': case 'MHZ': case 'GHZ':
+          once('frequency unit', t);
+          this.scale = u === 'HZ' ? 1 : u === 'KHZ' ? 1e3 : u === 'MHZ' ? 1e6 : 1e9;
+          break;
+        case 'S': case 'Y': case 'Z':
+          once('parameter', t);
+          this.parameter = u;
+          break;
+        case 'H': case 'G':
+          return this.fail(this.lineNo, t.col, `${u}-parameter files are not supported (only S, Y and Z)`);
+        case 'RI': case 'MA': case 'DB':
+          once('format', t);
+          this.format = u as ComplexFormat;
+          break;
+        case 'R': {
+          once('reference', t);
+          const v = tokens[q + 1];
+          if (v === undefined) this.fail(this.lineNo, t.col, 'option-line R needs a resistance after it');
+          const r = this.number(v);
+          if (!(r > 0)) this.fail(this.lineNo, v.col, `option-line R must be positive, got ${v.text}`);
+          this.optionR = r;
+          q++;
+          break;
+        }
+        default:
+          this.fail(this.lineNo, t.col, `unknown option-line field "${t.text}"`);
+      }
+    }
+  }
+
+  private startNetwork(): void {
+    const n = this.ports;
+    const order: number[] = [];
+    if (this.matrixFormat === 'full') {
+      if (n === 2 && this.twoPortOrder === '21_12') order.push(0, 0, 1, 0, 0, 1, 1, 1);
+      else for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) order.push(i, j);
+    } else if (this.matrixFormat === 'lower') {
+      for (let i = 0; i < n; i++) for (let j = 0; j <= i; j++) order.push(i, j);
+    } else {
+      for (let i = 0; i < n; i++) for (let j = i; j < n; j++) order.push(i, j);
+    }
+    this.order = order;
+    this.perPoint = 1 + order.length;
+    this.section = 'network';
+  }
+
+  private dataLine(tokens: Token[]): void {
+    const line = this.lineNo;
+    if (this.section === 'noise') return this.noiseLineData(tokens);
+    if (this.section !== 'network') {
+      if (this.version === '2.0') this.fail(line, tokens[0]!.col, 'data outside [Network Data] or [Noise Data]');
+      if (!this.optionSeen) this.fail(line, tokens[0]!.col, 'missing option line (# …) before the data');
+      this.ports = this.portsFor11(line, tokens[0]!.col);
+      this.startNetwork();
+    }
+    const nums: number[] = [];
+    for (const t of tokens) nums.push(this.number(t));
+
+    if (this.point.length === 0) {
+      const f = nums[0]! * this.scale;
+      const last = this.freqs.length > 0 ? this.freqs[this.freqs.length - 1]! : -Infinity;
+      if (!(f > last)) {
+        if (this.version === '1.1' && this.ports === 2) {
+          this.section = 'noise';
+          this.noiseLine = line;
+          return this.noiseLineData(tokens);
+        }
+        this.fail(line, tokens[0]!.col, `frequencies must increase: ${tokens[0]!.text} is not above the previous frequency`);
+      }
+      if (this.version === '2.0' && this.freqs.length === this.declaredFreqs) {
+        this.fail(line, tokens[0]!.col, `more frequency points than [Number of Frequencies] ${this.declaredFreqs}`);
+      }
+      this.pointLine = line;
+      this.pointCol = tokens[0]!.col;
+    }
+    const need = this.perPoint - this.point.length;
+    if (nums.length > need) {
+      if (this.point.length === 0) {
+        this.fail(line, tokens[need]!.col, `too many numbers: a frequency point of this ${this.ports}-port file has ${this.perPoint} (frequency + ${this.order.length / 2} complex pairs), this line has ${nums.length}`);
+      }
+      this.fail(this.pointLine, this.pointCol, `wrong count of numbers: the frequency point starting here needs ${this.perPoint}, it has ${this.point.length} before line ${line}, and line ${line} brings ${nums.length} more`);
+    }
+    for (const v of nums) this.point.push(v);
+    if (this.point.length === this.perPoint) this.storePoint();
+  }
+
+  private portsFor11(line: number, col: number): number {
+    if (this.opts.ports !== undefined) {
+      if (!Number.isInteger(this.opts.ports) || this.opts.ports < 1) {
+        this.fail(line, col, `port count must be a positive integer, got ${this.opts.ports}`);
+      }
+      return this.opts.ports;
+    }
+    const m = /\.s(\d+)p$/i.exec(this.opts.fileName ?? '');
+    if (m && Number(m[1]) >= 1) return Number(m[1]);
+    this.fail(line, col, 'unknown port count: a version 1.1 file needs a name ending in .sNp (e.g. .s2p) or the ports option');
+  }
+
+  private readonly pair = new Float64Array(2);
+
+  private storePoint(): void {
+    const n = this.ports;
+    const p = this.point;
+    this.freqs.push(p[0]! * this.scale);
+    const base = this.vals.length;
+    for (let x = 0; x < 2 * n * n; x++) this.vals.push(0);
+    const order = this.order;
+    for (let q = 0; q < order.length / 2; q++) {
+      decodeComplex(this.format, p[1 + 2 * q]!, p[2 + 2 * q]!, this.pair);
+      const i = order[2 * q]!;
+      const j = order[2 * q + 1]!;
+      this.vals[base + 2 * (i * n + j)] = this.pair[0]!;
+      this.vals[base + 2 * (i * n + j) + 1] = this.pair[1]!;
+      if (i !== j && this.matrixFormat !== 'full') {
+        this.vals[base + 2 * (j * n + i)] = this.pair[0]!;
+        this.vals[base + 2 * (j * n + i) + 1] = this.pair[1]!;
+      }
+    }
+    this.point = [];
+  }
+
+  private endNetwork(line: number): void {
+    if (this.point.length > 0) {
+      this.fail(this.pointLine, this.pointCol, `wrong count of numbers: the frequency point starting here has ${this.point.length}, needs ${this.perPoint} (frequency + ${this.order.length / 2} complex pairs)`);
+    }
+    if (this.version === '2.0' && this.freqs.length !== this.declaredFreqs) {
+      this.fail(line, 1, `[Number of Frequencies] (line ${this.seen.get('number of frequencies')}) says ${this.declaredFreqs}, but [Network Data] has ${this.freqs.length}`);
+    }
+    this.section = 'header';
+  }
+
+  private noiseLineData(tokens: Token[]): void {
+    const line = this.lineNo;
+    for (const t of tokens) this.number(t);
+    if (tokens.length !== 5) {
+      const why = this.version === '1.1' && this.noiseCount === 0
+        ? ' (a frequency not above the previous one starts the noise data of a 2-port file)'
+        : '';
+      this.fail(line, tokens[tokens.length > 5 ? 5 : 0]!.col,
+        `a noise data line has 5 numbers (frequency, NFmin dB, |Γopt|, angle Γopt, Rn), this one has ${tokens.length}${why}`);
+    }
+    const f = Number(tokens[0]!.text) * this.scale;
+    if (!(f > this.lastNoiseFreq)) this.fail(line, tokens[0]!.col, `noise frequencies must increase: ${tokens[0]!.text} is not above the previous one`);
+    if (this.version === '2.0' && this.noiseCount === this.declaredNoise) {
+      this.fail(line, tokens[0]!.col, `more noise points than [Number of Noise Frequencies] ${this.declaredNoise}`);
+    }
+    this.lastNoiseFreq = f;
+    this.noiseCount++;
+  }
+
+  private endNoise(line: number): void {
+    if (this.version === '2.0' && this.noiseCount !== this.declaredNoise) {
+      this.fail(line, 1, `[Number of Noise Frequencies] says ${this.declaredNoise}, but [Noise Data] (line ${this.noiseLine}) has ${this.noiseCount}`);
+    }
+    this.section = 'header';
+  }
+
+  private finish(): NetworkData {
+    const eof = Math.max(this.lines.length, 1);
+    if (this.refsPending) {
+      this.fail(this.seen.get('reference')!, 1, `[Reference] needs ${this.ports} values, found ${this.refs!.length}`);
+    }
+    if (this.section === 'info') this.fail(eof, 1, '[Begin Information] without [End Information]');
+    if (this.version === '2.0') {
+      if (this.section !== 'after-end') {
+        if (this.section === 'network') this.endNetwork(eof);
+        if (this.section === 'noise') this.endNoise(eof);
+        if (!this.seen.has('network data')) this.fail(eof, 1, 'no [Network Data] in the file');
+        this.fail(eof, 1, 'missing [End] at the end of the file');
+      }
+    } else {
+      if (!this.optionSeen) this.fail(eof, 1, 'missing option line (# …)');
+      if (this.point.length > 0) this.endNetwork(eof);
+      if (this.freqs.length === 0) this.fail(eof, 1, 'no network data in the file');
+    }
+    const n = this.ports;
+    const refs = new Float64Array(n);
+    for (let p = 0; p < n; p++) refs[p] = this.refs ? this.refs[p]! : this.optionR;
+    const values = Float64Array.from(this.vals);
+    // Version 1.1 Z and Y are normalised to R (from memory); version 2.0 are not.
+    if (this.version === '1.1' && this.parameter !== 'S') {
+      const k = this.parameter === 'Z' ? this.optionR : 1 / this.optionR;
+      for (let x = 0; x < values.length; x++) values[x] = values[x]! * k;
+    }
+    const net: NetworkData = {
+      parameter: this.parameter,
+      ports: n,
+      frequencies: Float64Array.from(this.freqs),
+      references: refs,
+      values,
+    };
+    if (this.comments.length > 0) net.comments = this.comments;
+    return net;
+  }
+}
+
+/**
+ * Reads a Touchstone 1.1 or 2.0 file. Frequencies come back in Hz, Z in ohms, Y in siemens,
+ * with `parameter` as in the file. Throws {@link TouchstoneError} with line and column on any
+ * departure from the layout (see the module comment).
+ */
+export function parseTouchstone(text: string, opts: TouchstoneReadOptions = {}): NetworkData {
+  return new Reader(text, opts).read();
+}

@@ -1,0 +1,168 @@
+/**
+ * Atomic writes. The method (temp file in the same directory, fsync, rename over the target) is
+ * common practice on POSIX file systems, where rename(2) replaces the target atomically
+ * (POSIX.1-2008, rename(), from memory). Faults are injected by wrapping node:fs and
+ * node:fs/promises so that one step fails after the temporary file exists.
+ */
+import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
+import * as realFs from 'node:fs';
+import { mkdtempSync, readFileSync, readdirSync, rmSync, statSync, writeFileSync, mkdirSync, chmodSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+
+type Step = '' | 'write' | 'sync' | 'rename';
+const inject = vi.hoisted(() => ({ step: '' as '' | 'write' | 'sync' | 'rename' }));
+
+vi.mock('node:fs/promises', async (importOriginal) => {
+  const real = await importOriginal<typeof import('node:fs/promises')>();
+  const fail = (): never => {
+    throw Object.assign(new Error('injected fault'), { code: 'EIO' });
+  };
+  return {
+    ...real,
+    open: async (...args: Parameters<typeof real.open>) => {
+      const h = await real.open(...args);
+      if (inject.step === 'write' || inject.step === 'sync') {
+        const step = inject.step;
+        return new Proxy(h, {
+          get(target, prop) {
+            if (step === 'write' && prop === 'writeFile') {
+              // write half of the data, then fail: a partial temp file exists at this point
+              return async (data: Uint8Array) => {
+                await target.write(data.subarray(0, data.length >> 1));
+                fail();
+              };
+            }
+            if (step === 'sync' && prop === 'sync') return async () => fail();
+            const v = Reflect.get(target, prop, target) as unknown;
+            return typeof v === 'function' ? (v as (...a: unknown[]) => unknown).bind(target) : v;
+          },
+        });
+      }
+      return h;
+    },
+    rename: async (...args: Parameters<typeof real.rename>) => {
+      if (inject.step === 'rename') fail();
+      return real.rename(...args);
+    },
+  };
+});
+
+vi.mock('node:fs', async (importOriginal) => {
+  const real = await importOriginal<typeof import('node:fs')>();
+  const fail = (): never => {
+    throw Object.assign(new Error('injected fault'), { code: 'EIO' });
+  };
+  return {
+    ...real,
+    writeSync: (...args: Parameters<typeof real.writeSync>) => {
+      if (inject.step === 'write') {
+        const [fd, buf] = args as unknown as [number, Uint8Array];
+        real.writeSync(fd, buf, 0, buf.length >> 1);
+        fail();
+      }
+      return (real.writeSync as (...a: unknown[]) => number)(...args);
+    },
+    fsyncSync: (fd: number) => {
+      if (inject.step === 'sync') fail();
+      return real.fsyncSync(fd);
+    },
+    renameSync: (a: realFs.PathLike, b: realFs.PathLike) => {
+      if (inject.step === 'rename') fail();
+      return real.renameSync(a, b);
+    },
+  };
+});
+
+// imported after the mocks are declared (vi.mock is hoisted anyway)
+const { writeFileAtomic, writeFileAtomicSync } = await import('../src/io/atomic.js');
+const { formatTouchstone } = await import('../src/io/touchstone.js');
+
+let dir = '';
+beforeEach(() => {
+  inject.step = '';
+  dir = mkdtempSync(join(tmpdir(), 'sbx-atomic-'));
+});
+afterEach(() => {
+  inject.step = '';
+  rmSync(dir, { recursive: true, force: true });
+});
+
+const list = (): string[] => readdirSync(dir).sort();
+
+type Writer = (path: string, data: string | Uint8Array) => Promise<void>;
+const writers: Array<[string, Writer]> = [
+  ['async', writeFileAtomic],
+  ['sync', async (p, d) => writeFileAtomicSync(p, d)],
+];
+
+for (const [name, write] of writers) {
+  describe(`writeFileAtomic (${name})`, () => {
+    it('creates a new file with the exact bytes and leaves no temp file', async () => {
+      const p = join(dir, 'out.s2p');
+      await write(p, 'hello\nworld\n');
+      expect(readFileSync(p, 'utf8')).toBe('hello\nworld\n');
+      const bytes = Uint8Array.from([0, 1, 2, 255]);
+      await write(join(dir, 'b.bin'), bytes);
+      expect(Array.from(readFileSync(join(dir, 'b.bin')))).toEqual([0, 1, 2, 255]);
+      expect(list()).toEqual(['b.bin', 'out.s2p']);
+    });
+
+    it('replaces an existing file and keeps its permission bits', async () => {
+      const p = join(dir, 'out.csv');
+      writeFileSync(p, 'old');
+      chmodSync(p, 0o640);
+      await write(p, 'new content');
+      expect(readFileSync(p, 'utf8')).toBe('new content');
+      expect(statSync(p).mode & 0o777).toBe(0o640);
+      expect(list()).toEqual(['out.csv']);
+    });
+
+    it('target directory missing: rejects, creates nothing', async () => {
+      const p = join(dir, 'no-such-dir', 'out.s2p');
+      await expect(write(p, 'x')).rejects.toMatchObject({ code: 'ENOENT' });
+      expect(list()).toEqual([]);
+    });
+
+    it('rename impossible (target is a non-empty directory): rejects, directory intact, no temp file', async () => {
+      const p = join(dir, 'taken');
+      mkdirSync(p);
+      writeFileSync(join(p, 'inside'), 'keep');
+      await expect(write(p, 'x')).rejects.toThrow();
+      expect(readFileSync(join(p, 'inside'), 'utf8')).toBe('keep');
+      expect(list()).toEqual(['taken']);
+    });
+
+    for (const step of ['write', 'sync', 'rename'] as Step[]) {
+      it(`fault during ${step}: old file intact, no temp file left`, async () => {
+        const p = join(dir, 'out.s2p');
+        writeFileSync(p, 'old content');
+        inject.step = step;
+        await expect(write(p, 'new content that must not appear')).rejects.toThrow(/injected fault/);
+        inject.step = '';
+        expect(readFileSync(p, 'utf8')).toBe('old content');
+        expect(list()).toEqual(['out.s2p']);
+      });
+    }
+
+    it('data generator throwing (Touchstone 1.1 with unequal references): old file intact', async () => {
+      const p = join(dir, 'out.s2p');
+      writeFileSync(p, 'old content');
+      const net = {
+        parameter: 'S' as const, ports: 2, frequencies: Float64Array.from([1e9]),
+        references: Float64Array.from([50, 75]), values: new Float64Array(8),
+      };
+      await expect(async () => write(p, formatTouchstone(net, { version: '1.1' }))).rejects.toThrow(/2\.0/);
+      expect(readFileSync(p, 'utf8')).toBe('old content');
+      expect(list()).toEqual(['out.s2p']);
+    });
+  });
+}
+
+it('concurrent async writers: the result is one complete payload, no temp files', async () => {
+  const p = join(dir, 'race.json');
+  const payloads = Array.from({ length: 20 }, (_, i) => `payload ${i} `.repeat(2000));
+  await Promise.all(payloads.map((d) => writeFileAtomic(p, d)));
+  expect(payloads).toContain(readFileSync(p, 'utf8'));
+  expect(list()).toEqual(['race.json']);
+});
