@@ -58,19 +58,19 @@ export async function main(argv: string[], io: Io = defaultIo): Promise<number> 
           .option('sweep', { type: 'string', describe: 'replace the netlist sweep: segments as after `sweep`, joined by `;`' })
           .option('digits', { type: 'number', describe: 'significant digits of written numbers' })
           .option('quiet', { alias: 'q', type: 'boolean', default: false, describe: 'do not print warnings' })
-          .example('$0 solve circuits/sensor-433-lowpass.sbx', 'print |S| in dB and angle per frequency')
-          .example('$0 solve circuits/sensor-433-lowpass.sbx -o lowpass.s2p --data db', 'write a Touchstone 1.1 file in dB/angle')
-          .example('$0 solve circuits/antenna-match-915.sbx -o match.s2p --touchstone 2.0', 'per-port references need version 2.0')
+          .example('$0 solve circuits/harmonic-lowpass-433.sbx', 'print |S| in dB and angle per frequency')
+          .example('$0 solve circuits/harmonic-lowpass-433.sbx -o lowpass.s2p --data db', 'write a Touchstone 1.1 file in dB/angle')
+          .example('$0 solve circuits/match-50-75-915.sbx -o match.s2p --touchstone 2.0', 'per-port references need version 2.0')
           .example('$0 solve filter.sbx --set fc=915MHz --sweep "linear start=1 MHz stop=3 GHz points=301"', 'override a parameter and the sweep')
           .example('$0 solve pad.sbx -o pad.csv --param Z', 'write the Z matrix as CSV'),
       async (args) => {
         code = runSolve(args as unknown as SolveArgs, io);
       },
     )
-    .demandCommand(1, 'give a command, e.g. `scatterbox solve circuits/sensor-433-lowpass.sbx`')
+    .demandCommand(1, 'give a command, e.g. `scatterbox solve circuits/harmonic-lowpass-433.sbx`')
     .strict()
     .recommendCommands()
-    .example('$0 solve circuits/sensor-433-lowpass.sbx -o lowpass.s2p', 'solve a demo and write Touchstone')
+    .example('$0 solve circuits/harmonic-lowpass-433.sbx -o lowpass.s2p', 'solve a demo and write Touchstone')
     .example('$0 solve --help', 'options of `solve`')
     .epilog('Exit codes: 0 success, 1 input error, 2 usage error. Messages go to stderr.')
     .help()

@@ -3,7 +3,7 @@
  *
  * ```ts
  * import { loadNetlistFile, solve, writeNetwork } from 'scatterbox';
- * const { circuit } = loadNetlistFile('circuits/sensor-433-lowpass.sbx', { set: ['fc=600 MHz'] });
+ * const { circuit } = loadNetlistFile('circuits/harmonic-lowpass-433.sbx', { set: ['fc=600 MHz'] });
  * const s = solve(circuit);                      // NetworkData with S over the sweep
  * writeNetwork(s, 'lowpass.s2p', { data: 'DB' }); // atomic write
  * ```
