@@ -39,22 +39,24 @@ export function loadNetlist(text: string, file: string, options: LoadOptions = {
   const ast = parseNetlist(text, file, bag);
 
   const overrides: Override[] = [];
-  const setText = (options.set ?? []).join('\n');
-  if (setText) {
-    sources.set(SET_FILE, setText);
-    for (const [i, line] of (options.set ?? []).entries()) {
-      const m = /^\s*([A-Za-z_][A-Za-z0-9_]*)\s*=(.*)$/.exec(line);
-      if (!m || !m[2]!.trim()) {
-        bag.error('bad-override', `\`--set ${line}\`: write \`name=value\``, { file: SET_FILE, line: i + 1, column: 1, length: Math.max(1, line.length) }, 'e.g. `--set fc=915MHz`');
-        continue;
-      }
-      const sub = new DiagnosticBag();
-      const parsed = parseNetlist(`${' '.repeat(0)}let ${line}`, SET_FILE, sub);
-      for (const d of sub.items) bag.add(shift(d, i + 1, -4));
-      const st = parsed.statements[0];
-      const arg = st?.args[0];
-      if (arg && arg.kind === 'key' && arg.values.length === 1) {
-        overrides.push({ name: arg.key, expr: arg.values[0]!, span: { file: SET_FILE, line: i + 1, column: 1, length: arg.key.length } });
+  const setLines = options.set ?? [];
+  if (setLines.length > 0) {
+    sources.set(SET_FILE, setLines.join('\n'));
+    const good: number[] = [];
+    setLines.forEach((line, i) => {
+      if (/^\s*[A-Za-z_][A-Za-z0-9_]*\s*=\s*\S/.test(line) && !/[\r\n]/.test(line)) good.push(i);
+      else bag.error('bad-override', `\`--set ${line}\`: write \`name=value\``, { file: SET_FILE, line: i + 1, column: 1, length: Math.max(1, line.length) }, 'e.g. `--set fc=915MHz`');
+    });
+    // Parsed as `let` lines of their own text, then moved back over the `let ` prefix.
+    const text = setLines.map((l, i) => (good.includes(i) ? `let ${l}` : '')).join('\n');
+    const parsed = parseNetlist(text, SET_FILE, relay(bag, 4));
+    for (const st of parsed.statements) {
+      shiftSpans(st, 4);
+      const arg = st.args[0];
+      if (st.args.length === 1 && arg && arg.kind === 'key' && arg.values.length === 1 && !arg.at) {
+        overrides.push({ name: arg.key, expr: arg.values[0]!, span: arg.keySpan });
+      } else {
+        bag.error('bad-override', '`--set` takes one `name=value`', st.span, 'give each override its own `--set`');
       }
     }
   }
@@ -63,10 +65,8 @@ export function loadNetlist(text: string, file: string, options: LoadOptions = {
   if (options.sweep !== undefined) {
     const segments = options.sweep.split(';').map((s) => s.trim()).filter(Boolean);
     sources.set(SWEEP_FILE, segments.join('\n'));
-    const sub = new DiagnosticBag();
-    const parsed = parseNetlist(segments.map((s) => `sweep ${s}`).join('\n'), SWEEP_FILE, sub);
-    for (const d of sub.items) bag.add(shift(d, undefined, -6));
-    sweep = parsed.statements.map((st) => shiftStatement(st));
+    const parsed = parseNetlist(segments.map((s) => `sweep ${s}`).join('\n'), SWEEP_FILE, relay(bag, 6));
+    sweep = parsed.statements.map((st) => shiftSpans(st, 6));
     if (segments.length === 0) bag.error('bad-sweep', '`--sweep` is empty', { file: SWEEP_FILE, line: 1, column: 1, length: 1 });
   }
 
@@ -80,24 +80,38 @@ export function loadNetlistFile(path: string, options: LoadOptions = {}): LoadRe
   return loadNetlist(readFileSync(path, 'utf8'), path, options);
 }
 
-function shift(d: Diagnostic, line: number | undefined, columns: number): Diagnostic {
-  if (!d.span) return d;
-  return { ...d, span: { ...d.span, line: line ?? d.span.line, column: Math.max(1, d.span.column + columns) } };
+/** A bag that moves the spans of what it receives `columns` to the left before passing them on. */
+function relay(bag: DiagnosticBag, columns: number): DiagnosticBag {
+  const sub = new DiagnosticBag();
+  sub.add = (d: Diagnostic) => bag.add(d.span ? { ...d, span: moveSpan({ ...d.span }, columns) } : d);
+  sub.error = (code, message, span, help) => sub.add({ severity: 'error', code, message, span, help });
+  sub.warning = (code, message, span, help) => sub.add({ severity: 'warning', code, message, span, help });
+  Object.defineProperty(sub, 'hasErrors', { get: () => bag.hasErrors });
+  return sub;
 }
 
-/** Moves the spans of a `--sweep` statement back over the `sweep ` prefix that was added to parse it. */
-function shiftStatement(st: Statement): Statement {
-  const fix = <T extends { span: { column: number } }>(x: T): T => {
-    const seen = new WeakSet<object>();
-    const walk = (o: unknown): void => {
-      if (!o || typeof o !== 'object' || seen.has(o)) return;
-      seen.add(o);
-      const rec = o as Record<string, unknown>;
-      if (typeof rec.column === 'number' && typeof rec.line === 'number') rec.column = Math.max(1, (rec.column as number) - 6);
-      for (const v of Object.values(rec)) walk(v);
-    };
-    walk(x);
-    return x;
+function moveSpan<T extends { column: number; length: number }>(span: T, columns: number): T {
+  const col = span.column - columns;
+  if (col < 1) {
+    span.length = Math.max(1, span.length + col - 1);
+    span.column = 1;
+  } else span.column = col;
+  return span;
+}
+
+/** Moves every span inside an AST node `columns` to the left (over a prefix added to parse it). */
+function shiftSpans<T extends object>(node: T, columns: number): T {
+  const seen = new Set<object>();
+  const walk = (o: unknown): void => {
+    if (!o || typeof o !== 'object' || seen.has(o)) return;
+    seen.add(o);
+    const rec = o as Record<string, unknown>;
+    if (typeof rec.column === 'number' && typeof rec.line === 'number' && typeof rec.length === 'number') {
+      moveSpan(rec as unknown as { column: number; length: number }, columns);
+      return;
+    }
+    for (const v of Object.values(rec)) walk(v);
   };
-  return fix(st);
+  walk(node);
+  return node;
 }

@@ -39,6 +39,8 @@ export interface Statement {
 export interface NetlistAst {
   file: string;
   statements: Statement[];
+  /** Leading words of the lines that failed to parse (so that "no sweep" is not said of a broken one). */
+  failedKeywords: string[];
 }
 
 /** Span covering `a` through `b` when both lie on one line; otherwise `a`. */

@@ -151,10 +151,23 @@ function describe(t: IToken): string {
 }
 
 /** A plain message (and a hint) for a grammar error, instead of the parser generator's token lists. */
-function explain(e: IRecognitionException, line: IToken[]): { message: string; help?: string; at: IToken } {
-  const at = e.token.tokenType.name === 'EOF' ? line[line.length - 1]! : e.token;
+function explain(e: IRecognitionException, line: IToken[]): { message: string; help?: string; at: IToken; pastEnd?: boolean } {
+  const atEnd = e.token.tokenType.name === 'EOF';
+  const at = atEnd ? line[line.length - 1]! : e.token;
   const found = describe(e.token);
-  const prev = line[line.indexOf(e.token) - 1];
+  const idx = line.indexOf(e.token);
+  const prev = line[idx - 1];
+  const prev2 = line[idx - 2];
+  const isName = (t: IToken | undefined) => t?.tokenType.name === 'Identifier';
+  const isEq = (t: IToken | undefined) => t?.tokenType.name === 'Equals';
+  // `key= next=…`: the value of `key` is missing, and `next` was taken for it
+  if (isEq(e.token) && isName(prev) && isEq(prev2)) {
+    return { message: `\`${line[idx - 3]?.image ?? ''}=\` has no value`, help: `give a value after \`${line[idx - 3]?.image ?? ''}=\``, at: prev! };
+  }
+  // `resistor r1 r2 a=in`: a second name where an argument should be
+  if (isEq(line[idx + 1]) && isName(e.token) && isName(prev) && idx >= 2) {
+    return { message: `unexpected \`${prev!.image}\`: expected \`key=value\``, help: 'a statement has one name after its keyword; every argument after it is written `key=value`', at: prev! };
+  }
   if (e.name === 'NotAllInputParsedException' || /EOF/.test(e.message)) {
     if (e.token.tokenType.name === 'Equals' && prev) {
       return { message: `unexpected ${found} after \`${prev.image}\``, help: 'arguments are written `key=value`; a statement starts with a keyword and an optional name, e.g. `resistor r1 a=in b=out value=50 ohm`', at };
@@ -166,8 +179,8 @@ function explain(e: IRecognitionException, line: IToken[]): { message: string; h
   }
   const m = /Expecting token of type --> (\w+) <--/.exec(e.message);
   const want = m ? TOKEN_WORDS[m[1]!] ?? m[1]! : 'a value';
-  if (e.token.tokenType.name === 'EOF') {
-    return { message: `the line ends where ${want} was expected`, help: prev?.image === '=' ? 'give a value after `=`' : undefined, at };
+  if (atEnd) {
+    return { message: `the line ends where ${want} was expected`, help: prev?.image === '=' ? 'give a value after `=`' : undefined, at, pastEnd: true };
   }
   if (/one of these possible Token sequences/.test(e.message) || e.name === 'NoViableAltException') {
     return { message: `unexpected ${found}: expected a value (a number, a name or a parenthesised expression)`, at };
@@ -183,16 +196,27 @@ export function parseNetlist(text: string, file: string, bag: DiagnosticBag): Ne
   }
   const builder = new AstBuilder(file);
   const statements: Statement[] = [];
+  const failedKeywords: string[] = [];
   for (const line of cst.lines) {
+    if (line.openString) {
+      bag.error('syntax', 'this quoted string is not closed', tokSpan(file, line.openString), 'end it with `"` on the same line');
+      failedKeywords.push(line.tokens[0]!.image);
+      continue;
+    }
     if (line.errors.length > 0) {
-      const { message, help, at } = explain(line.errors[0]!, line.tokens);
+      const { message, help, at, pastEnd } = explain(line.errors[0]!, line.tokens);
       const span = tokSpan(file, at);
-      if (at !== line.errors[0]!.token) span.column += at.image.length; // point just past the last token
+      if (pastEnd) {
+        // point just past the last token
+        span.column += at.image.length;
+        span.length = 1;
+      }
       bag.error('syntax', message, span, help);
+      failedKeywords.push(line.tokens[0]!.image);
       continue;
     }
     const st = line.cst!.children.statement as CstNode[];
     statements.push(builder.statement(st[0]!));
   }
-  return { file, statements };
+  return { file, statements, failedKeywords };
 }

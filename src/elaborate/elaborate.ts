@@ -36,6 +36,8 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
   const params = new Map<string, { value: Quantity | undefined; span: SourceSpan; used: boolean }>();
   const laterParams = new Map<string, SourceSpan>();
   const overrides = new Map<string, Override>();
+  /** Parameters referenced before their definition (already an error there; not "unused" too). */
+  const usedEarly = new Set<string>();
   for (const o of options.overrides ?? []) overrides.set(o.name, o);
 
   // Names of every `let` in the file, so that a reference to a later one gets a precise message.
@@ -45,7 +47,10 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
   }
 
   const scope: EvalScope = {
-    lookup: (n) => params.get(n)?.value,
+    lookup: (n) => {
+      const p = params.get(n);
+      return p === undefined ? undefined : (p.value ?? null);
+    },
     names: () => params.keys(),
     used: (n) => {
       const p = params.get(n);
@@ -53,6 +58,7 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
     },
     explainMissing: (n) => {
       const later = laterParams.get(n);
+      if (later && !params.has(n)) usedEarly.add(n);
       if (later && !params.has(n)) return `\`${n}\` is defined later, at line ${later.line}; a parameter can only use those defined before it`;
       return undefined;
     },
@@ -128,7 +134,11 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
         bag.error('bad-let', 'write a parameter as `let name = value`', a.span);
         continue;
       }
-      if (a.values.length !== 1 || a.at) {
+      if (a.at) {
+        bag.error('bad-let', '`at` does not belong in a parameter definition', a.at.span);
+        continue;
+      }
+      if (a.values.length !== 1) {
         bag.error('bad-let', 'a parameter takes one value', a.span);
         continue;
       }
@@ -151,7 +161,8 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
         continue;
       }
       if (!allowed.includes(a.key)) {
-        const near = closest(a.key, allowed);
+        const given = new Set(st.args.map((x) => (x.kind === 'key' ? x.key : '')));
+        const near = closest(a.key, allowed.filter((k) => !given.has(k)));
         if (near) suggestedKeys.add(near);
         bag.error('unknown-argument', `${what} has no argument \`${a.key}\``, a.keySpan, near ? `did you mean \`${near}\`?` : `its arguments are: ${allowed.join(', ')}`);
         continue;
@@ -303,6 +314,7 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
     const args = keyArgs(st, ['plus', 'minus', 'ref'], '`port`');
     const plusArg = args.get('plus');
     if (!plusArg) {
+      if (suggestedKeys.has('plus')) return;
       bag.error('missing-terminal', `port ${number} needs \`plus=<node>\``, st.label.span, '`minus` defaults to ground');
       return;
     }
@@ -327,21 +339,24 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
 
   // Sweep: the override wins over the file's statements.
   const sweepSource = options.sweep && options.sweep.length > 0 ? options.sweep : sweepStatements;
-  const frequencies = buildSweep(sweepSource, bag, (a, unit, quantity) => numberArg(a, unit, quantity), (st, allowed, what) => keyArgs(st, allowed, what));
-  if (sweepSource.length === 0) {
+  const frequencies = buildSweep(sweepSource, bag, (a, unit, quantity) => numberArg(a, unit, quantity), (st, allowed, what) => keyArgs(st, allowed, what), (key) => suggestedKeys.has(key));
+  if (sweepSource.length === 0 && !ast.failedKeywords.includes('sweep')) {
     bag.error('no-sweep', 'the netlist has no `sweep`', { file: ast.file, line: 1, column: 1, length: 1 }, 'add e.g. `sweep linear start=1 MHz stop=1 GHz points=201`, or give `--sweep` on the command line');
   }
 
   // Ports: numbered 1..N without gaps.
   const portList = [...ports.values()].sort((a, b) => a.number - b.number);
-  if (portList.length === 0 && !bag.hasErrors) {
+  if (!ast.statements.some((st) => st.keyword === 'port') && !ast.failedKeywords.includes('port')) {
     bag.error('no-ports', 'the netlist has no `port`', { file: ast.file, line: 1, column: 1, length: 1 }, 'add e.g. `port 1 plus=in`');
   }
-  portList.forEach((p, i) => {
-    if (p.number !== i + 1) {
-      bag.error('port-gap', `ports must be numbered 1 to ${portList.length} without gaps; port ${i + 1} is missing`, p.span);
-    }
-  });
+  const missingPorts: number[] = [];
+  const highest = portList.length ? portList[portList.length - 1]!.number : 0;
+  for (let k = 1; k <= highest; k++) if (!ports.has(k)) missingPorts.push(k);
+  if (missingPorts.length > 0) {
+    const after = portList.find((p) => p.number > missingPorts[0]!)!;
+    const list = missingPorts.length === 1 ? `port ${missingPorts[0]} is missing` : `ports ${missingPorts.join(', ')} are missing`;
+    bag.error('port-gap', `ports must be numbered from 1 without gaps; ${list}`, after.span);
+  }
 
   // Overrides that name no parameter.
   for (const o of overrides.values()) {
@@ -350,8 +365,8 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
     }
   }
 
-  // Warnings about the connections.
-  nodeUses.forEach((u, i) => {
+  // Warnings about the connections (not when errors may have dropped some elements).
+  if (!bag.hasErrors) nodeUses.forEach((u, i) => {
     const name = nodeNames[i]!;
     if (u.elementUses === 0) {
       bag.warning('port-on-bare-node', `${u.by[0]} is on node \`${name}\`, which no element touches`, u.first);
@@ -360,7 +375,7 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
     }
   });
   for (const [name, p] of params) {
-    if (!p.used && !overrides.has(name)) {
+    if (!p.used && !overrides.has(name) && !usedEarly.has(name) && p.value !== undefined) {
       bag.warning('unused-parameter', `parameter \`${name}\` is never used`, p.span);
     }
   }

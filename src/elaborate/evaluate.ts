@@ -57,8 +57,8 @@ export function unitOf(text: string): Unit | undefined {
 }
 
 export interface EvalScope {
-  /** Parameter values by name. */
-  lookup(name: string): Quantity | undefined;
+  /** Parameter values by name; null for a parameter whose own definition failed (already reported). */
+  lookup(name: string): Quantity | null | undefined;
   /** Names that can be suggested for a misspelling. */
   names(): Iterable<string>;
   /** Called for each name referenced (for unused-parameter warnings). */
@@ -82,10 +82,16 @@ export function evaluate(e: Expr, scope: EvalScope, bag: DiagnosticBag): Quantit
       const name = normaliseUnit(e.unit);
       const u = unitOf(name);
       if (!u) {
-        let help = didYouMean(e.unit, COMMON_UNITS);
-        if (!help && scope.lookup(e.unit) !== undefined) help = `to multiply by the parameter, write \`${e.text}*${e.unit}\``;
+        let help: string | undefined;
+        if (scope.lookup(e.unit) !== undefined) {
+          scope.used?.(e.unit);
+          help = `to multiply by the parameter, write \`${e.text}*${e.unit}\``;
+        } else help = didYouMean(e.unit, COMMON_UNITS);
         bag.error('unknown-unit', `unknown unit \`${e.unit}\``, e.unitSpan ?? e.span, help);
         return undefined;
+      }
+      if (name === 'mHz') {
+        bag.warning('millihertz', '`mHz` is millihertz (SI prefixes are case-sensitive)', e.unitSpan ?? e.span, 'for megahertz write `MHz`');
       }
       return math.unit(e.value, name);
     }
@@ -93,7 +99,7 @@ export function evaluate(e: Expr, scope: EvalScope, bag: DiagnosticBag): Quantit
       const v = scope.lookup(e.name);
       if (v !== undefined) {
         scope.used?.(e.name);
-        return v;
+        return v === null ? undefined : v;
       }
       if (e.name in CONSTANTS) return CONSTANTS[e.name]!;
       const why = scope.explainMissing?.(e.name);

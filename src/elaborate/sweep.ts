@@ -15,7 +15,14 @@ export const MAX_POINTS = 10_000_000;
  * explicit list); segments are joined, sorted ascending and points that coincide (to 1e-12
  * relative) are kept once.
  */
-export function buildSweep(statements: Statement[], bag: DiagnosticBag, numberOf: NumberOf, keyArgs: KeyArgsOf): Float64Array {
+export function buildSweep(
+  statements: Statement[],
+  bag: DiagnosticBag,
+  numberOf: NumberOf,
+  keyArgs: KeyArgsOf,
+  /** Whether a misspelt argument of the last statement read was taken to mean `key` (already reported). */
+  suggested: (key: string) => boolean = () => false,
+): Float64Array {
   const all: number[] = [];
   for (const st of statements) {
     const kind = st.label && !st.label.isNumber ? st.label.text : undefined;
@@ -33,6 +40,7 @@ export function buildSweep(statements: Statement[], bag: DiagnosticBag, numberOf
       const args = keyArgs(st, ['freqs'], '`sweep list`');
       const a = args.get('freqs');
       if (!a) {
+        if (suggested('freqs')) continue;
         bag.error('bad-sweep', '`sweep list` needs `freqs=f1, f2, …`', st.span, 'e.g. `sweep list freqs=315 MHz, 433 MHz, 868 MHz`');
         continue;
       }
@@ -49,7 +57,7 @@ export function buildSweep(statements: Statement[], bag: DiagnosticBag, numberOf
     const start = freq(args.get('start'));
     const stop = freq(args.get('stop'));
     for (const k of ['start', 'stop']) {
-      if (!args.has(k)) bag.error('bad-sweep', `\`sweep ${kind}\` needs \`${k}=<frequency>\``, st.span);
+      if (!args.has(k) && !suggested(k)) bag.error('bad-sweep', `\`sweep ${kind}\` needs \`${k}=<frequency>\``, st.span);
     }
     if (start === undefined || stop === undefined) continue;
     if (start < 0 || stop < start) {
@@ -60,6 +68,7 @@ export function buildSweep(statements: Statement[], bag: DiagnosticBag, numberOf
     const pointsArg = args.get('points');
     const otherArg = args.get(countKey);
     if ((pointsArg ? 1 : 0) + (otherArg ? 1 : 0) !== 1) {
+      if (!pointsArg && !otherArg && (suggested('points') || suggested(countKey))) continue;
       bag.error('bad-sweep', `\`sweep ${kind}\` needs exactly one of \`points\` and \`${countKey}\``, st.span);
       continue;
     }

@@ -13,6 +13,8 @@ export const Continuation = createToken({
 export const Comment = createToken({ name: 'Comment', pattern: /#[^\n\r]*/, group: Lexer.SKIPPED });
 export const Newline = createToken({ name: 'Newline', pattern: /\r?\n|\r/, line_breaks: true });
 export const StringLit = createToken({ name: 'StringLit', pattern: /"(?:[^"\\\n\r]|\\.)*"/ });
+/** A quoted string that the line ends inside of; the visitor reports it. */
+export const OpenString = createToken({ name: 'OpenString', pattern: /"(?:[^"\\\n\r]|\\.)*/ });
 export const NumberLit = createToken({
   name: 'NumberLit',
   pattern: /(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?/,
@@ -39,6 +41,7 @@ export const allTokens: TokenType[] = [
   Comment,
   Newline,
   StringLit,
+  OpenString,
   NumberLit,
   At,
   Identifier,

@@ -10,6 +10,7 @@ import {
   Minus,
   Newline,
   NumberLit,
+  OpenString,
   Plus,
   RParen,
   Slash,
@@ -182,6 +183,8 @@ export interface ParsedLine {
   cst: CstNode | undefined;
   tokens: IToken[];
   errors: IRecognitionException[];
+  /** A quoted string left open at the end of the line (the line is then not parsed). */
+  openString?: IToken;
 }
 
 export interface CstFile {
@@ -205,6 +208,12 @@ export function parseToCst(text: string): CstFile {
   let current: IToken[] = [];
   const flush = () => {
     if (current.length === 0) return;
+    const open = current.find((t) => t.tokenType === OpenString);
+    if (open) {
+      lines.push({ cst: undefined, tokens: current, errors: [], openString: open });
+      current = [];
+      return;
+    }
     parser.input = current;
     const cst = parser.line();
     const errors = parser.errors.slice();
