@@ -38,9 +38,9 @@ const COMMON_UNITS = [
   'deg', 'rad',
 ];
 
-/** Writes unit names as mathjs reads them: Ω → ohm, µ/μ (micro) → u. */
+/** Writes unit names as mathjs reads them: Ω (omega or the ohm sign) → ohm, µ/μ (micro) → u. */
 export function normaliseUnit(u: string): string {
-  return u.replace(/Ω/g, 'ohm').replace(/^[\u00B5\u03BC]/, 'u');
+  return u.replace(/[\u03A9\u2126]/g, 'ohm').replace(/^[\u00B5\u03BC]/, 'u');
 }
 
 function isUnit(x: unknown): x is Unit {

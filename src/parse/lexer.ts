@@ -21,7 +21,7 @@ export const NumberLit = createToken({
 });
 export const Identifier = createToken({
   name: 'Identifier',
-  pattern: /[A-Za-z_\u00B5\u03BC\u03A9][A-Za-z0-9_\u00B5\u03BC\u03A9]*/,
+  pattern: /[A-Za-z_\u00B5\u03BC\u03A9\u2126][A-Za-z0-9_\u00B5\u03BC\u03A9\u2126]*/,
 });
 /** `at` introduces the frequency a loss figure is given at (`q=40 at 433 MHz`). */
 export const At = createToken({ name: 'At', pattern: /at\b/, longer_alt: Identifier });

@@ -2,7 +2,7 @@ import type { Circuit } from '../elaborate/circuit.js';
 import { NodeSets } from '../elaborate/islands.js';
 import { ELEMENTS } from '../elements/registry.js';
 import { GROUND } from '../elements/types.js';
-import { createLu, luFactor, luSolve, rcondEstimate, LU_OK } from '../network/complex.js';
+import { createLu, luFactor, luSolve, rcondEstimate, LU_OK, type LuFactors } from '../network/complex.js';
 import type { NetworkData } from '../network/types.js';
 import { buildPlan, type StampPlan } from '../plan/plan.js';
 
@@ -82,7 +82,7 @@ export function solveSweep(circuit: Circuit, options: SweepOptions = {}): Networ
     }
     const status = luFactor(n, a, lu, 0);
     if (status !== LU_OK || rcondEstimate(lu) < SINGULAR_RCOND) {
-      throw explainSingular(circuit, plan, freqs[k]!, status);
+      throw explainSingular(circuit, plan, freqs[k]!, status, lu);
     }
     luSolve(lu, rhs, x, p);
     const base = 2 * p * p * k;
@@ -129,7 +129,7 @@ function formatHz(f: number): string {
  * conduct at this frequency (a node between capacitors at 0 Hz, say); failing that, the unknown
  * at which elimination broke down.
  */
-function explainSingular(circuit: Circuit, plan: StampPlan, f: number, pivot: number): SingularSystemError {
+function explainSingular(circuit: Circuit, plan: StampPlan, f: number, pivot: number, lu: LuFactors): SingularSystemError {
   const omega = 2 * Math.PI * f;
   const sets = new NodeSets(circuit.nodeNames.length);
   for (const r of circuit.localReferences) sets.join(r, GROUND);
@@ -157,11 +157,25 @@ function explainSingular(circuit: Circuit, plan: StampPlan, f: number, pivot: nu
         : 'give the node(s) a path to ground',
     );
   }
-  const who = pivot >= 0 && pivot < plan.unknownNames.length ? plan.unknownNames[pivot]! : 'an unknown';
+  let culprits: string[];
+  if (pivot >= 0) culprits = [plan.unknownNames[pivot] ?? 'an unknown'];
+  else {
+    // Factored, but ill-conditioned: a solve amplifies the near-null direction, and the unknowns
+    // that carry it are the ones left undetermined.
+    const n = plan.size;
+    const b = new Float64Array(2 * n);
+    for (let i = 0; i < n; i++) b[2 * i] = 1 + i / n;
+    const x = luSolve(lu, b, new Float64Array(2 * n), 1);
+    let max = 0;
+    for (let i = 0; i < n; i++) max = Math.max(max, Math.hypot(x[2 * i]!, x[2 * i + 1]!));
+    culprits = [];
+    for (let i = 0; i < n; i++) if (Math.hypot(x[2 * i]!, x[2 * i + 1]!) >= 0.3 * max) culprits.push(plan.unknownNames[i]!);
+  }
+  const shown = culprits.slice(0, 8).join(', ') + (culprits.length > 8 ? ` and ${culprits.length - 8} more` : '');
   return new SingularSystemError(
-    `the circuit cannot be solved at ${at}: the nodal system is singular (at ${who})`,
+    `the circuit cannot be solved at ${at}: the nodal system is singular; ${shown} ${culprits.length === 1 ? 'is' : 'are'} not determined`,
     f,
-    [who],
+    culprits,
     'look for a loop of ideal inductors or a resonance with no loss that isolates part of the circuit',
   );
 }
