@@ -6,8 +6,13 @@ import type { ElementType } from './types.js';
  * quality factor at a stated frequency (`q=Q at f0`), which sets Rs = 2π·f0·L/Q, held constant over
  * frequency (so the model's Q rises in proportion to f away from f0).
  *
- * Stamped with a branch current so that it is an exact short at 0 Hz: v_a − v_b = (Rs + jωL)·i.
+ * Stamped with a branch current so that it is a short at 0 Hz: v_a − v_b = (Rs + jωL)·i.
+ * A lossless inductor at exactly 0 Hz is given {@link DC_SHORT_OHMS} of resistance, so that a loop
+ * of ideal inductors (two in parallel, say) has a definite current split; its effect on S is far
+ * below the solver's rounding (a 1 pΩ short against 50 Ω references moves S by about 4e-14).
  */
+export const DC_SHORT_OHMS = 1e-12;
+
 export const inductor: ElementType = {
   keyword: 'inductor',
   summary: 'inductor between terminals a and b, with optional series loss (rs, or q at a frequency)',
@@ -33,6 +38,7 @@ export const inductor: ElementType = {
     const l = el.props.value!;
     const q = el.props.q;
     const r = q !== undefined ? (2 * Math.PI * el.at.q! * l) / q : (el.props.rs ?? 0);
-    return (omega, v) => addBranchImpedance(v, s, r, omega * l);
+    const r0 = r > 0 ? r : DC_SHORT_OHMS;
+    return (omega, v) => addBranchImpedance(v, s, omega === 0 ? r0 : r, omega * l);
   },
 };

@@ -19,6 +19,8 @@ export interface StampPlan {
   nodeUnknown: Int32Array;
   /** What each unknown is, for messages: a node name or a branch description. */
   unknownNames: string[];
+  /** The circuit node of each unknown, or -1 for a branch current. */
+  unknownNode: Int32Array;
   /** Row and column of each slot. */
   slotRow: Int32Array;
   slotCol: Int32Array;
@@ -40,7 +42,7 @@ export function buildPlan(circuit: Circuit): StampPlan {
       continue;
     }
     nodeUnknown[i] = unknownNames.length;
-    unknownNames.push(`node \`${circuit.nodeNames[i]}\``);
+    unknownNames.push(circuit.nodeNames[i]!);
   }
   const toUnknown = (node: number) => (node === GROUND ? GROUND : nodeUnknown[node]!);
 
@@ -92,10 +94,13 @@ export function buildPlan(circuit: Circuit): StampPlan {
   // Every unknown gets its diagonal slot, so that the pattern is structurally square.
   const size = nodeCount + branchNames.length;
   for (let i = 0; i < size; i++) builder.entry(i, i);
+  const unknownNode = new Int32Array(size).fill(-1);
+  for (let i = 0; i < nodeUnknown.length; i++) if (nodeUnknown[i]! >= 0) unknownNode[nodeUnknown[i]!] = i;
   return {
     size,
     nodeUnknown,
     unknownNames: [...unknownNames, ...branchNames],
+    unknownNode,
     slotRow: Int32Array.from(rows),
     slotCol: Int32Array.from(cols),
     stampers,

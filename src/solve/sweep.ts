@@ -157,8 +157,8 @@ function explainSingular(circuit: Circuit, plan: StampPlan, f: number, pivot: nu
         : 'give the node(s) a path to ground',
     );
   }
-  let culprits: string[];
-  if (pivot >= 0) culprits = [plan.unknownNames[pivot] ?? 'an unknown'];
+  const blamed: number[] = [];
+  if (pivot >= 0) blamed.push(pivot);
   else {
     // Factored, but ill-conditioned: a solve amplifies the near-null direction, and the unknowns
     // that carry it are the ones left undetermined.
@@ -168,14 +168,15 @@ function explainSingular(circuit: Circuit, plan: StampPlan, f: number, pivot: nu
     const x = luSolve(lu, b, new Float64Array(2 * n), 1);
     let max = 0;
     for (let i = 0; i < n; i++) max = Math.max(max, Math.hypot(x[2 * i]!, x[2 * i + 1]!));
-    culprits = [];
-    for (let i = 0; i < n; i++) if (Math.hypot(x[2 * i]!, x[2 * i + 1]!) >= 0.3 * max) culprits.push(plan.unknownNames[i]!);
+    for (let i = 0; i < n; i++) if (Math.hypot(x[2 * i]!, x[2 * i + 1]!) >= 0.3 * max) blamed.push(i);
   }
-  const shown = culprits.slice(0, 8).join(', ') + (culprits.length > 8 ? ` and ${culprits.length - 8} more` : '');
+  const culprits = blamed.map((i) => plan.unknownNames[i]!);
+  const labels = blamed.map((i) => (plan.unknownNode[i]! >= 0 ? `node \`${plan.unknownNames[i]}\`` : plan.unknownNames[i]!));
+  const shown = labels.slice(0, 8).join(', ') + (labels.length > 8 ? ` and ${labels.length - 8} more` : '');
   return new SingularSystemError(
     `the circuit cannot be solved at ${at}: the nodal system is singular; ${shown} ${culprits.length === 1 ? 'is' : 'are'} not determined`,
     f,
     culprits,
-    'look for a loop of ideal inductors or a resonance with no loss that isolates part of the circuit',
+    'look for a resonance with no loss that isolates part of the circuit at this frequency',
   );
 }
