@@ -1,4 +1,14 @@
+import { existsSync, mkdirSync } from 'node:fs';
+import { basename, extname, join } from 'node:path';
 import yargs, { type Argv } from 'yargs';
+import { compareNetworks, CompareError, type Comparison, type Tolerance } from '../src/check/compare.js';
+import { evaluateSpecs } from '../src/check/evaluate.js';
+import { comparisonSuite, formatJunit, specSuite, type JunitSuite } from '../src/check/junit.js';
+import { checkReportJson, formatComparisonTable, formatSpecTable } from '../src/check/report.js';
+import { writeFileAtomicSync } from '../src/io/atomic.js';
+import { expandInputs, InputsError } from '../src/io/inputs.js';
+import { readNetworkFile } from '../src/io/read.js';
+import { touchstoneExtension } from '../src/io/touchstone.js';
 import {
   convertNetwork,
   ConversionError,
@@ -19,7 +29,7 @@ import {
   type TouchstoneVersion,
 } from '../src/index.js';
 
-/** Exit codes: 0 success, 1 an input (or solve, or write) error, 2 a usage error. */
+/** Exit codes: 0 success, 1 an input (or solve, or write) error — for `check` and `diff`: a failed check —, 2 a usage error. */
 export const EXIT_OK = 0;
 export const EXIT_INPUT = 1;
 export const EXIT_USAGE = 2;
@@ -36,6 +46,22 @@ const defaultIo: Io = {
 
 class UsageError extends Error {}
 
+/** Exit code of `check` and `diff` for an input error (1 there means "a check failed"). */
+export const EXIT_CHECK_INPUT = 3;
+
+const toleranceOptions = (y: Argv) =>
+  y
+    .option('tol-db', { type: 'number', default: 0.01, describe: 'largest magnitude difference in dB' })
+    .option('tol-deg', { type: 'number', default: 0.1, describe: 'largest phase difference in degrees' })
+    .option('tol-abs', { type: 'number', describe: 'compare the complex difference |a − b| with this bound instead of dB and degrees' })
+    .option('floor-db', { type: 'number', default: -100, describe: 'magnitudes below this (dB) are not judged in dB and degrees' });
+
+const solveOptions = (y: Argv) =>
+  y
+    .option('set', { type: 'string', array: true, describe: 'override a parameter: name=value, with units (repeatable)' })
+    .option('sweep', { type: 'string', describe: 'replace the netlist sweep: segments as after `sweep`, joined by `;`' })
+    .option('quiet', { alias: 'q', type: 'boolean', default: false, describe: 'do not print warnings' });
+
 /** Runs the command line; returns the exit code. */
 export async function main(argv: string[], io: Io = defaultIo): Promise<number> {
   let code = EXIT_OK;
@@ -43,36 +69,69 @@ export async function main(argv: string[], io: Io = defaultIo): Promise<number> 
     .scriptName('scatterbox')
     .usage('$0 <command> [options]\n\nS-parameters of linear RF networks from a plain-text netlist.')
     .command(
-      'solve <netlist>',
-      'solve a netlist and write its S-parameters (or print a table)',
+      'solve <netlist..>',
+      'solve netlists and write their S-parameters (or print a table)',
       (y: Argv) =>
-        y
-          .positional('netlist', { type: 'string', describe: 'netlist file (.sbx)', demandOption: true })
+        solveOptions(y)
+          .positional('netlist', { type: 'string', array: true, describe: 'netlist files (.sbx), folders of them or patterns such as circuits/*.sbx', demandOption: true })
           .option('out', { alias: 'o', type: 'string', describe: 'output file; the format follows the extension (.sNp, .csv, .json)' })
+          .option('out-dir', { type: 'string', describe: 'with several netlists: the folder to write one file per netlist into (<name>.sNp, or .csv/.json with --format)' })
           .option('format', { choices: ['touchstone', 'csv', 'json', 'table'] as const, describe: 'output format (default: from the extension; table without -o)' })
           .option('touchstone', { choices: ['1.1', '2.0'] as const, describe: 'Touchstone version (default 1.1 when all port references are equal, else 2.0)' })
           .option('data', { choices: ['ri', 'ma', 'db'] as const, default: 'ri', describe: 'complex format: real/imaginary, magnitude/angle, dB/angle' })
           .option('freq-unit', { choices: ['Hz', 'kHz', 'MHz', 'GHz'] as const, default: 'GHz', describe: 'frequency unit of Touchstone files' })
           .option('param', { choices: ['S', 'Z', 'Y'] as const, default: 'S', describe: 'parameters to write (Z and Y where they exist)' })
-          .option('set', { type: 'string', array: true, describe: 'override a parameter: name=value, with units (repeatable)' })
-          .option('sweep', { type: 'string', describe: 'replace the netlist sweep: segments as after `sweep`, joined by `;`' })
           .option('digits', { type: 'number', describe: 'significant digits of written numbers' })
-          .option('quiet', { alias: 'q', type: 'boolean', default: false, describe: 'do not print warnings' })
           .example('$0 solve circuits/harmonic-lowpass-433.sbx', 'print |S| in dB and angle per frequency')
           .example('$0 solve circuits/harmonic-lowpass-433.sbx -o lowpass.s2p --data db', 'write a Touchstone 1.1 file in dB/angle')
           .example('$0 solve circuits/match-50-75-915.sbx -o match.s2p --touchstone 2.0', 'per-port references need version 2.0')
           .example('$0 solve filter.sbx --set fc=915MHz --sweep "linear start=1 MHz stop=3 GHz points=301"', 'override a parameter and the sweep')
+          .example('$0 solve circuits/ --out-dir reference/', 'one Touchstone file per netlist, for golden files')
           .example('$0 solve pad.sbx -o pad.csv --param Z', 'write the Z matrix as CSV'),
       async (args) => {
         code = runSolve(args as unknown as SolveArgs, io);
+      },
+    )
+    .command(
+      'check <netlist>',
+      'solve a netlist and check its specs (and, with --against, a golden file)',
+      (y: Argv) =>
+        toleranceOptions(solveOptions(y))
+          .positional('netlist', { type: 'string', describe: 'netlist file (.sbx)', demandOption: true })
+          .option('junit', { type: 'string', describe: 'write a JUnit XML report to this file' })
+          .option('json', { type: 'string', describe: 'write a JSON report to this file' })
+          .option('against', { type: 'string', describe: 'golden file (.sNp or .json) the solved S-parameters must match' })
+          .option('update', { type: 'boolean', default: false, describe: 'rewrite the golden file from this solve (atomically) instead of comparing' })
+          .example('$0 check circuits/bandpass-2g4.sbx', 'evaluate the netlist\'s spec statements')
+          .example('$0 check circuits/bandpass-2g4.sbx --junit report.xml', 'also write a JUnit report for CI')
+          .example('$0 check filter.sbx --against golden/filter.s2p --tol-db 0.05', 'compare with a golden file')
+          .example('$0 check filter.sbx --against golden/filter.s2p --update', 'accept the new response as golden')
+          .epilog('Exit codes: 0 every check passes, 1 a check fails, 2 usage error, 3 input error.'),
+      async (args) => {
+        code = runCheck(args as unknown as CheckArgs, io);
+      },
+    )
+    .command(
+      'diff <a> <b>',
+      'compare two network-data files entry by entry',
+      (y: Argv) =>
+        toleranceOptions(y)
+          .positional('a', { type: 'string', describe: 'first file (.sNp or .json)', demandOption: true })
+          .positional('b', { type: 'string', describe: 'second file (.sNp or .json)', demandOption: true })
+          .example('$0 diff old.s2p new.s2p', 'worst deviation per S entry and where')
+          .example('$0 diff old.s2p new.s2p --tol-abs 1e-9', 'judge the complex difference instead')
+          .epilog('Exit codes: 0 within tolerance, 1 they differ, 2 usage error, 3 input error.'),
+      async (args) => {
+        code = runDiff(args as unknown as DiffArgs, io);
       },
     )
     .demandCommand(1, 'give a command, e.g. `scatterbox solve circuits/harmonic-lowpass-433.sbx`')
     .strict()
     .recommendCommands()
     .example('$0 solve circuits/harmonic-lowpass-433.sbx -o lowpass.s2p', 'solve a demo and write Touchstone')
+    .example('$0 check circuits/bandpass-2g4.sbx --junit report.xml', 'check the specs of a design in CI')
     .example('$0 solve --help', 'options of `solve`')
-    .epilog('Exit codes: 0 success, 1 input error, 2 usage error. Messages go to stderr.')
+    .epilog('Exit codes: 0 success, 1 input error (for check and diff: a check failed), 2 usage error, 3 input error of check and diff. Messages go to stderr.')
     .help()
     .alias('h', 'help')
     .version()
@@ -95,8 +154,9 @@ export async function main(argv: string[], io: Io = defaultIo): Promise<number> 
 }
 
 interface SolveArgs {
-  netlist: string;
+  netlist: string[];
   out?: string;
+  outDir?: string;
   format?: OutputFormat | 'table';
   touchstone?: TouchstoneVersion;
   data: 'ri' | 'ma' | 'db';
@@ -108,35 +168,128 @@ interface SolveArgs {
   quiet: boolean;
 }
 
+function load(a: { set?: string[]; sweep?: string; quiet: boolean }, file: string, io: Io) {
+  const loaded = loadNetlistFile(file, { set: a.set, sweep: a.sweep });
+  if (!a.quiet && loaded.warnings.length > 0) io.err(formatDiagnostics(loaded.warnings, loaded.sources) + '\n');
+  return loaded;
+}
+
 function runSolve(a: SolveArgs, io: Io): number {
   try {
-    const loaded = loadNetlistFile(a.netlist, { set: a.set, sweep: a.sweep });
-    if (!a.quiet && loaded.warnings.length > 0) io.err(formatDiagnostics(loaded.warnings, loaded.sources) + '\n');
-    const net = solve(loaded.circuit);
-    const options = {
+    const files = expandInputs(a.netlist);
+    const batch = files.length > 1 || a.outDir !== undefined;
+    if (batch && a.out) throw new OutputError('-o names one file, but several netlists were given', 'use --out-dir FOLDER to write one file per netlist');
+    if (batch && !a.outDir) throw new OutputError('several netlists were given but no --out-dir', 'add --out-dir FOLDER');
+    if (batch && a.format === 'table') throw new OutputError('the table format is for the terminal only', 'pick touchstone, csv or json');
+    const options = (file: string) => ({
       parameter: a.param,
       version: a.touchstone,
       data: a.data.toUpperCase() as ComplexFormat,
       frequencyUnit: a.freqUnit,
       digits: a.digits,
-      comments: [`scatterbox solve ${a.netlist}`],
-    };
-    if (!a.out) {
-      if (!a.format || a.format === 'table') {
-        io.out(formatTable(a.param === 'S' ? net : convertNetwork(net, a.param)));
-      } else {
-        io.out(renderNetwork(net, { ...options, format: a.format }));
+      comments: [`scatterbox solve ${basename(file)}`],
+    });
+    if (batch) {
+      mkdirSync(a.outDir!, { recursive: true });
+      let failed = 0;
+      for (const file of files) {
+        try {
+          const net = solve(load(a, file, io).circuit);
+          const format = (a.format as OutputFormat | undefined) ?? 'touchstone';
+          const ext = format === 'touchstone' ? touchstoneExtension(net.ports) : `.${format}`;
+          const out = join(a.outDir!, basename(file, extname(file)) + ext);
+          writeNetwork(net, out, { ...options(file), format });
+          if (!a.quiet) io.err(`${file} → ${out}\n`);
+        } catch (e) {
+          failed++;
+          io.err(describeError(e, a.quiet) + '\n');
+        }
       }
+      if (failed > 0) io.err(`${failed} of ${files.length} netlists failed; their files were not written\n`);
+      return failed > 0 ? EXIT_INPUT : EXIT_OK;
+    }
+    const net = solve(load(a, files[0]!, io).circuit);
+    if (!a.out) {
+      if (!a.format || a.format === 'table') io.out(formatTable(a.param === 'S' ? net : convertNetwork(net, a.param)));
+      else io.out(renderNetwork(net, { ...options(files[0]!), format: a.format }));
       return EXIT_OK;
     }
-    if (a.format === 'table') {
-      throw new OutputError('the table format is for the terminal only', 'leave out -o, or pick touchstone, csv or json');
-    }
-    writeNetwork(net, a.out, { ...options, format: a.format });
+    if (a.format === 'table') throw new OutputError('the table format is for the terminal only', 'leave out -o, or pick touchstone, csv or json');
+    writeNetwork(net, a.out, { ...options(files[0]!), format: a.format });
     return EXIT_OK;
   } catch (e) {
     io.err(describeError(e, a.quiet) + '\n');
     return EXIT_INPUT;
+  }
+}
+
+interface ToleranceArgs {
+  tolDb: number;
+  tolDeg: number;
+  tolAbs?: number;
+  floorDb: number;
+}
+
+function tolerance(a: ToleranceArgs): Tolerance {
+  return { db: a.tolDb, deg: a.tolDeg, abs: a.tolAbs, floorDb: a.floorDb };
+}
+
+interface CheckArgs extends ToleranceArgs {
+  netlist: string;
+  junit?: string;
+  json?: string;
+  against?: string;
+  update: boolean;
+  set?: string[];
+  sweep?: string;
+  quiet: boolean;
+}
+
+function runCheck(a: CheckArgs, io: Io): number {
+  try {
+    if (a.update && !a.against) throw new OutputError('--update rewrites the golden file named by --against, but none was given', 'add --against FILE');
+    const { circuit } = load(a, a.netlist, io);
+    const net = solve(circuit);
+    const results = evaluateSpecs(circuit.specs, net);
+    let golden: { file: string; comparison: Comparison } | undefined;
+    if (a.against && a.update) {
+      writeNetwork(net, a.against, { comments: [`scatterbox check ${basename(a.netlist)} --update`] });
+      io.err(`updated ${a.against}\n`);
+    } else if (a.against) {
+      if (!existsSync(a.against)) {
+        throw new OutputError(`the golden file ${a.against} does not exist`, `run with --update to create it from this solve`);
+      }
+      golden = { file: a.against, comparison: compareNetworks(net, readNetworkFile(a.against), tolerance(a)) };
+    }
+    io.out(formatSpecTable(results));
+    if (golden) io.out(`\nagainst ${golden.file}:\n${formatComparisonTable(golden.comparison, net.parameter)}`);
+    const suites: JunitSuite[] = [specSuite(a.netlist, results)];
+    if (golden) suites.push(comparisonSuite(golden.file, golden.comparison));
+    if (a.junit) writeFileAtomicSync(a.junit, formatJunit(suites));
+    if (a.json) writeFileAtomicSync(a.json, checkReportJson({ netlist: a.netlist, specs: results, golden }));
+    const failed = results.filter((r) => !r.pass).length + (golden && !golden.comparison.pass ? 1 : 0);
+    io.out(failed === 0 ? `\nall ${suites.reduce((n, s) => n + s.cases.length, 0)} checks pass\n` : `\n${failed} check${failed === 1 ? '' : 's'} failed\n`);
+    return failed === 0 ? EXIT_OK : EXIT_INPUT;
+  } catch (e) {
+    io.err(describeError(e, a.quiet) + '\n');
+    return EXIT_CHECK_INPUT;
+  }
+}
+
+interface DiffArgs extends ToleranceArgs {
+  a: string;
+  b: string;
+}
+
+function runDiff(a: DiffArgs, io: Io): number {
+  try {
+    const c = compareNetworks(readNetworkFile(a.a), readNetworkFile(a.b), tolerance(a));
+    io.out(formatComparisonTable(c));
+    io.out(c.pass ? 'within tolerance\n' : 'the files differ beyond the tolerance\n');
+    return c.pass ? EXIT_OK : EXIT_INPUT;
+  } catch (e) {
+    io.err(describeError(e, false) + '\n');
+    return EXIT_CHECK_INPUT;
   }
 }
 
@@ -150,6 +303,7 @@ function describeError(e: unknown, quiet: boolean): string {
   if (e instanceof ConversionError) return `error: ${e.message}\n  help: write S-parameters (--param S), which exist for every solvable network`;
   if (e instanceof OutputError) return `error: ${e.message}${e.help ? `\n  help: ${e.help}` : ''}`;
   if (e instanceof TouchstoneError) return `${e.describe()}`;
+  if (e instanceof CompareError || e instanceof InputsError) return `error: ${e.message}${'help' in e && e.help ? `\n  help: ${e.help}` : ''}`;
   const err = e as NodeJS.ErrnoException;
   if (err && typeof err.code === 'string' && err.path) {
     const what = err.code === 'ENOENT' ? 'no such file or folder' : err.code === 'EACCES' ? 'permission denied' : err.message;

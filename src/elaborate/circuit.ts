@@ -1,5 +1,6 @@
 import type { Diagnostic, SourceSpan } from '../diagnostics/diagnostic.js';
 import type { ElementInstance } from '../elements/types.js';
+import type { SpecDefinition } from '../check/types.js';
 
 /** A port after elaboration: numbered from 1, between two nodes, with a real reference impedance. */
 export interface Port {
@@ -33,6 +34,8 @@ export interface Circuit {
   elements: ElementInstance[];
   /** Ports sorted by number, numbered 1..N without gaps. */
   ports: Port[];
+  /** Limits the circuit must meet (`spec` statements), checked by `scatterbox check`. */
+  specs: SpecDefinition[];
   /** Nodes that serve as the reference of a group with ports but no path to ground. */
   localReferences: number[];
   /** Sweep frequencies in Hz, ascending, without duplicates. */

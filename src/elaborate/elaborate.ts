@@ -6,7 +6,9 @@ import { GROUND, GROUND_NAME, type ElementInstance, type PropertySpec } from '..
 import type { Circuit, ParameterValue, Port } from './circuit.js';
 import { describeUnit, evaluate, math, toSI, type EvalScope, type Quantity } from './evaluate.js';
 import { floatingGroups } from './islands.js';
+import { elaborateSpec } from './spec.js';
 import { buildSweep } from './sweep.js';
+import type { SpecDefinition } from '../check/types.js';
 
 /** A parameter override from outside the netlist (`--set name=value`). */
 export interface Override {
@@ -23,7 +25,7 @@ export interface ElaborateOptions {
 }
 
 /** Statement keywords that are not elements. */
-export const STATEMENT_KEYWORDS = ['title', 'let', 'port', 'sweep'] as const;
+export const STATEMENT_KEYWORDS = ['title', 'let', 'port', 'sweep', 'spec'] as const;
 
 const DEFAULT_REFERENCE = 50;
 
@@ -88,6 +90,7 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
   const elementNames = new Map<string, SourceSpan>();
   const ports = new Map<number, Port>();
   const sweepStatements: Statement[] = [];
+  const specStatements: Statement[] = [];
   const knownKeywords = [...STATEMENT_KEYWORDS, ...ELEMENTS.keys()];
   /** Keys that a misspelt argument of the statement being read was taken to mean. */
   let suggestedKeys = new Set<string>();
@@ -111,6 +114,9 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
         break;
       case 'sweep':
         sweepStatements.push(st);
+        break;
+      case 'spec':
+        specStatements.push(st);
         break;
       default: {
         const type = ELEMENTS.get(st.keyword);
@@ -358,6 +364,21 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
     bag.error('port-gap', `ports must be numbered from 1 without gaps; ${list}`, after.span);
   }
 
+  // Specs, once the port count is known.
+  const specs: SpecDefinition[] = [];
+  const specNames = new Map<string, SourceSpan>();
+  for (const st of specStatements) {
+    const spec = elaborateSpec(st, portList.length, bag, numberArg, keyArgs, (k) => suggestedKeys.has(k));
+    if (!spec) continue;
+    const first = specNames.get(spec.name);
+    if (first) {
+      bag.error('duplicate-name', `a spec named \`${spec.name}\` exists already (line ${first.line})`, st.label!.span);
+      continue;
+    }
+    specNames.set(spec.name, st.label!.span);
+    specs.push(spec);
+  }
+
   // Overrides that name no parameter.
   for (const o of overrides.values()) {
     if (!params.has(o.name)) {
@@ -408,6 +429,7 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
     nodeNames,
     elements,
     ports: portList,
+    specs,
     localReferences,
     frequencies,
     parameters,

@@ -5,6 +5,9 @@ import { didYouMean } from '../diagnostics/suggest.js';
 
 /** The one mathjs instance: used at elaboration only, never in the per-frequency loop. */
 export const math: MathJsInstance = create(all, {});
+// Decibels, for the limits of specs on dB figures: a dimension of its own, so that `1 dB` cannot
+// be mistaken for a plain number or any other quantity.
+math.createUnit('dB');
 
 /** A value while parameters are evaluated: a plain number or a mathjs quantity with a unit. */
 export type Quantity = number | Unit;
@@ -35,7 +38,7 @@ const COMMON_UNITS = [
   'H', 'mH', 'uH', 'nH', 'pH',
   's', 'ms', 'us', 'ns', 'ps', 'fs',
   'm', 'cm', 'mm', 'um', 'mil', 'in',
-  'deg', 'rad',
+  'deg', 'rad', 'dB',
 ];
 
 /** Writes unit names as mathjs reads them: Ω (omega or the ohm sign) → ohm, µ/μ (micro) → u. */
