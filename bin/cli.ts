@@ -9,6 +9,8 @@ import { writeFileAtomicSync } from '../src/io/atomic.js';
 import { expandInputs, InputsError } from '../src/io/inputs.js';
 import { readNetworkFile } from '../src/io/read.js';
 import { touchstoneExtension } from '../src/io/touchstone.js';
+import { formatFigureTable } from '../src/io/table.js';
+import { FigureError, parseFigure } from '../src/figures/registry.js';
 import {
   convertNetwork,
   ConversionError,
@@ -82,7 +84,9 @@ export async function main(argv: string[], io: Io = defaultIo): Promise<number> 
           .option('freq-unit', { choices: ['Hz', 'kHz', 'MHz', 'GHz'] as const, default: 'GHz', describe: 'frequency unit of Touchstone files' })
           .option('param', { choices: ['S', 'Z', 'Y'] as const, default: 'S', describe: 'parameters to write (Z and Y where they exist)' })
           .option('digits', { type: 'number', describe: 'significant digits of written numbers' })
+          .option('figures', { type: 'string', describe: 'print derived figures instead of S, comma-separated: db(S21), rl(1), il(2,1), vswr(1), phase(S21), uphase(S21), gd(S21), zin_re(1), zin_im(1), k, delta, mu, mu2, mag, passivity, reciprocity' })
           .example('$0 solve circuits/harmonic-lowpass-433.sbx', 'print |S| in dB and angle per frequency')
+          .example('$0 solve circuits/bandpass-2g4.sbx --figures "il(2,1),rl(1),vswr(1),gd(S21)"', 'print derived figures per frequency')
           .example('$0 solve circuits/harmonic-lowpass-433.sbx -o lowpass.s2p --data db', 'write a Touchstone 1.1 file in dB/angle')
           .example('$0 solve circuits/match-50-75-915.sbx -o match.s2p --touchstone 2.0', 'per-port references need version 2.0')
           .example('$0 solve filter.sbx --set fc=915MHz --sweep "linear start=1 MHz stop=3 GHz points=301"', 'override a parameter and the sweep')
@@ -165,6 +169,7 @@ interface SolveArgs {
   set?: string[];
   sweep?: string;
   digits?: number;
+  figures?: string;
   quiet: boolean;
 }
 
@@ -209,6 +214,15 @@ function runSolve(a: SolveArgs, io: Io): number {
       return failed > 0 ? EXIT_INPUT : EXIT_OK;
     }
     const net = solve(load(a, files[0]!, io).circuit);
+    if (a.figures !== undefined) {
+      if (a.out || batch) throw new OutputError('--figures prints to the terminal', 'leave out -o (use --format csv for CSV on stdout)');
+      const columns = splitFigures(a.figures).map((text) => {
+        const f = parseFigure(text, { ports: net.ports });
+        return { name: f.canonical, unit: f.spec.unit, values: f.evaluate(net) };
+      });
+      io.out(formatFigureTable(net.frequencies, columns, a.format === 'csv'));
+      return EXIT_OK;
+    }
     if (!a.out) {
       if (!a.format || a.format === 'table') io.out(formatTable(a.param === 'S' ? net : convertNetwork(net, a.param)));
       else io.out(renderNetwork(net, { ...options(files[0]!), format: a.format }));
@@ -221,6 +235,23 @@ function runSolve(a: SolveArgs, io: Io): number {
     io.err(describeError(e, a.quiet) + '\n');
     return EXIT_INPUT;
   }
+}
+
+/** Splits `il(2,1), rl(1),k` at the commas that are not inside parentheses. */
+function splitFigures(list: string): string[] {
+  const out: string[] = [];
+  let depth = 0;
+  let cur = '';
+  for (const ch of list) {
+    if (ch === '(') depth++;
+    if (ch === ')') depth--;
+    if (ch === ',' && depth === 0) {
+      out.push(cur.trim());
+      cur = '';
+    } else cur += ch;
+  }
+  if (cur.trim()) out.push(cur.trim());
+  return out;
 }
 
 interface ToleranceArgs {
@@ -303,6 +334,7 @@ function describeError(e: unknown, quiet: boolean): string {
   if (e instanceof ConversionError) return `error: ${e.message}\n  help: write S-parameters (--param S), which exist for every solvable network`;
   if (e instanceof OutputError) return `error: ${e.message}${e.help ? `\n  help: ${e.help}` : ''}`;
   if (e instanceof TouchstoneError) return `${e.describe()}`;
+  if (e instanceof FigureError) return `error: ${e.detail}${e.help ? `\n  help: ${e.help}` : ''}`;
   if (e instanceof CompareError || e instanceof InputsError) return `error: ${e.message}${'help' in e && e.help ? `\n  help: ${e.help}` : ''}`;
   const err = e as NodeJS.ErrnoException;
   if (err && typeof err.code === 'string' && err.path) {

@@ -55,6 +55,18 @@ describe('scatterbox solve', () => {
     expect(net2.values[0]).toBeCloseTo(0.5, 14);
   });
 
+  it('--figures prints derived figures per frequency', () => {
+    const r = run(['solve', join(dir, 'series.sbx'), '--figures', 'il(2,1), rl(1),vswr(1)']);
+    expect(r.code).toBe(0);
+    const [head, first] = r.out.trim().split('\n');
+    expect(head!.trim().split(/\s+/)).toEqual(['f/MHz', 'il(2,1)/dB', 'rl(1)/dB', 'vswr(1)']);
+    // |S21| = 2/3 → IL = 3.52 dB; |S11| = 1/3 → RL = 9.54 dB, VSWR = (1+1/3)/(1−1/3) = 2 (definitions, common practice)
+    expect(first!.trim().split(/\s+/)).toEqual(['1', '3.52', '9.54', '2.0000']);
+    const bad = run(['solve', join(dir, 'series.sbx'), '--figures', 'rll(1)']);
+    expect(bad.code).toBe(1);
+    expect(bad.err).toMatch(/unknown figure `rll`\n  help: did you mean `rl`\?/);
+  });
+
   it('--sweep replaces the sweep of the file', () => {
     const out = join(dir, 'sweep.csv');
     expect(run(['solve', join(dir, 'series.sbx'), '-o', out, '--sweep', 'linear start=1 kHz stop=5 kHz points=5; list freqs=1 GHz']).code).toBe(0);

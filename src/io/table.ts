@@ -45,3 +45,42 @@ export function formatTable(net: NetworkData): string {
 function formatFixed(x: number, digits: number): string {
   return String(Number(x.toPrecision(digits + 3)));
 }
+
+/** A column of derived figures: its heading, unit and values over frequency. */
+export interface FigureColumn {
+  name: string;
+  unit: string;
+  values: Float64Array;
+}
+
+function figureCell(v: number, unit: string): string {
+  if (Number.isNaN(v)) return 'n/a';
+  if (!Number.isFinite(v)) return v > 0 ? 'inf' : '-inf';
+  if (unit === 's') return (v * 1e9).toFixed(4);
+  if (unit === 'dB' || unit === 'deg') return v.toFixed(2);
+  return Math.abs(v) >= 1e4 || (Math.abs(v) < 1e-3 && v !== 0) ? v.toExponential(3) : v.toFixed(4);
+}
+
+/**
+ * A table of derived figures per frequency (for `solve --figures`): aligned text for the
+ * terminal, or CSV (`freq_hz` then one column per figure, full precision, SI units except
+ * dB and degrees).
+ */
+export function formatFigureTable(frequencies: Float64Array, columns: FigureColumn[], csv = false): string {
+  if (csv) {
+    const head = ['freq_hz', ...columns.map((c) => (c.unit ? `${c.name}_${c.unit}` : c.name))];
+    const lines = [head.join(',')];
+    for (let k = 0; k < frequencies.length; k++) lines.push([String(frequencies[k]), ...columns.map((c) => String(c.values[k]))].join(','));
+    return lines.join('\n') + '\n';
+  }
+  const { unit, scale } = pickFrequencyUnit(frequencies.length ? frequencies[frequencies.length - 1]! : 0);
+  const heads = [`f/${unit}`, ...columns.map((c) => (c.unit === 's' ? `${c.name}/ns` : c.unit ? `${c.name}/${c.unit}` : c.name))];
+  const rows: string[][] = [];
+  for (let k = 0; k < frequencies.length; k++) {
+    rows.push([formatFixed(frequencies[k]! / scale, 6), ...columns.map((c) => figureCell(c.values[k]!, c.unit))]);
+  }
+  const widths = heads.map((h, c) => Math.max(h.length, ...rows.map((r) => r[c]!.length)));
+  const lines = [heads.map((h, c) => pad(h, widths[c]!)).join('  ')];
+  for (const r of rows) lines.push(r.map((x, c) => pad(x, widths[c]!)).join('  '));
+  return lines.join('\n') + '\n';
+}
