@@ -1,4 +1,5 @@
 import { readFileSync } from 'node:fs';
+import { dirname, isAbsolute, join, resolve } from 'node:path';
 import type { NetlistAst, Statement } from './ast/ast.js';
 import { parseNetlist } from './ast/visitor.js';
 import { DiagnosticBag, InputError, type Diagnostic } from './diagnostics/diagnostic.js';
@@ -11,6 +12,8 @@ export interface LoadOptions {
   set?: string[];
   /** Sweep replacing the netlist's own: one or more segments separated by `;`, each written as after `sweep` (e.g. `linear start=1 MHz stop=1 GHz points=101`). */
   sweep?: string;
+  /** Reads an included file (default: from disk, UTF-8); paths are relative to the including file. */
+  readFile?: (path: string) => string;
 }
 
 export interface LoadResult {
@@ -36,7 +39,7 @@ const SWEEP_FILE = '--sweep';
 export function loadNetlist(text: string, file: string, options: LoadOptions = {}): LoadResult {
   const bag = new DiagnosticBag();
   const sources = new Map<string, string>([[file, text]]);
-  const ast = parseNetlist(text, file, bag);
+  const ast = expandIncludes(parseNetlist(text, file, bag), [file], bag, sources, options.readFile ?? ((p) => readFileSync(p, 'utf8')));
 
   const overrides: Override[] = [];
   const setLines = options.set ?? [];
@@ -73,6 +76,48 @@ export function loadNetlist(text: string, file: string, options: LoadOptions = {
   const circuit = elaborate(ast, bag, { overrides, sweep });
   if (bag.hasErrors) throw new InputError(bag.items, sources);
   return { circuit, warnings: bag.items.filter((d) => d.severity === 'warning'), sources };
+}
+
+/**
+ * Replaces every `include "file"` statement by the statements of that file (paths relative to
+ * the including file), recursively. A file that includes itself, directly or through others, is
+ * an error showing the chain.
+ */
+function expandIncludes(ast: NetlistAst, chain: string[], bag: DiagnosticBag, sources: Map<string, string>, read: (path: string) => string): NetlistAst {
+  const statements: Statement[] = [];
+  const failedKeywords = [...ast.failedKeywords];
+  for (const st of ast.statements) {
+    if (st.keyword !== 'include') {
+      statements.push(st);
+      continue;
+    }
+    const arg = st.args[0];
+    if (st.label || st.args.length !== 1 || !arg || arg.kind !== 'text') {
+      bag.error('bad-include', '`include` takes one quoted file name', st.keywordSpan, 'e.g. `include "parts/lowpass-section.sbx"`');
+      continue;
+    }
+    const path = isAbsolute(arg.value) ? arg.value : join(dirname(ast.file), arg.value);
+    const key = resolve(path);
+    const seen = chain.map((c) => resolve(c));
+    if (seen.includes(key)) {
+      const cycle = [...chain.slice(seen.indexOf(key)), path].join(' → ');
+      bag.error('include-cycle', `this file is already being included: ${cycle}`, arg.span, 'a file cannot include itself, directly or through others');
+      continue;
+    }
+    let text: string;
+    try {
+      text = read(path);
+    } catch (e) {
+      const code = (e as NodeJS.ErrnoException).code;
+      bag.error('bad-include', `cannot read ${JSON.stringify(arg.value)}: ${code === 'ENOENT' ? 'no such file' : (e as Error).message}`, arg.span, `the path is relative to ${dirname(ast.file) || '.'}`);
+      continue;
+    }
+    sources.set(path, text);
+    const inner = expandIncludes(parseNetlist(text, path, bag), [...chain, path], bag, sources, read);
+    statements.push(...inner.statements);
+    failedKeywords.push(...inner.failedKeywords);
+  }
+  return { file: ast.file, statements, failedKeywords };
 }
 
 /** Reads and loads a netlist file. */

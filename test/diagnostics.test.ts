@@ -202,10 +202,12 @@ describe('statements', () => {
   });
 
   it('an unknown keyword with no near match lists the keywords', () => {
-    const t = net(PORT, LOAD, 'transformer t1 a=in b=ground', SWEEP);
-    expect(errorsOf(t)).toEqual([
-      err('unknown-keyword', 'unknown statement `transformer`', find(t, 3, 'transformer'), 'a statement starts with one of: title, let, port, sweep, resistor, conductance, capacitor, inductor'),
-    ]);
+    const t = net(PORT, LOAD, 'widget w1 a=in b=ground', SWEEP);
+    const [d, ...rest] = errorsOf(t);
+    expect(rest).toEqual([]);
+    expect(d).toMatchObject({ code: 'unknown-keyword', message: 'unknown statement `widget`', span: find(t, 3, 'widget') });
+    // the list grows with the language; it names the statements and the elements
+    expect(d!.help).toMatch(/^a statement starts with one of: title, let, port, sweep, .*\bresistor, conductance, capacitor, inductor\b/);
   });
 
   it('bad-title: a title that is not one quoted string', () => {

@@ -46,16 +46,24 @@ export type SourceMap = ReadonlyMap<string, string>;
 export class DiagnosticBag {
   readonly items: Diagnostic[] = [];
   error(code: string, message: string, span?: SourceSpan, help?: string): void {
-    this.items.push({ severity: 'error', code, message, span, help });
+    this.add({ severity: 'error', code, message, span, help });
   }
   warning(code: string, message: string, span?: SourceSpan, help?: string): void {
-    this.items.push({ severity: 'warning', code, message, span, help });
+    this.add({ severity: 'warning', code, message, span, help });
   }
   get hasErrors(): boolean {
     return this.items.some((d) => d.severity === 'error');
   }
+  /** Adds a diagnostic unless the very same one is there already (a block used twice repeats its findings). */
   add(d: Diagnostic): void {
-    this.items.push(d);
+    const same = (x: Diagnostic) =>
+      x.severity === d.severity &&
+      x.code === d.code &&
+      x.message === d.message &&
+      x.span?.file === d.span?.file &&
+      x.span?.line === d.span?.line &&
+      x.span?.column === d.span?.column;
+    if (!this.items.some(same)) this.items.push(d);
   }
 }
 

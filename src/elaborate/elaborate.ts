@@ -25,7 +25,66 @@ export interface ElaborateOptions {
 }
 
 /** Statement keywords that are not elements. */
-export const STATEMENT_KEYWORDS = ['title', 'let', 'port', 'sweep', 'spec'] as const;
+export const STATEMENT_KEYWORDS = ['title', 'let', 'port', 'sweep', 'spec', 'block', 'end', 'include'] as const;
+
+/** Statements that only make sense at the top level of a netlist, not inside a block. */
+const TOP_LEVEL_ONLY = new Set(['title', 'port', 'sweep', 'spec', 'include', 'block']);
+
+/** A parameter of a scope: its value (null when its definition failed) and where it was defined. */
+interface ParamEntry {
+  value: Quantity | null;
+  span: SourceSpan;
+  /** Identity for "never used" warnings, shared by every instance of a block. */
+  key: string;
+}
+
+/** Parameters visible at a place: a block instance's own, then the netlist's. */
+class ParamScope {
+  readonly entries = new Map<string, ParamEntry>();
+  constructor(readonly parent?: ParamScope) {}
+  find(name: string): ParamEntry | undefined {
+    return this.entries.get(name) ?? this.parent?.find(name);
+  }
+  names(): string[] {
+    return [...new Set([...this.entries.keys(), ...(this.parent?.names() ?? [])])];
+  }
+}
+
+/** Where statements are being elaborated: at the top level, or inside a block instance. */
+interface Context {
+  scope: ParamScope;
+  /** Prefix of the names of this instance's nodes and elements (`t1.` inside instance t1). */
+  prefix: string;
+  /** A block's terminal names and the outer nodes they are connected to; null at the top level. */
+  terminals: Map<string, number> | null;
+  /** Blocks being expanded, outermost first (for recursion errors). */
+  chain: string[];
+  /** `let` names of this statement list, for "defined later" messages. */
+  later: Map<string, SourceSpan>;
+}
+
+/** A block definition: named terminals, parameters with defaults, and its body. */
+interface BlockDefinition {
+  name: string;
+  header: Statement;
+  terminals: string[];
+  params: Map<string, { expr: Expr; span: SourceSpan }>;
+  body: Statement[];
+  used: boolean;
+}
+
+function spanKey(s: SourceSpan): string {
+  return `${s.file}:${s.line}:${s.column}`;
+}
+
+function laterOf(statements: readonly Statement[]): Map<string, SourceSpan> {
+  const m = new Map<string, SourceSpan>();
+  for (const st of statements) {
+    if (st.keyword !== 'let') continue;
+    for (const a of st.args) if (a.kind === 'key' && !m.has(a.key)) m.set(a.key, a.keySpan);
+  }
+  return m;
+}
 
 const DEFAULT_REFERENCE = 50;
 
@@ -35,36 +94,33 @@ const DEFAULT_REFERENCE = 50;
  * `bag`; the returned circuit is only meaningful when the bag has no errors.
  */
 export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: ElaborateOptions = {}): Circuit {
-  const params = new Map<string, { value: Quantity | undefined; span: SourceSpan; used: boolean }>();
-  const laterParams = new Map<string, SourceSpan>();
   const overrides = new Map<string, Override>();
+  for (const o of options.overrides ?? []) overrides.set(o.name, o);
   /** Parameters referenced before their definition (already an error there; not "unused" too). */
   const usedEarly = new Set<string>();
-  for (const o of options.overrides ?? []) overrides.set(o.name, o);
+  /** Keys (see ParamEntry) of the parameters referenced somewhere. */
+  const usedKeys = new Set<string>();
+  /** Every parameter definition, for "never used" warnings (once per definition, not per instance). */
+  const definitions = new Map<string, { name: string; span: SourceSpan; failed: boolean; what: string }>();
 
-  // Names of every `let` in the file, so that a reference to a later one gets a precise message.
-  for (const st of ast.statements) {
-    if (st.keyword !== 'let') continue;
-    for (const a of st.args) if (a.kind === 'key' && !laterParams.has(a.key)) laterParams.set(a.key, a.keySpan);
-  }
+  const { top: topStatements, blocks } = splitBlocks(ast.statements, bag);
+  const globals = new ParamScope();
+  const topContext: Context = { scope: globals, prefix: '', terminals: null, chain: [], later: laterOf(topStatements) };
 
-  const scope: EvalScope = {
-    lookup: (n) => {
-      const p = params.get(n);
-      return p === undefined ? undefined : (p.value ?? null);
-    },
-    names: () => params.keys(),
+  const evalScope = (ctx: Context): EvalScope => ({
+    lookup: (n) => ctx.scope.find(n)?.value,
+    names: () => ctx.scope.names(),
     used: (n) => {
-      const p = params.get(n);
-      if (p) p.used = true;
+      const p = ctx.scope.find(n);
+      if (p) usedKeys.add(p.key);
     },
     explainMissing: (n) => {
-      const later = laterParams.get(n);
-      if (later && !params.has(n)) usedEarly.add(n);
-      if (later && !params.has(n)) return `\`${n}\` is defined later, at line ${later.line}; a parameter can only use those defined before it`;
-      return undefined;
+      const later = ctx.later.get(n);
+      if (!later || ctx.scope.find(n)) return undefined;
+      usedEarly.add(spanKey(later));
+      return `\`${n}\` is defined later, at line ${later.line}; a parameter can only use those defined before it`;
     },
-  };
+  });
 
   const nodeIndex = new Map<string, number>();
   const nodeNames: string[] = [];
@@ -78,12 +134,15 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
       nodeNames.push(name);
       nodeUses.push({ count: 0, first: span, by: [], elementUses: 0 });
     }
+    countUse(i, by, isPort);
+    return i;
+  };
+  function countUse(i: number, by: string, isPort: boolean) {
     const u = nodeUses[i]!;
     u.count++;
     u.by.push(by);
     if (!isPort) u.elementUses++;
-    return i;
-  };
+  }
 
   let title: string | undefined;
   const elements: ElementInstance[] = [];
@@ -91,45 +150,114 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
   const ports = new Map<number, Port>();
   const sweepStatements: Statement[] = [];
   const specStatements: Statement[] = [];
-  const knownKeywords = [...STATEMENT_KEYWORDS, ...ELEMENTS.keys()];
+  const knownKeywords = () => [...STATEMENT_KEYWORDS.filter((k) => k !== 'end'), ...ELEMENTS.keys(), ...blocks.keys()];
   /** Keys that a misspelt argument of the statement being read was taken to mean. */
   let suggestedKeys = new Set<string>();
 
-  for (const st of ast.statements) {
-    switch (st.keyword) {
-      case 'title': {
-        const text = st.args.find((a) => a.kind === 'text');
-        if (st.label || !text || st.args.length !== 1) {
-          bag.error('bad-title', 'a title is one quoted string', st.keywordSpan, 'write `title "433 MHz harmonic filter"`');
-        } else if (title !== undefined) {
-          bag.error('duplicate-title', 'the netlist has a title already', st.keywordSpan);
-        } else title = (text as { value: string }).value;
-        break;
+  run(topStatements, topContext);
+
+  function run(statements: readonly Statement[], ctx: Context) {
+    for (const st of statements) {
+      if (ctx.terminals && TOP_LEVEL_ONLY.has(st.keyword)) {
+        bag.error('not-in-block', `\`${st.keyword}\` cannot be used inside a block`, st.keywordSpan, st.keyword === 'block' ? 'define blocks at the top level and use them inside others' : 'put it at the top level of the netlist');
+        continue;
       }
-      case 'let':
-        defineParameters(st);
-        break;
-      case 'port':
-        definePort(st);
-        break;
-      case 'sweep':
-        sweepStatements.push(st);
-        break;
-      case 'spec':
-        specStatements.push(st);
-        break;
-      default: {
-        const type = ELEMENTS.get(st.keyword);
-        if (!type) {
-          bag.error('unknown-keyword', `unknown statement \`${st.keyword}\``, st.keywordSpan, didYouMean(st.keyword, knownKeywords) ?? `a statement starts with one of: ${knownKeywords.join(', ')}`);
+      switch (st.keyword) {
+        case 'title': {
+          const text = st.args.find((a) => a.kind === 'text');
+          if (st.label || !text || st.args.length !== 1) {
+            bag.error('bad-title', 'a title is one quoted string', st.keywordSpan, 'write `title "433 MHz harmonic filter"`');
+          } else if (title !== undefined) {
+            bag.error('duplicate-title', 'the netlist has a title already', st.keywordSpan);
+          } else title = (text as { value: string }).value;
           break;
         }
-        defineElement(st, type);
+        case 'let':
+          defineParameters(st, ctx);
+          break;
+        case 'port':
+          definePort(st, ctx);
+          break;
+        case 'sweep':
+          sweepStatements.push(st);
+          break;
+        case 'spec':
+          specStatements.push(st);
+          break;
+        case 'include':
+          bag.error('bad-include', '`include` is resolved when the file is read; this one was not', st.keywordSpan, 'load netlists with loadNetlist or loadNetlistFile');
+          break;
+        default: {
+          const type = ELEMENTS.get(st.keyword);
+          if (type) {
+            defineElement(st, type, ctx);
+            break;
+          }
+          const block = blocks.get(st.keyword);
+          if (block) {
+            instantiate(st, block, ctx);
+            break;
+          }
+          bag.error('unknown-keyword', `unknown statement \`${st.keyword}\``, st.keywordSpan, didYouMean(st.keyword, knownKeywords()) ?? `a statement starts with one of: ${knownKeywords().join(', ')}`);
+        }
       }
     }
   }
 
-  function defineParameters(st: Statement) {
+  function instantiate(st: Statement, block: BlockDefinition, ctx: Context) {
+    const what = `block \`${block.name}\``;
+    block.used = true;
+    if (!st.label || st.label.isNumber) {
+      bag.error('missing-name', `an instance of ${what} needs a name after the block name`, st.label?.span ?? st.keywordSpan, `e.g. \`${block.name} u1 ${block.terminals.map((t) => `${t}=<node>`).join(' ')}\``);
+      return;
+    }
+    if (ctx.chain.includes(block.name)) {
+      const chain = [...ctx.chain.slice(ctx.chain.indexOf(block.name)), block.name].join(' → ');
+      bag.error('recursive-block', `${what} contains itself: ${chain}`, st.keywordSpan, 'a block cannot use itself, directly or through other blocks');
+      return;
+    }
+    const name = ctx.prefix + st.label.text;
+    const prev = elementNames.get(name);
+    if (prev) {
+      bag.error('duplicate-name', `an element named \`${name}\` exists already (line ${prev.line})`, st.label.span);
+      return;
+    }
+    elementNames.set(name, st.label.span);
+    const args = keyArgs(st, [...block.terminals, ...block.params.keys()], what);
+    const terminals = new Map<string, number>();
+    let ok = true;
+    for (const t of block.terminals) {
+      const a = args.get(t);
+      if (!a) {
+        if (!suggestedKeys.has(t)) bag.error('missing-terminal', `instance \`${st.label.text}\` of ${what} needs terminal \`${t}\``, st.label.span, `add \`${t}=<node>\``);
+        ok = false;
+        continue;
+      }
+      const n = nodeArg(a, name, false, ctx);
+      if (n === undefined) ok = false;
+      else terminals.set(t, n);
+    }
+    const scope = new ParamScope(globals);
+    const outer = evalScope(ctx);
+    const defaults = evalScope(topContext);
+    for (const [p, def] of block.params) {
+      const a = args.get(p);
+      if (a && (a.values.length !== 1 || a.at)) {
+        bag.error('bad-value', `\`${p}\` takes one value`, a.span);
+        ok = false;
+        continue;
+      }
+      const value = a ? evaluate(a.values[0]!, outer, bag) : evaluate(def.expr, defaults, bag);
+      if (value === undefined) ok = false;
+      const key = spanKey(def.span);
+      scope.entries.set(p, { value: value ?? null, span: def.span, key });
+      if (!definitions.has(key)) definitions.set(key, { name: p, span: def.span, failed: false, what: `parameter of block \`${block.name}\`` });
+    }
+    if (!ok) return;
+    run(block.body, { scope, prefix: `${name}.`, terminals, chain: [...ctx.chain, block.name], later: laterOf(block.body) });
+  }
+
+  function defineParameters(st: Statement, ctx: Context) {
     if (st.label) {
       bag.error('bad-let', 'write a parameter as `let name = value`', st.label.span);
       return;
@@ -148,13 +276,17 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
         bag.error('bad-let', 'a parameter takes one value', a.span);
         continue;
       }
-      if (params.has(a.key)) {
-        bag.error('duplicate-parameter', `parameter \`${a.key}\` is defined twice (first at line ${params.get(a.key)!.span.line})`, a.keySpan);
+      const prev = ctx.scope.entries.get(a.key);
+      if (prev) {
+        bag.error('duplicate-parameter', `parameter \`${a.key}\` is defined twice (first at line ${prev.span.line})`, a.keySpan);
         continue;
       }
-      const o = overrides.get(a.key);
-      const value = evaluate(o ? o.expr : a.values[0]!, scope, bag);
-      params.set(a.key, { value, span: a.keySpan, used: false });
+      const o = ctx.terminals ? undefined : overrides.get(a.key);
+      const value = evaluate(o ? o.expr : a.values[0]!, evalScope(ctx), bag);
+      const key = spanKey(a.keySpan);
+      ctx.scope.entries.set(a.key, { value: value ?? null, span: a.keySpan, key });
+      if (!definitions.has(key)) definitions.set(key, { name: a.key, span: a.keySpan, failed: value === undefined, what: 'parameter' });
+      if (o) usedKeys.add(key);
     }
   }
 
@@ -182,7 +314,7 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
     return m;
   }
 
-  function nodeArg(a: KeyArg, by: string, isPort: boolean): number | undefined {
+  function nodeArg(a: KeyArg, by: string, isPort: boolean, ctx: Context): number | undefined {
     const e = a.values[0]!;
     if (a.values.length !== 1 || e.kind !== 'name' || a.at) {
       const help = e.kind === 'number' && e.value === 0 ? `the reference node is called \`${GROUND_NAME}\`` : 'node names are plain names such as `in`, `mid` or `ground`';
@@ -192,15 +324,21 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
     if (/^(gnd|GND|Gnd|Ground|GROUND)$/.test(e.name)) {
       bag.warning('ground-alias', `node \`${e.name}\` is an ordinary node, not the reference`, e.span, `the reference node is called \`${GROUND_NAME}\``);
     }
-    return useNode(e.name, e.span, by, isPort);
+    const terminal = ctx.terminals?.get(e.name);
+    if (terminal !== undefined) {
+      if (terminal !== GROUND) countUse(terminal, by, isPort);
+      return terminal;
+    }
+    if (e.name === GROUND_NAME) return GROUND;
+    return useNode(ctx.prefix + e.name, e.span, by, isPort);
   }
 
-  function numberArg(a: KeyArg, unit: string | null, quantity: string): number | undefined {
+  function numberArg(a: KeyArg, unit: string | null, quantity: string, ctx: Context = topContext): number | undefined {
     if (a.values.length !== 1) {
       bag.error('bad-value', `\`${a.key}\` takes one value`, a.span);
       return undefined;
     }
-    const q = evaluate(a.values[0]!, scope, bag);
+    const q = evaluate(a.values[0]!, evalScope(ctx), bag);
     if (q === undefined) return undefined;
     const r = toSI(q, unit);
     if ('error' in r) {
@@ -214,9 +352,9 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
     return r.value;
   }
 
-  function atArg(a: KeyArg): number | undefined {
+  function atArg(a: KeyArg, ctx: Context): number | undefined {
     if (!a.at) return undefined;
-    const q = evaluate(a.at, scope, bag);
+    const q = evaluate(a.at, evalScope(ctx), bag);
     if (q === undefined) return undefined;
     const r = toSI(q, 'Hz');
     if ('error' in r) {
@@ -226,13 +364,13 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
     return r.value;
   }
 
-  function defineElement(st: Statement, type: NonNullable<ReturnType<typeof ELEMENTS.get>>) {
+  function defineElement(st: Statement, type: NonNullable<ReturnType<typeof ELEMENTS.get>>, ctx: Context) {
     const what = `\`${type.keyword}\``;
     if (!st.label || st.label.isNumber) {
       bag.error('missing-name', `${what} needs a name after the keyword`, st.label?.span ?? st.keywordSpan, `e.g. \`${type.example}\``);
       return;
     }
-    const name = st.label.text;
+    const name = ctx.prefix + st.label.text;
     const prev = elementNames.get(name);
     if (prev) {
       bag.error('duplicate-name', `an element named \`${name}\` exists already (line ${prev.line})`, st.label.span);
@@ -251,7 +389,7 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
           continue;
         }
         if (t.defaultNode !== undefined) {
-          el.nodes.push(useNode(t.defaultNode, st.label.span, name, false));
+          el.nodes.push(t.defaultNode === GROUND_NAME ? GROUND : useNode(ctx.prefix + t.defaultNode, st.label.span, name, false));
           el.nodeNames.push(t.defaultNode);
           continue;
         }
@@ -259,7 +397,7 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
         ok = false;
         continue;
       }
-      const n = nodeArg(a, name, false);
+      const n = nodeArg(a, name, false, ctx);
       if (n === undefined) ok = false;
       el.nodes.push(n ?? GROUND);
       el.nodeNames.push((a.values[0] as { name?: string }).name ?? '?');
@@ -283,7 +421,7 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
         bag.error('missing-at', `\`${p.key}\` needs the frequency it holds at`, a.span, `write e.g. \`${p.key}=40 at 433 MHz\``);
         ok = false;
       }
-      const v = numberArg(a, p.unit, p.quantity);
+      const v = numberArg(a, p.unit, p.quantity, ctx);
       if (v === undefined) {
         ok = false;
         continue;
@@ -294,7 +432,7 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
       }
       el.props[p.key] = v;
       if (p.takesAt && a.at) {
-        const f = atArg(a);
+        const f = atArg(a, ctx);
         if (f === undefined) ok = false;
         else el.at[p.key] = f;
       }
@@ -302,12 +440,13 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
     if (!ok) return;
     type.validate?.(el, (message, key, help) => bag.error('bad-element', message, (key && args.get(key)?.span) || st.label!.span, help));
     if (el.nodes.length === 2 && el.nodes[0] === el.nodes[1]) {
-      bag.warning('shorted-element', `both terminals of \`${name}\` are on node \`${el.nodeNames[0]}\`: it has no effect`, st.span);
+      const node = el.nodes[0] === GROUND ? GROUND_NAME : nodeNames[el.nodes[0]!]!;
+      bag.warning('shorted-element', `both terminals of \`${name}\` are on node \`${node}\`: it has no effect`, st.span);
     }
     elements.push(el);
   }
 
-  function definePort(st: Statement) {
+  function definePort(st: Statement, ctx: Context) {
     if (!st.label || !st.label.isNumber || !/^\d+$/.test(st.label.text) || Number(st.label.text) < 1) {
       bag.error('bad-port', 'a port needs a number from 1 after `port`', st.label?.span ?? st.keywordSpan, 'e.g. `port 1 plus=in ref=50 ohm`');
       return;
@@ -325,9 +464,9 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
       return;
     }
     const by = `port ${number}`;
-    const plus = nodeArg(plusArg, by, true);
+    const plus = nodeArg(plusArg, by, true, ctx);
     const minusArg = args.get('minus');
-    const minus = minusArg ? nodeArg(minusArg, by, true) : GROUND;
+    const minus = minusArg ? nodeArg(minusArg, by, true, ctx) : GROUND;
     const refArg = args.get('ref');
     const reference = refArg ? numberArg(refArg, 'ohm', 'resistance') : DEFAULT_REFERENCE;
     if (plus === undefined || minus === undefined || reference === undefined) return;
@@ -352,7 +491,7 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
 
   // Ports: numbered 1..N without gaps.
   const portList = [...ports.values()].sort((a, b) => a.number - b.number);
-  if (!ast.statements.some((st) => st.keyword === 'port') && !ast.failedKeywords.includes('port')) {
+  if (!topStatements.some((st) => st.keyword === 'port') && !ast.failedKeywords.includes('port')) {
     bag.error('no-ports', 'the netlist has no `port`', { file: ast.file, line: 1, column: 1, length: 1 }, 'add e.g. `port 1 plus=in`');
   }
   const missingPorts: number[] = [];
@@ -368,7 +507,7 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
   const specs: SpecDefinition[] = [];
   const specNames = new Map<string, SourceSpan>();
   for (const st of specStatements) {
-    const spec = elaborateSpec(st, portList.length, bag, numberArg, keyArgs, (k) => suggestedKeys.has(k));
+    const spec = elaborateSpec(st, portList.length, bag, (a, u, q) => numberArg(a, u, q), keyArgs, (k) => suggestedKeys.has(k));
     if (!spec) continue;
     const first = specNames.get(spec.name);
     if (first) {
@@ -381,8 +520,8 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
 
   // Overrides that name no parameter.
   for (const o of overrides.values()) {
-    if (!params.has(o.name)) {
-      bag.error('unknown-parameter', `\`--set ${o.name}\`: the netlist has no parameter \`${o.name}\``, o.span, didYouMean(o.name, params.keys()));
+    if (!globals.entries.has(o.name)) {
+      bag.error('unknown-parameter', `\`--set ${o.name}\`: the netlist has no parameter \`${o.name}\``, o.span, didYouMean(o.name, globals.entries.keys()));
     }
   }
 
@@ -395,10 +534,13 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
       bag.warning('dangling-node', `node \`${name}\` has a single connection (${u.by[0]})`, u.first, didYouMean(name, nodeNames.filter((n) => n !== name)) ?? 'check the spelling of the node name');
     }
   });
-  for (const [name, p] of params) {
-    if (!p.used && !overrides.has(name) && !usedEarly.has(name) && p.value !== undefined) {
-      bag.warning('unused-parameter', `parameter \`${name}\` is never used`, p.span);
+  for (const [key, d] of definitions) {
+    if (!usedKeys.has(key) && !usedEarly.has(key) && !d.failed) {
+      bag.warning('unused-parameter', `${d.what} \`${d.name}\` is never used`, d.span);
     }
+  }
+  for (const b of blocks.values()) {
+    if (!b.used) bag.warning('unused-block', `block \`${b.name}\` is never used`, b.header.label?.span ?? b.header.keywordSpan);
   }
 
   // Node groups with no path to ground: a group that carries a port is a balanced network and is
@@ -418,8 +560,8 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
   }
 
   const parameters: ParameterValue[] = [];
-  for (const [name, p] of params) {
-    if (p.value === undefined) continue;
+  for (const [name, p] of globals.entries) {
+    if (p.value === null) continue;
     parameters.push({ name, ...siOf(p.value), span: p.span });
   }
 
@@ -435,6 +577,101 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
     parameters,
     warnings: bag.items.filter((d) => d.severity === 'warning'),
   };
+}
+
+/**
+ * Separates block definitions (`block NAME terminals=… [param=default …]` … `end`) from the
+ * top-level statements.
+ */
+function splitBlocks(statements: readonly Statement[], bag: DiagnosticBag): { top: Statement[]; blocks: Map<string, BlockDefinition> } {
+  const top: Statement[] = [];
+  const blocks = new Map<string, BlockDefinition>();
+  let open: BlockDefinition | undefined;
+  for (const st of statements) {
+    if (st.keyword === 'end') {
+      if (!open) {
+        bag.error('bad-block', '`end` without a `block` to close', st.keywordSpan);
+        continue;
+      }
+      if (st.label && st.label.text !== open.name) {
+        bag.error('bad-block', `\`end ${st.label.text}\` closes block \`${open.name}\``, st.label.span, `write \`end\` or \`end ${open.name}\``);
+      }
+      if (st.args.length > 0) bag.error('bad-block', '`end` takes no arguments', st.args[0]!.span);
+      open = undefined;
+      continue;
+    }
+    if (st.keyword === 'block') {
+      if (open) {
+        bag.error('bad-block', `block \`${open.name}\` is not closed before this one`, st.keywordSpan, 'add `end` before it; blocks are defined one after another, and may use each other');
+        open = undefined;
+      }
+      const def = blockHeader(st, bag);
+      if (!def) {
+        open = { name: '?', header: st, terminals: [], params: new Map(), body: [], used: true };
+        continue;
+      }
+      if (blocks.has(def.name) || ELEMENTS.has(def.name) || (STATEMENT_KEYWORDS as readonly string[]).includes(def.name)) {
+        bag.error('duplicate-name', blocks.has(def.name) ? `block \`${def.name}\` is defined twice (first at line ${blocks.get(def.name)!.header.span.line})` : `\`${def.name}\` is a keyword of the language and cannot name a block`, st.label!.span);
+      } else blocks.set(def.name, def);
+      open = def;
+      continue;
+    }
+    if (open) open.body.push(st);
+    else top.push(st);
+  }
+  if (open) bag.error('bad-block', `block \`${open.name}\` has no \`end\``, open.header.keywordSpan, 'close it with `end`');
+  return { top, blocks };
+}
+
+function blockHeader(st: Statement, bag: DiagnosticBag): BlockDefinition | undefined {
+  if (!st.label || st.label.isNumber) {
+    bag.error('missing-name', '`block` needs a name', st.label?.span ?? st.keywordSpan, 'e.g. `block tee terminals=left, right l=10 nH c=2 pF`');
+    return undefined;
+  }
+  const terminals: string[] = [];
+  const params = new Map<string, { expr: Expr; span: SourceSpan }>();
+  let ok = true;
+  for (const a of st.args) {
+    if (a.kind !== 'key') {
+      bag.error('unexpected-text', 'a quoted string is not an argument of `block`', a.span);
+      ok = false;
+      continue;
+    }
+    if (a.key === 'terminals') {
+      for (const e of a.values) {
+        if (e.kind !== 'name' || e.name === GROUND_NAME) {
+          bag.error('bad-block', e.kind === 'name' ? '`ground` is shared by every block and cannot be a terminal' : 'terminals are names', e.span);
+          ok = false;
+        } else if (terminals.includes(e.name)) {
+          bag.error('bad-block', `terminal \`${e.name}\` is listed twice`, e.span);
+          ok = false;
+        } else terminals.push(e.name);
+      }
+      continue;
+    }
+    if (a.values.length !== 1 || a.at) {
+      bag.error('bad-block', `the default of parameter \`${a.key}\` is one value`, a.span);
+      ok = false;
+      continue;
+    }
+    if (params.has(a.key)) {
+      bag.error('duplicate-parameter', `parameter \`${a.key}\` is defined twice`, a.keySpan);
+      ok = false;
+      continue;
+    }
+    params.set(a.key, { expr: a.values[0]!, span: a.keySpan });
+  }
+  if (terminals.length === 0) {
+    bag.error('bad-block', `block \`${st.label.text}\` needs \`terminals=<names>\``, st.label.span, 'e.g. `terminals=in, out`');
+    ok = false;
+  }
+  for (const p of params.keys()) {
+    if (terminals.includes(p)) {
+      bag.error('bad-block', `\`${p}\` is both a terminal and a parameter`, params.get(p)!.span);
+      ok = false;
+    }
+  }
+  return ok ? { name: st.label.text, header: st, terminals, params, body: [], used: false } : undefined;
 }
 
 function signOk(p: PropertySpec, v: number): boolean {
