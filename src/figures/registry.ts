@@ -59,69 +59,151 @@ export interface FigureSpec {
 /** A figure computed over a network: one number per frequency point. */
 export type FigureFunction = (net: NetworkData, out?: Float64Array) => Float64Array;
 
-function spec(
-  name: string,
-  args: FigureArguments,
-  unit: string,
-  summary: string,
-  example: string,
-  compute: FigureSpec['compute'],
-  extra: { twoPortOnly?: boolean; distinctPorts?: boolean } = {},
-): FigureSpec {
-  return {
-    name,
-    args,
-    unit,
-    summary,
-    example,
-    twoPortOnly: extra.twoPortOnly ?? false,
-    distinctPorts: extra.distinctPorts ?? false,
-    compute,
-  };
+type SpecInput = Omit<FigureSpec, 'twoPortOnly' | 'distinctPorts'> & {
+  twoPortOnly?: boolean;
+  distinctPorts?: boolean;
+};
+
+function spec(x: SpecInput): FigureSpec {
+  return { ...x, twoPortOnly: x.twoPortOnly ?? false, distinctPorts: x.distinctPorts ?? false };
 }
 
 /** Every named figure, in help order. */
 export const FIGURES: readonly FigureSpec[] = [
-  spec('db', 'entry', 'dB', '|Sij| in dB, 20·log10|Sij|', 'db(S21)', (n, p, o) => magnitudeDb(n, p[0]!, p[1]!, o)),
-  spec('rl', 'port', 'dB', 'return loss at port i, −20·log10|Sii|', 'rl(1)', (n, p, o) => returnLoss(n, p[0]!, o)),
-  spec(
-    'il',
-    'entry',
-    'dB',
-    'insertion loss from port j to port i, −20·log10|Sij|',
-    'il(2,1)',
-    (n, p, o) => insertionLoss(n, p[0]!, p[1]!, o),
-    { distinctPorts: true },
-  ),
-  spec('vswr', 'port', '', 'VSWR at port i, (1+|Sii|)/(1−|Sii|)', 'vswr(1)', (n, p, o) => vswr(n, p[0]!, o)),
-  spec('phase', 'entry', 'deg', 'phase of Sij in (−180, 180]', 'phase(S21)', (n, p, o) => phaseDeg(n, p[0]!, p[1]!, o)),
-  spec('uphase', 'entry', 'deg', 'phase of Sij unwrapped over the sweep', 'uphase(S21)', (n, p, o) =>
-    unwrappedPhaseDeg(n, p[0]!, p[1]!, o),
-  ),
-  spec('gd', 'entry', 's', 'group delay of Sij, −dφ/dω', 'gd(S21)', (n, p, o) => groupDelay(n, p[0]!, p[1]!, o)),
-  spec('zin_re', 'port', 'ohm', 'input resistance at port i, others in their references', 'zin_re(1)', (n, p, o) =>
-    inputResistance(n, p[0]!, o),
-  ),
-  spec('zin_im', 'port', 'ohm', 'input reactance at port i, others in their references', 'zin_im(1)', (n, p, o) =>
-    inputReactance(n, p[0]!, o),
-  ),
-  spec('k', 'none', '', 'Rollett stability factor K', 'k', (n, _p, o) => rollettK(n, o), { twoPortOnly: true }),
-  spec('delta', 'none', '', '|Δ| = |S11·S22 − S12·S21|', 'delta', (n, _p, o) => deltaMagnitude(n, o), {
-    twoPortOnly: true,
+  spec({
+    name: 'db',
+    args: 'entry',
+    unit: 'dB',
+    summary: '|Sij| in dB, 20·log10|Sij|',
+    example: 'db(S21)',
+    compute: (net, p, out) => magnitudeDb(net, p[0]!, p[1]!, out),
   }),
-  spec('mu', 'none', '', 'Edwards–Sinsky μ (load side)', 'mu', (n, _p, o) => muFactor(n, o), { twoPortOnly: true }),
-  spec('mu2', 'none', '', "Edwards–Sinsky μ' (source side)", 'mu2', (n, _p, o) => muPrimeFactor(n, o), {
-    twoPortOnly: true,
+  spec({
+    name: 'rl',
+    args: 'port',
+    unit: 'dB',
+    summary: 'return loss at port i, −20·log10|Sii|',
+    example: 'rl(1)',
+    compute: (net, p, out) => returnLoss(net, p[0]!, out),
   }),
-  spec('mag', 'none', 'dB', 'maximum available gain where K > 1 and |Δ| < 1, else maximum stable gain', 'mag', (n, _p, o) =>
-    maxGainDb(n, o),
-  { twoPortOnly: true }),
-  spec('passivity', 'none', '', 'passivity margin 1 − λmax(SᴴS), ≥ 0 when passive', 'passivity', (n, _p, o) =>
-    passivityMargin(n, o),
-  ),
-  spec('reciprocity', 'none', '', 'reciprocity error max|Sij − Sji|', 'reciprocity', (n, _p, o) =>
-    reciprocityError(n, o),
-  ),
+  spec({
+    name: 'il',
+    args: 'entry',
+    unit: 'dB',
+    summary: 'insertion loss from port j to port i, −20·log10|Sij|',
+    example: 'il(2,1)',
+    distinctPorts: true,
+    compute: (net, p, out) => insertionLoss(net, p[0]!, p[1]!, out),
+  }),
+  spec({
+    name: 'vswr',
+    args: 'port',
+    unit: '',
+    summary: 'VSWR at port i, (1 + |Sii|)/(1 − |Sii|)',
+    example: 'vswr(1)',
+    compute: (net, p, out) => vswr(net, p[0]!, out),
+  }),
+  spec({
+    name: 'phase',
+    args: 'entry',
+    unit: 'deg',
+    summary: 'phase of Sij in (−180, 180]',
+    example: 'phase(S21)',
+    compute: (net, p, out) => phaseDeg(net, p[0]!, p[1]!, out),
+  }),
+  spec({
+    name: 'uphase',
+    args: 'entry',
+    unit: 'deg',
+    summary: 'phase of Sij unwrapped over the sweep',
+    example: 'uphase(S21)',
+    compute: (net, p, out) => unwrappedPhaseDeg(net, p[0]!, p[1]!, out),
+  }),
+  spec({
+    name: 'gd',
+    args: 'entry',
+    unit: 's',
+    summary: 'group delay of Sij, −dφ/dω',
+    example: 'gd(S21)',
+    compute: (net, p, out) => groupDelay(net, p[0]!, p[1]!, out),
+  }),
+  spec({
+    name: 'zin_re',
+    args: 'port',
+    unit: 'ohm',
+    summary: 'input resistance at port i, other ports in their references',
+    example: 'zin_re(1)',
+    compute: (net, p, out) => inputResistance(net, p[0]!, out),
+  }),
+  spec({
+    name: 'zin_im',
+    args: 'port',
+    unit: 'ohm',
+    summary: 'input reactance at port i, other ports in their references',
+    example: 'zin_im(1)',
+    compute: (net, p, out) => inputReactance(net, p[0]!, out),
+  }),
+  spec({
+    name: 'k',
+    args: 'none',
+    unit: '',
+    summary: 'Rollett stability factor K',
+    example: 'k',
+    twoPortOnly: true,
+    compute: (net, _p, out) => rollettK(net, out),
+  }),
+  spec({
+    name: 'delta',
+    args: 'none',
+    unit: '',
+    summary: '|Δ| = |S11·S22 − S12·S21|',
+    example: 'delta',
+    twoPortOnly: true,
+    compute: (net, _p, out) => deltaMagnitude(net, out),
+  }),
+  spec({
+    name: 'mu',
+    args: 'none',
+    unit: '',
+    summary: 'Edwards–Sinsky μ (load side); > 1 means unconditionally stable',
+    example: 'mu',
+    twoPortOnly: true,
+    compute: (net, _p, out) => muFactor(net, out),
+  }),
+  spec({
+    name: 'mu2',
+    args: 'none',
+    unit: '',
+    summary: "Edwards–Sinsky μ' (source side)",
+    example: 'mu2',
+    twoPortOnly: true,
+    compute: (net, _p, out) => muPrimeFactor(net, out),
+  }),
+  spec({
+    name: 'mag',
+    args: 'none',
+    unit: 'dB',
+    summary: 'maximum available gain where K > 1 and |Δ| < 1, else maximum stable gain |S21/S12|',
+    example: 'mag',
+    twoPortOnly: true,
+    compute: (net, _p, out) => maxGainDb(net, out),
+  }),
+  spec({
+    name: 'passivity',
+    args: 'none',
+    unit: '',
+    summary: 'passivity margin 1 − λmax(SᴴS), ≥ 0 when passive',
+    example: 'passivity',
+    compute: (net, _p, out) => passivityMargin(net, out),
+  }),
+  spec({
+    name: 'reciprocity',
+    args: 'none',
+    unit: '',
+    summary: 'reciprocity error max|Sij − Sji|',
+    example: 'reciprocity',
+    compute: (net, _p, out) => reciprocityError(net, out),
+  }),
 ];
 
 const BY_NAME: ReadonlyMap<string, FigureSpec> = new Map(FIGURES.map((f) => [f.name, f]));
@@ -221,7 +303,8 @@ export function parseFigure(text: string, options: ParseFigureOptions = {}): Par
       rest = rest.slice(close + 1);
     }
     if (rest.trim() !== '') {
-      throw new FigureError('figure-syntax', text, `unexpected \`${rest.trim()}\` after \`${src.slice(0, src.length - rest.length)}\``);
+      const done = src.slice(0, src.length - rest.length);
+      throw new FigureError('figure-syntax', text, `unexpected \`${rest.trim()}\` after \`${done}\``);
     }
   }
   const name = word.toLowerCase();
@@ -276,7 +359,8 @@ export function parseFigure(text: string, options: ParseFigureOptions = {}): Par
   }
   for (const p of ports) {
     if (p < 1) {
-      throw new FigureError('port-out-of-range', text, `port ${p} in \`${src}\` is out of range`, 'ports are numbered from 1');
+      const why = `port ${p} in \`${src}\` is out of range`;
+      throw new FigureError('port-out-of-range', text, why, 'ports are numbered from 1');
     }
   }
   const canonical = canonicalName(f, ports);
@@ -331,7 +415,8 @@ function unknownFigure(text: string, word: string, inner: string | undefined): F
     if (f && f.args !== 'none') {
       const digits = glued[2]!;
       const arg = f.args === 'port' ? digits : `S${digits}`;
-      return new FigureError('unknown-figure', text, `unknown figure \`${word}\``, `did you mean \`${f.name}(${arg})\`?`);
+      const help = `did you mean \`${f.name}(${arg})\`?`;
+      return new FigureError('unknown-figure', text, `unknown figure \`${word}\``, help);
     }
   }
   // a bare entry: `S21`

@@ -38,9 +38,8 @@ export function scattering(net: NetworkData, who: string): NetworkData {
 /** Throws RangeError unless `port` is an integer in 1..net.ports. */
 export function checkPort(net: NetworkData, port: number, who: string): void {
   if (!Number.isInteger(port) || port < 1 || port > net.ports) {
-    throw new RangeError(
-      `${who}: port ${port} is out of range, the network has ${net.ports} port${net.ports === 1 ? '' : 's'} (numbered from 1)`,
-    );
+    const count = `${net.ports} port${net.ports === 1 ? '' : 's'}`;
+    throw new RangeError(`${who}: port ${port} is out of range, the network has ${count} (numbered from 1)`);
   }
 }
 
