@@ -1,10 +1,13 @@
 import { readFileSync } from 'node:fs';
-import { dirname, isAbsolute, join, resolve } from 'node:path';
+import { dirname, extname, isAbsolute, join, resolve } from 'node:path';
 import type { NetlistAst, Statement } from './ast/ast.js';
 import { parseNetlist } from './ast/visitor.js';
 import { DiagnosticBag, InputError, type Diagnostic } from './diagnostics/diagnostic.js';
 import type { Circuit } from './elaborate/circuit.js';
-import { elaborate, type Override } from './elaborate/elaborate.js';
+import { DataFileError, elaborate, type Override } from './elaborate/elaborate.js';
+import { parseJson } from './io/json.js';
+import { parseTouchstone, TouchstoneError } from './io/touchstone.js';
+import type { NetworkData } from './network/types.js';
 
 /** Options for turning a netlist into a circuit. */
 export interface LoadOptions {
@@ -39,7 +42,24 @@ const SWEEP_FILE = '--sweep';
 export function loadNetlist(text: string, file: string, options: LoadOptions = {}): LoadResult {
   const bag = new DiagnosticBag();
   const sources = new Map<string, string>([[file, text]]);
-  const ast = expandIncludes(parseNetlist(text, file, bag), [file], bag, sources, options.readFile ?? ((p) => readFileSync(p, 'utf8')));
+  const read = options.readFile ?? ((p: string) => readFileSync(p, 'utf8'));
+  const ast = expandIncludes(parseNetlist(text, file, bag), [file], bag, sources, read);
+  const dataCache = new Map<string, NetworkData>();
+  const readNetwork = (path: string): NetworkData => {
+    const cached = dataCache.get(path);
+    if (cached) return cached;
+    const body = read(path);
+    sources.set(path, body);
+    let net: NetworkData;
+    try {
+      net = extname(path).toLowerCase() === '.json' ? parseJson(body) : parseTouchstone(body, { fileName: path });
+    } catch (e) {
+      if (e instanceof TouchstoneError) throw new DataFileError(e.message, { file: path, line: e.line, column: e.column, length: 1 });
+      throw new DataFileError((e as Error).message);
+    }
+    dataCache.set(path, net);
+    return net;
+  };
 
   const overrides: Override[] = [];
   const setLines = options.set ?? [];
@@ -73,7 +93,7 @@ export function loadNetlist(text: string, file: string, options: LoadOptions = {
     if (segments.length === 0) bag.error('bad-sweep', '`--sweep` is empty', { file: SWEEP_FILE, line: 1, column: 1, length: 1 });
   }
 
-  const circuit = elaborate(ast, bag, { overrides, sweep });
+  const circuit = elaborate(ast, bag, { overrides, sweep, readNetwork });
   if (bag.hasErrors) throw new InputError(bag.items, sources);
   return { circuit, warnings: bag.items.filter((d) => d.severity === 'warning'), sources };
 }

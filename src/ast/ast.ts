@@ -8,13 +8,15 @@ export type Expr =
   | { kind: 'unary'; op: '-' | '+'; operand: Expr; span: SourceSpan }
   | { kind: 'binary'; op: '+' | '-' | '*' | '/' | '^'; left: Expr; right: Expr; span: SourceSpan };
 
-/** `key=value[, value…] [at expr]` */
+/** `key=value[, value…] [at expr]`, or `key="text"` (then `values` is empty and `text` is set). */
 export interface KeyArg {
   kind: 'key';
   key: string;
   keySpan: SourceSpan;
   values: Expr[];
   at?: Expr;
+  /** The quoted text of `key="text"`. */
+  text?: { value: string; span: SourceSpan };
   span: SourceSpan;
 }
 

@@ -47,6 +47,12 @@ class AstBuilder {
       return { kind: 'text', value: unquote(text.image), span: tokSpan(this.file, text) };
     }
     const key = toks(c, 'key')[0]!;
+    const keyText = toks(c, 'keyText')[0];
+    if (keyText) {
+      const keySpan = tokSpan(this.file, key);
+      const textSpan = tokSpan(this.file, keyText);
+      return { kind: 'key', key: key.image, keySpan, values: [], text: { value: unquote(keyText.image), span: textSpan }, span: joinSpans(keySpan, textSpan) };
+    }
     const list = nodes(c, 'valueList')[0]!;
     const values = nodes(list.children as Children, 'items').map((e) => this.expression(e));
     const atNode = nodes(c, 'atValue')[0];

@@ -2,9 +2,11 @@ import type { Arg, Expr, KeyArg, NetlistAst, Statement } from '../ast/ast.js';
 import { DiagnosticBag, type SourceSpan } from '../diagnostics/diagnostic.js';
 import { closest, didYouMean } from '../diagnostics/suggest.js';
 import { ELEMENTS } from '../elements/registry.js';
-import { GROUND, GROUND_NAME, type ElementInstance, type PropertySpec } from '../elements/types.js';
+import { GROUND, GROUND_NAME, type ElementInstance, type PropertySpec, type TerminalSpec } from '../elements/types.js';
+import type { NetworkData } from '../network/types.js';
 import type { Circuit, ParameterValue, Port } from './circuit.js';
 import { describeUnit, evaluate, math, toSI, type EvalScope, type Quantity } from './evaluate.js';
+import { dirname, isAbsolute, join } from 'node:path';
 import { floatingGroups } from './islands.js';
 import { elaborateSpec } from './spec.js';
 import { buildSweep } from './sweep.js';
@@ -17,7 +19,24 @@ export interface Override {
   span: SourceSpan;
 }
 
+/** A network-data file could not be read: where and why. */
+export class DataFileError extends Error {
+  constructor(
+    message: string,
+    /** A place in the data file itself, when the reader knows one. */
+    readonly place?: SourceSpan,
+  ) {
+    super(message);
+    this.name = 'DataFileError';
+  }
+}
+
 export interface ElaborateOptions {
+  /**
+   * Reads network data for data elements (`path` already resolved against the netlist's folder).
+   * Throws {@link DataFileError} (or any error) when the file cannot be read.
+   */
+  readNetwork?: (path: string) => NetworkData;
   /** Replace parameter definitions by these expressions. */
   overrides?: Override[];
   /** Replace the netlist's sweep statements by these. */
@@ -190,7 +209,11 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
         default: {
           const type = ELEMENTS.get(st.keyword);
           if (type) {
-            defineElement(st, type, ctx);
+            try {
+              defineElement(st, type, ctx);
+            } catch (e) {
+              if (!(e instanceof ReportedError)) throw e;
+            }
             break;
           }
           const block = blocks.get(st.keyword);
@@ -257,6 +280,27 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
     run(block.body, { scope, prefix: `${name}.`, terminals, chain: [...ctx.chain, block.name], later: laterOf(block.body) });
   }
 
+  /** Reads a data file for the statement `st`; a failure becomes an error at its `file=` (and in the file). */
+  function readNetworkFor(st: Statement, path: string): NetworkData {
+    const read = options.readNetwork;
+    if (!read) throw new DataFileError('network-data files cannot be read here (no reader was given)');
+    const full = isAbsolute(path) ? path : join(dirname(st.span.file), path);
+    try {
+      return read(full);
+    } catch (e) {
+      const fileArg = st.args.find((a) => a.kind === 'key' && a.key === 'file');
+      const at = fileArg && fileArg.kind === 'key' ? (fileArg.text?.span ?? fileArg.span) : st.span;
+      if (e instanceof DataFileError && e.place) {
+        bag.error('bad-data-file', e.message, e.place);
+        bag.error('bad-data-file', `the network-data file ${JSON.stringify(path)} is malformed (see above)`, at);
+      } else {
+        const code = (e as NodeJS.ErrnoException).code;
+        bag.error('bad-data-file', `cannot read ${JSON.stringify(path)}: ${code === 'ENOENT' ? 'no such file' : (e as Error).message}`, at, `the path is relative to ${dirname(st.span.file) || '.'}`);
+      }
+      throw new ReportedError();
+    }
+  }
+
   function defineParameters(st: Statement, ctx: Context) {
     if (st.label) {
       bag.error('bad-let', 'write a parameter as `let name = value`', st.label.span);
@@ -290,12 +334,16 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
     }
   }
 
-  function keyArgs(st: Statement, allowed: string[], what: string): Map<string, KeyArg> {
+  function keyArgs(st: Statement, allowed: string[], what: string, textKeys: readonly string[] = []): Map<string, KeyArg> {
     const m = new Map<string, KeyArg>();
     suggestedKeys = new Set<string>();
     for (const a of st.args) {
       if (a.kind !== 'key') {
         bag.error('unexpected-text', `a quoted string is not an argument of ${what}`, a.span);
+        continue;
+      }
+      if (a.text && allowed.includes(a.key) && !textKeys.includes(a.key)) {
+        bag.error('unexpected-text', `\`${a.key}\` takes a value, not a quoted string`, a.text.span);
         continue;
       }
       if (!allowed.includes(a.key)) {
@@ -377,11 +425,53 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
       return;
     }
     elementNames.set(name, st.label.span);
-    const allowed = [...type.terminals.map((t) => t.key), ...type.properties.map((p) => p.key)];
-    const args = keyArgs(st, allowed, what);
-    const el: ElementInstance = { type: type.keyword, name, nodes: [], nodeNames: [], props: {}, at: {}, span: st.span, propSpans: {} };
+    const textKeys = (type.textProperties ?? []).map((p) => p.key);
+    // Terminals may depend on the text properties (a data file's ports): allow any key that looks
+    // like one until they are known.
+    let terminals: readonly TerminalSpec[] = type.terminals;
+    const el: ElementInstance = { type: type.keyword, name, nodes: [], nodeNames: [], props: {}, at: {}, span: st.span, propSpans: {}, text: {} };
     let ok = true;
-    for (const t of type.terminals) {
+    if (type.resolve) {
+      // the text properties alone, read quietly: the full check of every key follows
+      const pre = new Map<string, KeyArg>();
+      for (const a of st.args) if (a.kind === 'key' && textKeys.includes(a.key) && !pre.has(a.key)) pre.set(a.key, a);
+      suggestedKeys = new Set();
+      if (!readText(pre)) return;
+      const fail = (message: string, key?: string, help?: string) => bag.error('bad-element', message, (key && pre.get(key)?.span) || st.label!.span, help);
+      const resolved = type.resolve(el, { readNetwork: (path) => readNetworkFor(st, path), fail });
+      if (!resolved) return;
+      terminals = resolved;
+    }
+    const allowed = [...terminals.map((t) => t.key), ...type.properties.map((p) => p.key), ...textKeys];
+    const args = keyArgs(st, allowed, what, textKeys);
+    if (!type.resolve && !readText(args)) return;
+
+    function readText(found: Map<string, KeyArg>): boolean {
+      for (const p of type.textProperties ?? []) {
+        const a = found.get(p.key);
+        if (!a) {
+          if (p.required) {
+            if (!suggestedKeys.has(p.key)) bag.error('missing-property', `${what} \`${name}\` needs \`${p.key}\` (${p.doc})`, st.label!.span, p.choices ? `one of: ${p.choices.join(', ')}` : `add \`${p.key}="…"\``);
+            return false;
+          }
+          if (p.defaultValue !== undefined) el.text[p.key] = p.defaultValue;
+          continue;
+        }
+        const word = a.text?.value ?? (a.values.length === 1 && a.values[0]!.kind === 'name' && !a.at ? (a.values[0] as { name: string }).name : undefined);
+        if (word === undefined) {
+          bag.error('bad-value', p.choices ? `\`${p.key}\` is one of: ${p.choices.join(', ')}` : `\`${p.key}\` takes a quoted string`, a.span, p.choices ? undefined : `write \`${p.key}="…"\``);
+          return false;
+        }
+        if (p.choices && !p.choices.includes(word)) {
+          bag.error('bad-value', `\`${p.key}\` is one of: ${p.choices.join(', ')}`, a.text?.span ?? a.values[0]!.span, didYouMean(word, p.choices));
+          return false;
+        }
+        el.text[p.key] = word;
+        el.propSpans[p.key] = a.span;
+      }
+      return true;
+    }
+    for (const t of terminals) {
       const a = args.get(t.key);
       if (!a) {
         if (suggestedKeys.has(t.key)) {
@@ -489,6 +579,20 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
     bag.error('no-sweep', 'the netlist has no `sweep`', { file: ast.file, line: 1, column: 1, length: 1 }, 'add e.g. `sweep linear start=1 MHz stop=1 GHz points=201`, or give `--sweep` on the command line');
   }
 
+  // Elements defined over a limited band (measured data) must cover the sweep.
+  if (frequencies.length > 0) {
+    const lo = frequencies[0]!;
+    const hi = frequencies[frequencies.length - 1]!;
+    for (const el of elements) {
+      const range = ELEMENTS.get(el.type)!.frequencyRange?.(el);
+      if (!range) continue;
+      const tol = 1e-9 * Math.max(range[1], 1);
+      if (lo < range[0] - tol || hi > range[1] + tol) {
+        bag.error('sweep-outside-data', `the sweep (${hz(lo)} to ${hz(hi)}) reaches outside the data of \`${el.name}\` (${hz(range[0])} to ${hz(range[1])})`, el.span, 'narrow the sweep, or let the element extrapolate with `extrapolate=hold`');
+      }
+    }
+  }
+
   // Ports: numbered 1..N without gaps.
   const portList = [...ports.values()].sort((a, b) => a.number - b.number);
   if (!topStatements.some((st) => st.keyword === 'port') && !ast.failedKeywords.includes('port')) {
@@ -578,6 +682,9 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
     warnings: bag.items.filter((d) => d.severity === 'warning'),
   };
 }
+
+/** Unwinds out of an element whose problem was already reported. */
+class ReportedError extends Error {}
 
 /**
  * Separates block definitions (`block NAME terminals=… [param=default …]` … `end`) from the
@@ -672,6 +779,13 @@ function blockHeader(st: Statement, bag: DiagnosticBag): BlockDefinition | undef
     }
   }
   return ok ? { name: st.label.text, header: st, terminals, params, body: [], used: false } : undefined;
+}
+
+function hz(f: number): string {
+  if (f >= 1e9) return `${Number((f / 1e9).toPrecision(6))} GHz`;
+  if (f >= 1e6) return `${Number((f / 1e6).toPrecision(6))} MHz`;
+  if (f >= 1e3) return `${Number((f / 1e3).toPrecision(6))} kHz`;
+  return `${Number(f.toPrecision(6))} Hz`;
 }
 
 function signOk(p: PropertySpec, v: number): boolean {

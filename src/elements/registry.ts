@@ -1,10 +1,24 @@
 import { capacitor } from './capacitor.js';
 import { conductance } from './conductance.js';
+import { datafile } from './datafile.js';
 import { inductor } from './inductor.js';
 import { resistor } from './resistor.js';
+import { currentGain } from './current-gain.js';
+import { gyrator } from './gyrator.js';
+import { transconductance } from './transconductance.js';
+import { transformer } from './transformer.js';
+import { transresistance } from './transresistance.js';
+import { voltageGain } from './voltage-gain.js';
 import type { ElementType } from './types.js';
 
 /** Every element type, by keyword. Adding an element: write its file, add one line here. */
-export const ELEMENTS: ReadonlyMap<string, ElementType> = new Map(
-  [resistor, conductance, capacitor, inductor].map((e) => [e.keyword, e]),
-);
+const TYPES: ElementType[] = [
+  resistor,
+  conductance,
+  capacitor,
+  inductor,
+  transformer, gyrator, transconductance, voltageGain, currentGain, transresistance,
+  datafile,
+];
+
+export const ELEMENTS: ReadonlyMap<string, ElementType> = new Map(TYPES.map((e) => [e.keyword, e]));

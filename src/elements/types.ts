@@ -29,6 +29,25 @@ export interface PropertySpec {
   doc: string;
 }
 
+/** A property given as text: a quoted string (`file="saw.s2p"`) or, for a choice, a bare word (`interp=polar`). */
+export interface TextPropertySpec {
+  key: string;
+  doc: string;
+  required?: boolean;
+  /** The allowed words, when the property is a choice. */
+  choices?: readonly string[];
+  /** Value used when the property is not given. */
+  defaultValue?: string;
+}
+
+/** What an element with terminals that depend on its data can ask for while it is elaborated. */
+export interface ResolveContext {
+  /** Reads network data from a file (path relative to the netlist the statement is in). */
+  readNetwork(path: string): import('../network/types.js').NetworkData;
+  /** Reports an error at the statement (or at the given key). */
+  fail(message: string, key?: string, help?: string): void;
+}
+
 /** An element after elaboration: plain numbers in SI units, nodes as indices. */
 export interface ElementInstance {
   type: string;
@@ -44,6 +63,10 @@ export interface ElementInstance {
   span: SourceSpan;
   /** Where each property was written, for messages. */
   propSpans: Record<string, SourceSpan>;
+  /** Text properties (see {@link TextPropertySpec}). */
+  text: Record<string, string>;
+  /** Whatever the type's `resolve` prepared (a data element's network data, say). */
+  data?: unknown;
 }
 
 /**
@@ -73,6 +96,16 @@ export interface ElementType {
   example: string;
   terminals: readonly TerminalSpec[];
   properties: readonly PropertySpec[];
+  textProperties?: readonly TextPropertySpec[];
+  /**
+   * For elements whose terminals depend on their text properties (a data file's port count):
+   * called after the text properties are read and before the terminals; returns the terminals
+   * (replacing `terminals`) and may store prepared data in `el.data`. Undefined means it failed
+   * (and has reported why through `ctx.fail`).
+   */
+  resolve?(el: ElementInstance, ctx: ResolveContext): TerminalSpec[] | undefined;
+  /** The frequency range (Hz) the element is defined over, if limited (measured data). */
+  frequencyRange?(el: ElementInstance): [number, number] | undefined;
   /** Cross-property rules (e.g. two loss forms given at once); report problems through `fail`. */
   validate?(el: ElementInstance, fail: (message: string, key?: string, help?: string) => void): void;
   /**

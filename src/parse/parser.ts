@@ -24,7 +24,7 @@ import {
  *
  *   statement   := Identifier [label] argument*
  *   label       := Identifier (not followed by '=') | NumberLit
- *   argument    := Identifier '=' valueList [At expression] | StringLit
+ *   argument    := Identifier '=' (StringLit | valueList [At expression]) | StringLit
  *   valueList   := expression (',' expression)*
  *   expression  := term (('+' | '-') term)*
  *   term        := factor (('*' | '/') factor)*
@@ -67,11 +67,18 @@ export class NetlistParser extends CstParser {
         ALT: () => {
           this.CONSUME(Identifier, { LABEL: 'key' });
           this.CONSUME(Equals);
-          this.SUBRULE(this.valueList);
-          this.OPTION(() => {
-            this.CONSUME(At);
-            this.SUBRULE(this.expression, { LABEL: 'atValue' });
-          });
+          this.OR2([
+            { ALT: () => this.CONSUME2(StringLit, { LABEL: 'keyText' }) },
+            {
+              ALT: () => {
+                this.SUBRULE(this.valueList);
+                this.OPTION(() => {
+                  this.CONSUME(At);
+                  this.SUBRULE(this.expression, { LABEL: 'atValue' });
+                });
+              },
+            },
+          ]);
         },
       },
       { ALT: () => this.CONSUME(StringLit, { LABEL: 'text' }) },

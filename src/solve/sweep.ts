@@ -47,6 +47,7 @@ export interface SweepOptions {
 export function solveSweep(circuit: Circuit, options: SweepOptions = {}): NetworkData {
   const plan = options.plan ?? buildPlan(circuit);
   const freqs = options.frequencies ?? circuit.frequencies;
+  checkRanges(circuit, freqs);
   const n = plan.size;
   const p = plan.portPlus.length;
   const nSlots = plan.slotRow.length;
@@ -111,6 +112,25 @@ export function solveSweep(circuit: Circuit, options: SweepOptions = {}): Networ
     values: out,
     title: circuit.title,
   };
+}
+
+/** Elements with data over a limited band (measured files) must cover every frequency asked for. */
+function checkRanges(circuit: Circuit, freqs: Float64Array): void {
+  if (freqs.length === 0) return;
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (const f of freqs) {
+    lo = Math.min(lo, f);
+    hi = Math.max(hi, f);
+  }
+  for (const el of circuit.elements) {
+    const range = ELEMENTS.get(el.type)!.frequencyRange?.(el);
+    if (!range) continue;
+    const tol = 1e-9 * Math.max(range[1], 1);
+    if (lo < range[0] - tol || hi > range[1] + tol) {
+      throw new RangeError(`the frequencies (${formatHz(lo)} to ${formatHz(hi)}) reach outside the data of ${el.name} (${formatHz(range[0])} to ${formatHz(range[1])})`);
+    }
+  }
 }
 
 function formatHz(f: number): string {
