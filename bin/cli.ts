@@ -10,6 +10,10 @@ import { expandInputs, InputsError } from '../src/io/inputs.js';
 import { readNetworkFile } from '../src/io/read.js';
 import { touchstoneExtension } from '../src/io/touchstone.js';
 import { formatFigureTable } from '../src/io/table.js';
+import { convertData, parsePairs, parseReferences, type ConvertTarget } from '../src/io/convert-file.js';
+import { evaluateQuantity } from '../src/load.js';
+import { microstripDispersive, microstripStatic, microstripWidth } from '../src/models/microstrip.js';
+import { formatFrequency } from '../src/check/format.js';
 import { FigureError, parseFigure } from '../src/figures/registry.js';
 import {
   convertNetwork,
@@ -127,6 +131,45 @@ export async function main(argv: string[], io: Io = defaultIo): Promise<number> 
           .epilog('Exit codes: 0 within tolerance, 1 they differ, 2 usage error, 3 input error.'),
       async (args) => {
         code = runDiff(args as unknown as DiffArgs, io);
+      },
+    )
+    .command(
+      'convert <input>',
+      'convert network data: S/Z/Y, chain (ABCD), transfer (T), hybrid (H), new references, mixed-mode',
+      (y: Argv) =>
+        y
+          .positional('input', { type: 'string', describe: 'network-data file (.sNp or .json)', demandOption: true })
+          .option('out', { alias: 'o', type: 'string', demandOption: true, describe: 'output file (.sNp, .csv or .json)' })
+          .option('to', { choices: ['S', 'Z', 'Y', 'ABCD', 'T', 'H'] as const, default: 'S', describe: 'representation to write (ABCD, T and H: two-ports, to .csv or .json)' })
+          .option('renormalize', { type: 'string', describe: 'new reference impedances in ohms: one for all ports, or one per port (50,75)' })
+          .option('mixed-mode', { type: 'string', describe: 'single-ended port pairs forming differential pairs, p,n;p,n (e.g. "1,3;2,4")' })
+          .option('format', { choices: ['touchstone', 'csv', 'json'] as const, describe: 'output format (default: from the extension)' })
+          .option('touchstone', { choices: ['1.1', '2.0'] as const, describe: 'Touchstone version' })
+          .option('data', { choices: ['ri', 'ma', 'db'] as const, default: 'ri', describe: 'complex format' })
+          .option('freq-unit', { choices: ['Hz', 'kHz', 'MHz', 'GHz'] as const, default: 'GHz', describe: 'frequency unit of Touchstone files' })
+          .option('digits', { type: 'number', describe: 'significant digits of written numbers' })
+          .example('$0 convert filter.s2p -o filter-z.s2p --to Z', 'S to Z, where Z exists')
+          .example('$0 convert filter.s2p -o filter-75.s2p --renormalize 75', 'the same network seen from 75 ohm ports')
+          .example('$0 convert pair.s4p -o pair-mm.s4p --mixed-mode "1,3;2,4"', 'differential and common-mode S of a four-port')
+          .example('$0 convert section.s2p -o section-abcd.csv --to ABCD', 'the chain matrix as CSV'),
+      async (args) => {
+        code = runConvert(args as unknown as ConvertArgs, io);
+      },
+    )
+    .command(
+      'microstrip',
+      'microstrip width for a target impedance, and the line it gives',
+      (y: Argv) =>
+        y
+          .option('z0', { type: 'string', demandOption: true, describe: 'target characteristic impedance, e.g. 50 ohm' })
+          .option('height', { type: 'string', demandOption: true, describe: 'substrate height, e.g. 1.6 mm' })
+          .option('er', { type: 'string', demandOption: true, describe: 'relative permittivity of the substrate' })
+          .option('thickness', { type: 'string', default: '35 um', describe: 'strip thickness' })
+          .option('freq', { type: 'string', default: '0 Hz', describe: 'frequency for the dispersive impedance (0: quasi-static)' })
+          .example('$0 microstrip --z0 "50 ohm" --height "1.6 mm" --er 4.4', 'a 50 ohm line on 1.6 mm FR-4')
+          .example('$0 microstrip --z0 "70.7 ohm" --height "0.508 mm" --er 3.66 --freq "2.45 GHz"', 'a Wilkinson arm at 2.45 GHz'),
+      async (args) => {
+        code = runMicrostrip(args as unknown as MicrostripArgs, io);
       },
     )
     .demandCommand(1, 'give a command, e.g. `scatterbox solve circuits/harmonic-lowpass-433.sbx`')
@@ -254,6 +297,80 @@ function splitFigures(list: string): string[] {
   return out;
 }
 
+interface ConvertArgs {
+  input: string;
+  out: string;
+  to: ConvertTarget;
+  renormalize?: string;
+  mixedMode?: string;
+  format?: OutputFormat;
+  touchstone?: TouchstoneVersion;
+  data: 'ri' | 'ma' | 'db';
+  freqUnit: FrequencyUnit;
+  digits?: number;
+}
+
+function runConvert(a: ConvertArgs, io: Io): number {
+  try {
+    const net = readNetworkFile(a.input);
+    const text = convertData(
+      net,
+      {
+        to: a.to,
+        renormalize: a.renormalize ? Array.from(parseReferences(a.renormalize, net.ports)) : undefined,
+        pairs: a.mixedMode ? parsePairs(a.mixedMode) : undefined,
+        format: a.format,
+        version: a.touchstone,
+        data: a.data.toUpperCase() as ComplexFormat,
+        frequencyUnit: a.freqUnit,
+        digits: a.digits,
+        comments: [`scatterbox convert ${basename(a.input)}`],
+      },
+      a.out,
+    );
+    writeFileAtomicSync(a.out, text);
+    return EXIT_OK;
+  } catch (e) {
+    io.err(describeError(e, false) + '\n');
+    return EXIT_INPUT;
+  }
+}
+
+interface MicrostripArgs {
+  z0: string;
+  height: string;
+  er: string;
+  thickness: string;
+  freq: string;
+}
+
+function runMicrostrip(a: MicrostripArgs, io: Io): number {
+  try {
+    const z0 = evaluateQuantity(a.z0, 'ohm', '--z0');
+    const h = evaluateQuantity(a.height, 'm', '--height');
+    const er = evaluateQuantity(a.er, null, '--er');
+    const t = evaluateQuantity(a.thickness, 'm', '--thickness');
+    const f = evaluateQuantity(a.freq, 'Hz', '--freq');
+    const w = microstripWidth(z0, h, t, er, f);
+    const line = f > 0 ? microstripDispersive(f, w, h, t, er) : microstripStatic(w, h, t, er);
+    const lambda = f > 0 ? 299792458 / (f * Math.sqrt(line.eeff)) : NaN;
+    io.out(
+      [
+        `width        ${(w * 1e3).toPrecision(6)} mm  (w/h = ${(w / h).toPrecision(5)})`,
+        `impedance    ${line.z0.toPrecision(6)} ohm${f > 0 ? ` at ${formatFrequency(f)}` : ' (quasi-static)'}`,
+        `e_eff        ${line.eeff.toPrecision(6)}`,
+        ...(f > 0 ? [`quarter wave ${((lambda / 4) * 1e3).toPrecision(6)} mm`] : []),
+        'models: Hammerstad & Jensen (1980)' + (f > 0 ? '; dispersion: Kirschning & Jansen (1982), Jansen & Kirschning (1983)' : ''),
+        '',
+      ].join('\n'),
+    );
+    return EXIT_OK;
+  } catch (e) {
+    io.err(describeError(e, false) + '\n');
+    return EXIT_INPUT;
+  }
+}
+
 interface ToleranceArgs {
   tolDb: number;
   tolDeg: number;
@@ -334,6 +451,7 @@ function describeError(e: unknown, quiet: boolean): string {
   if (e instanceof ConversionError) return `error: ${e.message}\n  help: write S-parameters (--param S), which exist for every solvable network`;
   if (e instanceof OutputError) return `error: ${e.message}${e.help ? `\n  help: ${e.help}` : ''}`;
   if (e instanceof TouchstoneError) return `${e.describe()}`;
+  if (e instanceof RangeError || (e instanceof Error && e.name === 'TwoPortConversionError') || (e instanceof Error && e.name === 'FrequencyGridError')) return `error: ${e.message}`;
   if (e instanceof FigureError) return `error: ${e.detail}${e.help ? `\n  help: ${e.help}` : ''}`;
   if (e instanceof CompareError || e instanceof InputsError) return `error: ${e.message}${'help' in e && e.help ? `\n  help: ${e.help}` : ''}`;
   const err = e as NodeJS.ErrnoException;

@@ -5,6 +5,7 @@ import { parseNetlist } from './ast/visitor.js';
 import { DiagnosticBag, InputError, type Diagnostic } from './diagnostics/diagnostic.js';
 import type { Circuit } from './elaborate/circuit.js';
 import { DataFileError, elaborate, type Override } from './elaborate/elaborate.js';
+import { evaluate, toSI } from './elaborate/evaluate.js';
 import { parseJson } from './io/json.js';
 import { parseTouchstone, TouchstoneError } from './io/touchstone.js';
 import type { NetworkData } from './network/types.js';
@@ -138,6 +139,28 @@ function expandIncludes(ast: NetlistAst, chain: string[], bag: DiagnosticBag, so
     failedKeywords.push(...inner.failedKeywords);
   }
   return { file: ast.file, statements, failedKeywords };
+}
+
+/**
+ * Evaluates a quantity written as in a netlist (`1.6 mm`, `2.45 GHz`, `50`) to a number in SI
+ * units of `unit` (null: a plain number). Throws {@link InputError} with the problem located in
+ * `what` (e.g. `--h`).
+ */
+export function evaluateQuantity(text: string, unit: string | null, what: string): number {
+  const bag = new DiagnosticBag();
+  const ast = parseNetlist(`let x = ${text}`, what, relay(bag, 8));
+  const arg = ast.statements[0]?.args[0];
+  const sources = new Map([[what, text]]);
+  if (!bag.hasErrors && arg && arg.kind === 'key' && arg.values.length === 1 && !arg.at) {
+    shiftSpans(arg, 8);
+    const q = evaluate(arg.values[0]!, { lookup: () => undefined, names: () => [] }, bag);
+    if (q !== undefined) {
+      const r = toSI(q, unit);
+      if ('value' in r) return r.value;
+      bag.error('wrong-unit', `${what} must be ${unit === null ? 'a plain number' : `in ${unit}`}, but ${r.error}`, arg.values[0]!.span);
+    }
+  } else if (!bag.hasErrors) bag.error('bad-value', `${what} takes one value`, { file: what, line: 1, column: 1, length: Math.max(1, text.length) });
+  throw new InputError(bag.items, sources);
 }
 
 /** Reads and loads a netlist file. */
