@@ -10,8 +10,10 @@ export interface Port {
   minus: number;
   plusName: string;
   minusName: string;
-  /** Reference impedance in ohms (real, > 0). */
+  /** Reference impedance in ohms: its resistance (> 0)… */
   reference: number;
+  /** …and its reactance, for a complex reference (power waves, Kurokawa 1965); 0 or absent for a real one. */
+  reactance?: number;
   span: SourceSpan;
 }
 

@@ -546,7 +546,7 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
       bag.error('duplicate-port', `port ${number} is defined twice (first at line ${ports.get(number)!.span.line})`, st.label.span);
       return;
     }
-    const args = keyArgs(st, ['plus', 'minus', 'ref'], '`port`');
+    const args = keyArgs(st, ['plus', 'minus', 'ref', 'ref_x'], '`port`');
     const plusArg = args.get('plus');
     if (!plusArg) {
       if (suggestedKeys.has('plus')) return;
@@ -558,7 +558,10 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
     const minusArg = args.get('minus');
     const minus = minusArg ? nodeArg(minusArg, by, true, ctx) : GROUND;
     const refArg = args.get('ref');
-    const reference = refArg ? numberArg(refArg, 'ohm', 'resistance') : DEFAULT_REFERENCE;
+    const reference = refArg ? numberArg(refArg, 'ohm', 'resistance', ctx) : DEFAULT_REFERENCE;
+    const xArg = args.get('ref_x');
+    const reactance = xArg ? numberArg(xArg, 'ohm', 'reactance', ctx) : 0;
+    if (reactance === undefined) return;
     if (plus === undefined || minus === undefined || reference === undefined) return;
     if (!(reference > 0)) {
       bag.error('bad-value', 'a reference impedance must be above 0 ohm', refArg!.values[0]!.span);
@@ -569,7 +572,7 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
       return;
     }
     const name = (a: KeyArg | undefined) => (a ? (a.values[0] as { name: string }).name : GROUND_NAME);
-    ports.set(number, { number, plus, minus, plusName: name(plusArg), minusName: name(minusArg), reference, span: st.span });
+    ports.set(number, { number, plus, minus, plusName: name(plusArg), minusName: name(minusArg), reference, ...(reactance !== 0 ? { reactance } : {}), span: st.span });
   }
 
   // Sweep: the override wins over the file's statements.

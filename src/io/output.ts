@@ -51,6 +51,9 @@ export function renderNetwork(net: NetworkData, options: OutputOptions = {}, pat
       'use an extension .s2p (Touchstone, .sNp for N ports), .csv or .json, or give --format',
     );
   }
+  if (net.referenceReactances?.some((x) => x !== 0)) {
+    throw new OutputError('the ports have complex reference impedances, which network-data files cannot carry', 'renormalise to real references first (fromComplexReferences), or give the ports real `ref=` values');
+  }
   const data = options.parameter && options.parameter !== net.parameter ? convertNetwork(net, options.parameter) : net;
   switch (format) {
     case 'touchstone': {

@@ -543,6 +543,9 @@ function checkNetwork(net: NetworkData, name: string): number {
     throw new RangeError(`${name}: references has length ${net.references.length}, expected ${n}`);
   }
   checkReferences(n, net.references, name);
+  if (net.referenceReactances?.some((x) => x !== 0)) {
+    throw new RangeError(`${name}: the data has complex reference impedances; turn them real first (fromComplexReferences in power-waves.ts)`);
+  }
   return points;
 }
 

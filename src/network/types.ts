@@ -13,8 +13,14 @@ export interface NetworkData {
   ports: number;
   /** Frequencies in Hz, ascending. */
   frequencies: Float64Array;
-  /** Per-port real reference impedances in ohms (length = ports). */
+  /** Per-port reference impedances in ohms (length = ports): the resistance, > 0. */
   references: Float64Array;
+  /**
+   * Reactances of complex reference impedances (power waves, Kurokawa 1965), when any port has
+   * one; absent for real references. Writers and the S/Z/Y conversions take real references only
+   * and refuse data that has these.
+   */
+  referenceReactances?: Float64Array;
   /** Complex values, see the interface comment for the layout. Z in ohms, Y in siemens, S unitless. */
   values: Float64Array;
   /** Optional title (from the netlist or the file read). */

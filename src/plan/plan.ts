@@ -29,6 +29,8 @@ export interface StampPlan {
   portPlus: Int32Array;
   portMinus: Int32Array;
   portReference: Float64Array;
+  /** Per port: the reactance of a complex reference impedance in ohms (0 for a real one). */
+  portReactance: Float64Array;
 }
 
 /** Builds the stamp plan: assigns unknowns, fixes the pattern and compiles every element. */
@@ -83,13 +85,18 @@ export function buildPlan(circuit: Circuit): StampPlan {
   const portPlus = new Int32Array(circuit.ports.length);
   const portMinus = new Int32Array(circuit.ports.length);
   const portReference = new Float64Array(circuit.ports.length);
+  const portReactance = new Float64Array(circuit.ports.length);
   circuit.ports.forEach((p, k) => {
     portPlus[k] = toUnknown(p.plus);
     portMinus[k] = toUnknown(p.minus);
     portReference[k] = p.reference;
+    portReactance[k] = p.reactance ?? 0;
     const s = admittanceSlots(builder, portPlus[k]!, portMinus[k]!);
-    const g = 1 / p.reference;
-    stampers.push((_omega, v) => addAdmittance(v, s, g, 0));
+    // termination 1/Zref, Zref = R + jX
+    const d = p.reference * p.reference + portReactance[k]! * portReactance[k]!;
+    const gr = p.reference / d;
+    const gi = -portReactance[k]! / d;
+    stampers.push((_omega, v) => addAdmittance(v, s, gr, gi));
   });
   // Every unknown gets its diagonal slot, so that the pattern is structurally square.
   const size = nodeCount + branchNames.length;
@@ -107,5 +114,6 @@ export function buildPlan(circuit: Circuit): StampPlan {
     portPlus,
     portMinus,
     portReference,
+    portReactance,
   };
 }

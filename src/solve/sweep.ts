@@ -59,16 +59,40 @@ export function solveSweep(circuit: Circuit, options: SweepOptions = {}): Networ
   const rhs = new Float64Array(2 * n * p);
   const x = new Float64Array(2 * n * p);
   const sqrtRef = plan.portReference.map(Math.sqrt);
+  // Power waves for Zref = R + jX (Kurokawa, 1965): a = (v + Zref·i)/(2√R), b = (v − Zref*·i)/(2√R).
+  // The Norton drive 2√R/Zref across 1/Zref makes a_j = 1; then b_i = v_i·√R_i/Zref_i − δij·Zref_i*/Zref_i.
+  const complexRefs = plan.portReactance.some((x) => x !== 0);
+  const kr = new Float64Array(p); // √R/Zref
+  const ki = new Float64Array(p);
+  const dr = new Float64Array(p); // Zref*/Zref
+  const di = new Float64Array(p);
+  for (let i = 0; i < p; i++) {
+    const r = plan.portReference[i]!;
+    const x = plan.portReactance[i]!;
+    const m = r * r + x * x;
+    kr[i] = (sqrtRef[i]! * r) / m;
+    ki[i] = (-sqrtRef[i]! * x) / m;
+    dr[i] = (r * r - x * x) / m;
+    di[i] = (-2 * r * x) / m;
+  }
   const out = new Float64Array(2 * p * p * freqs.length);
   const stampers = plan.stampers;
 
   // Right-hand sides are the same at every frequency.
   for (let j = 0; j < p; j++) {
-    const drive = 2 / sqrtRef[j]!;
+    // 2√R/Zref = 2R/(√R·Zref) = 2·conj(kr + j·ki)… written out: 2√R·(R − jX)/(R² + X²) = 2·(kr + j·ki)
+    const driveR = 2 * kr[j]!;
+    const driveI = 2 * ki[j]!;
     const pl = plan.portPlus[j]!;
     const mi = plan.portMinus[j]!;
-    if (pl !== GROUND) rhs[2 * (pl * p + j)] += drive;
-    if (mi !== GROUND) rhs[2 * (mi * p + j)] -= drive;
+    if (pl !== GROUND) {
+      rhs[2 * (pl * p + j)] += driveR;
+      rhs[2 * (pl * p + j) + 1] += driveI;
+    }
+    if (mi !== GROUND) {
+      rhs[2 * (mi * p + j)] -= driveR;
+      rhs[2 * (mi * p + j) + 1] -= driveI;
+    }
   }
 
   for (let k = 0; k < freqs.length; k++) {
@@ -99,8 +123,13 @@ export function solveSweep(circuit: Circuit, options: SweepOptions = {}): Networ
           vi -= x[2 * (mi * p + j) + 1]!;
         }
         const o = base + 2 * (i * p + j);
-        out[o] = vr * inv - (i === j ? 1 : 0);
-        out[o + 1] = vi * inv;
+        if (complexRefs) {
+          out[o] = vr * kr[i]! - vi * ki[i]! - (i === j ? dr[i]! : 0);
+          out[o + 1] = vr * ki[i]! + vi * kr[i]! - (i === j ? di[i]! : 0);
+        } else {
+          out[o] = vr * inv - (i === j ? 1 : 0);
+          out[o + 1] = vi * inv;
+        }
       }
     }
   }
@@ -109,6 +138,7 @@ export function solveSweep(circuit: Circuit, options: SweepOptions = {}): Networ
     ports: p,
     frequencies: Float64Array.from(freqs),
     references: Float64Array.from(plan.portReference),
+    ...(complexRefs ? { referenceReactances: Float64Array.from(plan.portReactance) } : {}),
     values: out,
     title: circuit.title,
   };
