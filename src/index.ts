@@ -44,3 +44,33 @@ export { formatJson, parseJson } from './io/json.js';
 export { writeFileAtomic, writeFileAtomicSync } from './io/atomic.js';
 export { renderNetwork, writeNetwork, formatFromPath, OutputError, type OutputFormat, type OutputOptions } from './io/output.js';
 export { formatTable } from './io/table.js';
+export {
+  toTwoPort,
+  fromTwoPort,
+  toChain,
+  fromChain,
+  toTransfer,
+  fromTransfer,
+  toHybrid,
+  fromHybrid,
+  cascade,
+  TwoPortConversionError,
+  FrequencyGridError,
+  type TwoPortData,
+  type ChainData,
+  type TransferData,
+  type HybridData,
+  type TwoPortRepresentation,
+} from './network/algebra.js';
+export { mixedMode, singleEnded, modeLabels, type MixedModeData, type PortPair } from './network/mixed-mode.js';
+export { renormalizeComplex, fromComplexReferences } from './network/power-waves.js';
+export * from './figures/index.js';
+export { evaluateSpecs, limitAt } from './check/evaluate.js';
+export type { SpecDefinition, SpecResult } from './check/types.js';
+export { compareNetworks, CompareError, type Comparison, type Tolerance, type EntryDeviation } from './check/compare.js';
+export { formatJunit, specSuite, comparisonSuite, type JunitSuite } from './check/junit.js';
+export { formatSpecTable, formatComparisonTable, checkReportJson } from './check/report.js';
+export { readNetworkFile } from './io/read.js';
+export { convertData, type ConvertOptions, type ConvertTarget } from './io/convert-file.js';
+export { evaluateQuantity } from './load.js';
+export { microstripStatic, microstripDispersive, microstripWidth, microstripAt } from './models/microstrip.js';
