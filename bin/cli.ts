@@ -1,4 +1,7 @@
 import { existsSync, mkdirSync } from 'node:fs';
+import { availableParallelism } from 'node:os';
+import { solveSweepParallel } from '../src/solve/parallel.js';
+import type { Circuit } from '../src/elaborate/circuit.js';
 import { basename, extname, join } from 'node:path';
 import yargs, { type Argv } from 'yargs';
 import { compareNetworks, CompareError, type Comparison, type Tolerance } from '../src/check/compare.js';
@@ -64,6 +67,7 @@ const toleranceOptions = (y: Argv) =>
 
 const solveOptions = (y: Argv) =>
   y
+    .option('jobs', { alias: 'j', type: 'number', default: availableParallelism(), describe: 'worker threads for long sweeps (1: solve in one thread)' })
     .option('set', { type: 'string', array: true, describe: 'override a parameter: name=value, with units (repeatable)' })
     .option('sweep', { type: 'string', describe: 'replace the netlist sweep: segments as after `sweep`, joined by `;`' })
     .option('quiet', { alias: 'q', type: 'boolean', default: false, describe: 'do not print warnings' });
@@ -97,7 +101,7 @@ export async function main(argv: string[], io: Io = defaultIo): Promise<number> 
           .example('$0 solve circuits/ --out-dir reference/', 'one Touchstone file per netlist, for golden files')
           .example('$0 solve pad.sbx -o pad.csv --param Z', 'write the Z matrix as CSV'),
       async (args) => {
-        code = runSolve(args as unknown as SolveArgs, io);
+        code = await runSolve(args as unknown as SolveArgs, io);
       },
     )
     .command(
@@ -116,7 +120,7 @@ export async function main(argv: string[], io: Io = defaultIo): Promise<number> 
           .example('$0 check filter.sbx --against golden/filter.s2p --update', 'accept the new response as golden')
           .epilog('Exit codes: 0 every check passes, 1 a check fails, 2 usage error, 3 input error.'),
       async (args) => {
-        code = runCheck(args as unknown as CheckArgs, io);
+        code = await runCheck(args as unknown as CheckArgs, io);
       },
     )
     .command(
@@ -213,7 +217,16 @@ interface SolveArgs {
   sweep?: string;
   digits?: number;
   figures?: string;
+  jobs: number;
   quiet: boolean;
+}
+
+/** Sweeps long enough to be worth starting worker threads for. */
+const PARALLEL_MIN_POINTS = 256;
+
+async function solveWith(circuit: Circuit, jobs: number) {
+  if (jobs > 1 && circuit.frequencies.length >= PARALLEL_MIN_POINTS) return solveSweepParallel(circuit, { jobs });
+  return solve(circuit);
 }
 
 function load(a: { set?: string[]; sweep?: string; quiet: boolean }, file: string, io: Io) {
@@ -222,7 +235,7 @@ function load(a: { set?: string[]; sweep?: string; quiet: boolean }, file: strin
   return loaded;
 }
 
-function runSolve(a: SolveArgs, io: Io): number {
+async function runSolve(a: SolveArgs, io: Io): Promise<number> {
   try {
     const files = expandInputs(a.netlist);
     const batch = files.length > 1 || a.outDir !== undefined;
@@ -242,7 +255,7 @@ function runSolve(a: SolveArgs, io: Io): number {
       let failed = 0;
       for (const file of files) {
         try {
-          const net = solve(load(a, file, io).circuit);
+          const net = await solveWith(load(a, file, io).circuit, a.jobs);
           const format = (a.format as OutputFormat | undefined) ?? 'touchstone';
           const ext = format === 'touchstone' ? touchstoneExtension(net.ports) : `.${format}`;
           const out = join(a.outDir!, basename(file, extname(file)) + ext);
@@ -256,7 +269,7 @@ function runSolve(a: SolveArgs, io: Io): number {
       if (failed > 0) io.err(`${failed} of ${files.length} netlists failed; their files were not written\n`);
       return failed > 0 ? EXIT_INPUT : EXIT_OK;
     }
-    const net = solve(load(a, files[0]!, io).circuit);
+    const net = await solveWith(load(a, files[0]!, io).circuit, a.jobs);
     if (a.figures !== undefined) {
       if (a.out || batch) throw new OutputError('--figures prints to the terminal', 'leave out -o (use --format csv for CSV on stdout)');
       const columns = splitFigures(a.figures).map((text) => {
@@ -390,14 +403,15 @@ interface CheckArgs extends ToleranceArgs {
   update: boolean;
   set?: string[];
   sweep?: string;
+  jobs: number;
   quiet: boolean;
 }
 
-function runCheck(a: CheckArgs, io: Io): number {
+async function runCheck(a: CheckArgs, io: Io): Promise<number> {
   try {
     if (a.update && !a.against) throw new OutputError('--update rewrites the golden file named by --against, but none was given', 'add --against FILE');
     const { circuit } = load(a, a.netlist, io);
-    const net = solve(circuit);
+    const net = await solveWith(circuit, a.jobs);
     const results = evaluateSpecs(circuit.specs, net);
     let golden: { file: string; comparison: Comparison } | undefined;
     if (a.against && a.update) {

@@ -1,0 +1,15 @@
+/**
+ * A sweep worker: solves a share of the frequencies of a circuit. Run by the pool of
+ * `parallel.ts` from the compiled `dist/` tree.
+ */
+import type { Circuit } from '../elaborate/circuit.js';
+import { solveSweep } from './sweep.js';
+
+export interface SweepTask {
+  circuit: Circuit;
+  frequencies: Float64Array;
+}
+
+export default function solveShare(task: SweepTask): Float64Array {
+  return solveSweep(task.circuit, { frequencies: task.frequencies }).values;
+}
