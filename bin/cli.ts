@@ -1,8 +1,10 @@
 import { existsSync, mkdirSync } from 'node:fs';
 import { availableParallelism } from 'node:os';
 import { solveSweepParallel } from '../src/solve/parallel.js';
+import { solveSweep } from '../src/solve/sweep.js';
 import type { Circuit } from '../src/elaborate/circuit.js';
 import { basename, extname, join } from 'node:path';
+import { Presets, SingleBar } from 'cli-progress';
 import yargs, { type Argv } from 'yargs';
 import { compareNetworks, CompareError, type Comparison, type Tolerance } from '../src/check/compare.js';
 import { evaluateSpecs } from '../src/check/evaluate.js';
@@ -224,9 +226,33 @@ interface SolveArgs {
 /** Sweeps long enough to be worth starting worker threads for. */
 const PARALLEL_MIN_POINTS = 256;
 
-async function solveWith(circuit: Circuit, jobs: number) {
-  if (jobs > 1 && circuit.frequencies.length >= PARALLEL_MIN_POINTS) return solveSweepParallel(circuit, { jobs });
-  return solve(circuit);
+/** Sweeps long enough to show progress for (on a terminal, without --quiet). */
+const PROGRESS_MIN_POINTS = 2000;
+
+async function solveWith(circuit: Circuit, jobs: number, quiet = false) {
+  const bar = !quiet && process.stderr.isTTY && circuit.frequencies.length >= PROGRESS_MIN_POINTS ? progressBar('sweep', circuit.frequencies.length) : undefined;
+  try {
+    if (jobs > 1 && circuit.frequencies.length >= PARALLEL_MIN_POINTS) return await solveSweepParallel(circuit, { jobs, onProgress: bar?.update });
+    return solveSweep(circuit, { onProgress: bar?.update });
+  } finally {
+    bar?.stop();
+  }
+}
+
+/** A progress bar on stderr (cli-progress); the caller decides whether one is wanted. */
+function progressBar(what: string, total: number) {
+  const bar = new SingleBar({ format: `${what} [{bar}] {value}/{total} points`, stream: process.stderr, hideCursor: true, clearOnComplete: true }, Presets.shades_classic);
+  bar.start(total, 0);
+  let last = 0;
+  return {
+    update: (done: number) => {
+      if (done - last >= Math.max(1, total / 200) || done === total) {
+        last = done;
+        bar.update(done);
+      }
+    },
+    stop: () => bar.stop(),
+  };
 }
 
 function load(a: { set?: string[]; sweep?: string; quiet: boolean }, file: string, io: Io) {
@@ -253,23 +279,27 @@ async function runSolve(a: SolveArgs, io: Io): Promise<number> {
     if (batch) {
       mkdirSync(a.outDir!, { recursive: true });
       let failed = 0;
+      const batchBar = !a.quiet && process.stderr.isTTY && files.length >= 20 ? new SingleBar({ format: 'netlists [{bar}] {value}/{total}', stream: process.stderr, clearOnComplete: true }, Presets.shades_classic) : undefined;
+      batchBar?.start(files.length, 0);
       for (const file of files) {
         try {
-          const net = await solveWith(load(a, file, io).circuit, a.jobs);
+          const net = await solveWith(load(a, file, io).circuit, a.jobs, true);
+          batchBar?.increment();
           const format = (a.format as OutputFormat | undefined) ?? 'touchstone';
           const ext = format === 'touchstone' ? touchstoneExtension(net.ports) : `.${format}`;
           const out = join(a.outDir!, basename(file, extname(file)) + ext);
           writeNetwork(net, out, { ...options(file), format });
-          if (!a.quiet) io.err(`${file} → ${out}\n`);
+          if (!a.quiet && !batchBar) io.err(`${file} → ${out}\n`);
         } catch (e) {
           failed++;
           io.err(describeError(e, a.quiet) + '\n');
         }
       }
+      batchBar?.stop();
       if (failed > 0) io.err(`${failed} of ${files.length} netlists failed; their files were not written\n`);
       return failed > 0 ? EXIT_INPUT : EXIT_OK;
     }
-    const net = await solveWith(load(a, files[0]!, io).circuit, a.jobs);
+    const net = await solveWith(load(a, files[0]!, io).circuit, a.jobs, a.quiet);
     if (a.figures !== undefined) {
       if (a.out || batch) throw new OutputError('--figures prints to the terminal', 'leave out -o (use --format csv for CSV on stdout)');
       const columns = splitFigures(a.figures).map((text) => {
@@ -411,7 +441,7 @@ async function runCheck(a: CheckArgs, io: Io): Promise<number> {
   try {
     if (a.update && !a.against) throw new OutputError('--update rewrites the golden file named by --against, but none was given', 'add --against FILE');
     const { circuit } = load(a, a.netlist, io);
-    const net = await solveWith(circuit, a.jobs);
+    const net = await solveWith(circuit, a.jobs, a.quiet);
     const results = evaluateSpecs(circuit.specs, net);
     let golden: { file: string; comparison: Comparison } | undefined;
     if (a.against && a.update) {

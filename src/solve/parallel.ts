@@ -11,6 +11,8 @@ export interface ParallelOptions {
   jobs?: number;
   /** Frequencies in Hz (default: the circuit's sweep). */
   frequencies?: Float64Array;
+  /** Called as shares complete, with the number of points done and the total. */
+  onProgress?: (done: number, total: number) => void;
 }
 
 /** The compiled worker; the pool runs compiled JavaScript even when this module runs from source. */
@@ -29,10 +31,11 @@ function workerFile(): string {
 export async function solveSweepParallel(circuit: Circuit, options: ParallelOptions = {}): Promise<NetworkData> {
   const freqs = options.frequencies ?? circuit.frequencies;
   const jobs = Math.max(1, Math.min(options.jobs ?? availableParallelism(), freqs.length));
-  if (jobs === 1) return solveSweep(circuit, { frequencies: freqs });
+  if (jobs === 1) return solveSweep(circuit, { frequencies: freqs, onProgress: options.onProgress });
   const pool = new Tinypool({ filename: workerFile(), minThreads: jobs, maxThreads: jobs, isolateWorkers: false });
   try {
     const shares: Float64Array[] = [];
+    let done = 0;
     for (let w = 0; w < jobs; w++) {
       const lo = Math.floor((w * freqs.length) / jobs);
       const hi = Math.floor(((w + 1) * freqs.length) / jobs);
@@ -41,7 +44,16 @@ export async function solveSweepParallel(circuit: Circuit, options: ParallelOpti
     // A worker's failure comes back as a plain error; solving that share here rethrows it with its
     // own type and details (a singular system names its nodes and frequency).
     const parts = (await Promise.all(
-      shares.map((f) => pool.run({ circuit, frequencies: f }).catch(() => solveSweep(circuit, { frequencies: f }).values)),
+      shares.map((f) =>
+        pool
+          .run({ circuit, frequencies: f })
+          .catch(() => solveSweep(circuit, { frequencies: f }).values)
+          .then((v: Float64Array) => {
+            done += f.length;
+            options.onProgress?.(done, freqs.length);
+            return v;
+          }),
+      ),
     )) as Float64Array[];
     const p = circuit.ports.length;
     const values = new Float64Array(2 * p * p * freqs.length);

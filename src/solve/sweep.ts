@@ -29,6 +29,8 @@ export interface SweepOptions {
   frequencies?: Float64Array;
   /** A plan built earlier for the same circuit. */
   plan?: StampPlan;
+  /** Called after each solved frequency point with the number done and the total. */
+  onProgress?: (done: number, total: number) => void;
 }
 
 /**
@@ -132,6 +134,7 @@ export function solveSweep(circuit: Circuit, options: SweepOptions = {}): Networ
         }
       }
     }
+    options.onProgress?.(k + 1, freqs.length);
   }
   return {
     parameter: 'S',
