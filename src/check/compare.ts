@@ -12,8 +12,9 @@ export interface Tolerance {
    */
   abs?: number;
   /**
-   * Magnitude in dB below which both dB and phase differences are not judged (where both values
-   * are that small, the absolute difference is bounded by 2·10^(floor/20) instead). Default −100 dB.
+   * Magnitude floor in dB (default −100 dB): where both values are below it, neither dB nor phase
+   * is judged; where one is, magnitudes below the floor count as the floor in the dB difference and
+   * the phase is not judged.
    */
   floorDb?: number;
 }
@@ -102,7 +103,8 @@ export function compareNetworks(actual: NetworkData, expected: NetworkData, tol:
         const ma = Math.hypot(ar, ai);
         const mb = Math.hypot(br, bi);
         if (ma < floorMag && mb < floorMag) continue;
-        const dbDiff = Math.abs(20 * Math.log10(ma) - 20 * Math.log10(mb));
+        // magnitudes below the floor count as the floor: a null that filled in shows how far above the floor it rose
+        const dbDiff = Math.abs(Math.max(20 * Math.log10(ma), tolerance.floorDb) - Math.max(20 * Math.log10(mb), tolerance.floorDb));
         if (dbDiff > d.db || Number.isNaN(d.dbFrequency)) {
           d.db = dbDiff;
           d.dbFrequency = f;

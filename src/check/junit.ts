@@ -25,7 +25,11 @@ export function specSuite(file: string, results: SpecResult[]): JunitSuite {
               r.points === 0
                 ? `no sweep point lies in the band of ${r.spec.name}`
                 : `${r.spec.name} fails: worst margin ${formatMargin(r.worstMargin, r.spec.unit)} at ${formatFrequency(r.worstFrequency)}`,
-            detail: `${describeSpec(r.spec)}\nvalue ${formatMargin(r.worstValue, r.spec.unit)} against limit ${formatMargin(r.worstLimit, r.spec.unit)} at ${formatFrequency(r.worstFrequency)}\nspec defined at ${r.spec.span.file}:${r.spec.span.line}:${r.spec.span.column}`,
+            detail: `${describeSpec(r.spec)}\n${
+              r.points === 0
+                ? 'the sweep has no point inside the band'
+                : `value ${formatMargin(r.worstValue, r.spec.unit)} against limit ${formatMargin(r.worstLimit, r.spec.unit)} at ${formatFrequency(r.worstFrequency)}`
+            }\nspec defined at ${r.spec.span.file}:${r.spec.span.line}:${r.spec.span.column}`,
           },
     })),
   };
@@ -41,7 +45,7 @@ export function comparisonSuite(file: string, c: Comparison): JunitSuite {
       const detail =
         c.tolerance.abs !== undefined
           ? `|Δ| ${e.abs.toExponential(3)} at ${formatFrequency(e.absFrequency)} (tolerance ${c.tolerance.abs})`
-          : `Δ|S| ${e.db.toFixed(4)} dB at ${formatFrequency(e.dbFrequency)}, Δ∠ ${e.deg.toFixed(3)}° at ${formatFrequency(e.degFrequency)} (tolerance ${c.tolerance.db} dB, ${c.tolerance.deg}°)`;
+          : `Δ|S| ${Number.isNaN(e.dbFrequency) ? 'not judged' : `${e.db.toFixed(4)} dB at ${formatFrequency(e.dbFrequency)}`}, Δ∠ ${Number.isNaN(e.degFrequency) ? 'not judged' : `${e.deg.toFixed(3)}° at ${formatFrequency(e.degFrequency)}`} (tolerance ${c.tolerance.db} dB, ${c.tolerance.deg}°; not judged below ${c.tolerance.floorDb} dB)`;
       return { name, failure: { message: `${name} deviates from ${file}: ${detail}`, detail } };
     }),
   };

@@ -822,13 +822,18 @@ function unitHelp(unit: string | null): string | undefined {
   return `give ${describeUnit(unit)}${ex ? `, ${ex}` : ''}; a bare number is read in ${unit}`;
 }
 
-const SI_UNITS = ['ohm', 'S', 'F', 'H', 'Hz', 's', 'm', 'rad'];
+const SI_UNITS = ['ohm', 'S', 'F', 'H', 'Hz', 's', 'm', 'rad', 'dB', 'dB/m'];
 
 function siOf(q: Quantity): { value: number; unit: string } {
   if (typeof q === 'number') return { value: q, unit: '' };
   for (const u of SI_UNITS) if (q.equalBase(math.unit(1, u))) return { value: q.toNumber(u), unit: u };
-  const si = q.toSI();
-  return { value: (si as unknown as { value: number }).value, unit: si.formatUnits() };
+  try {
+    const si = q.toSI();
+    return { value: (si as unknown as { value: number }).value, unit: si.formatUnits() };
+  } catch {
+    // units of our own (dB) have no SI form
+    return { value: (q as unknown as { value: number }).value, unit: q.formatUnits() };
+  }
 }
 
 export type { Arg };

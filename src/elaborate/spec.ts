@@ -86,7 +86,7 @@ export function elaborateSpec(
   }
   const limits: number[] = [];
   for (const e of limArg.values) {
-    const v = numberOf({ ...limArg, values: [e] }, limitUnit(unit), unit === '' ? 'plain number' : `value in ${unit}`);
+    const v = numberOf({ ...limArg, values: [e] }, limitUnit(unit), 'limit');
     if (v === undefined) return undefined;
     limits.push(v);
   }
