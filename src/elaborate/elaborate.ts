@@ -1,7 +1,7 @@
 import type { Arg, Expr, KeyArg, NetlistAst, Statement } from '../ast/ast.js';
 import { DiagnosticBag, type SourceSpan } from '../diagnostics/diagnostic.js';
 import { closest, didYouMean } from '../diagnostics/suggest.js';
-import { ELEMENTS } from '../elements/registry.js';
+import { ELEMENTS, joinedNodes } from '../elements/registry.js';
 import { GROUND, GROUND_NAME, type ElementInstance, type PropertySpec, type TerminalSpec } from '../elements/types.js';
 import type { NetworkData } from '../network/types.js';
 import type { Circuit, ParameterValue, Port } from './circuit.js';
@@ -655,7 +655,7 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
   // flow to ground from it; a group with neither ground nor a port is a mistake.
   const localReferences: number[] = [];
   const portNodes = new Set(portList.flatMap((p) => [p.plus, p.minus]));
-  const links = [...elements.map((e) => e.nodes), ...portList.map((p) => [p.plus, p.minus])];
+  const links = [...elements.flatMap((e) => joinedNodes(e)), ...portList.map((p) => [p.plus, p.minus])];
   for (const group of bag.hasErrors ? [] : floatingGroups(nodeNames.length, links)) {
     if (group.some((n) => portNodes.has(n))) {
       localReferences.push(group[0]!);

@@ -9,6 +9,10 @@ import { transconductance } from './transconductance.js';
 import { transformer } from './transformer.js';
 import { transresistance } from './transresistance.js';
 import { voltageGain } from './voltage-gain.js';
+import { coupledLines } from './coupled-lines.js';
+import { line } from './line.js';
+import { microstrip } from './microstrip.js';
+import { openStub, shortStub } from './stub.js';
 import type { ElementType } from './types.js';
 
 /** Every element type, by keyword. Adding an element: write its file, add one line here. */
@@ -19,6 +23,14 @@ const TYPES: ElementType[] = [
   inductor,
   transformer, gyrator, transconductance, voltageGain, currentGain, transresistance,
   datafile,
+  line, openStub, shortStub, coupledLines, microstrip,
 ];
 
 export const ELEMENTS: ReadonlyMap<string, ElementType> = new Map(TYPES.map((e) => [e.keyword, e]));
+
+/** The node groups an element joins (see ElementType.connections): lists of node indices. */
+export function joinedNodes(el: { type: string; nodes: readonly number[] }): number[][] {
+  const groups = ELEMENTS.get(el.type)?.connections;
+  if (!groups) return [el.nodes.slice()];
+  return groups.map((g) => g.map((t) => el.nodes[t]!));
+}

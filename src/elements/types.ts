@@ -109,6 +109,12 @@ export interface ElementType {
   /** Cross-property rules (e.g. two loss forms given at once); report problems through `fail`. */
   validate?(el: ElementInstance, fail: (message: string, key?: string, help?: string) => void): void;
   /**
+   * Which of its terminals the element joins, as groups of indices into its terminals — used to
+   * find node groups with no path to ground (a transformer joins p1–p2 and s1–s2 but not one
+   * winding to the other). Absent means every terminal is joined to every other.
+   */
+  connections?: readonly (readonly number[])[];
+  /**
    * Whether the element conducts nothing between its terminals at angular frequency `omega`
    * (a capacitor at 0 Hz). Used only to explain a singular system; absent means "never open".
    */

@@ -1,6 +1,6 @@
 import type { Circuit } from '../elaborate/circuit.js';
 import { NodeSets } from '../elaborate/islands.js';
-import { ELEMENTS } from '../elements/registry.js';
+import { ELEMENTS, joinedNodes } from '../elements/registry.js';
 import { GROUND } from '../elements/types.js';
 import { createLu, luFactor, luSolve, rcondEstimate, LU_OK, type LuFactors } from '../network/complex.js';
 import type { NetworkData } from '../network/types.js';
@@ -193,7 +193,7 @@ function explainSingular(circuit: Circuit, plan: StampPlan, f: number, pivot: nu
       opened.push(el.name);
       continue;
     }
-    for (let t = 1; t < el.nodes.length; t++) sets.join(el.nodes[0]!, el.nodes[t]!);
+    for (const g of joinedNodes(el)) for (let t = 1; t < g.length; t++) sets.join(g[0]!, g[t]!);
   }
   for (const p of circuit.ports) sets.join(p.plus, p.minus);
   const floating = circuit.nodeNames.filter((_, i) => !sets.grounded(i));
