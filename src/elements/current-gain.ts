@@ -18,6 +18,8 @@ export const currentGain: ElementType = {
     { key: 'sp', doc: 'sense branch, where i_s enters' },
     { key: 'sn', doc: 'sense branch, where i_s leaves', defaultNode: 'ground' },
   ],
+  // the sense branch is a short from sp to sn; the output is an ideal current source and joins nothing
+  connections: [[2, 3]],
   properties: [
     { key: 'gain', unit: null, quantity: 'current gain', required: true, doc: 'current gain i_out/i_s' },
   ],

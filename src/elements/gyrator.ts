@@ -25,6 +25,8 @@ export const gyrator: ElementType = {
     { key: 'b1', doc: 'side b, plus' },
     { key: 'b2', doc: 'side b, minus', defaultNode: 'ground' },
   ],
+  // each side joins its own two terminals (no net current flows from one side to the other)
+  connections: [[0, 1], [2, 3]],
   properties: [
     { key: 'r', unit: 'ohm', quantity: 'resistance', required: true, sign: 'nonzero', doc: 'gyration resistance' },
   ],

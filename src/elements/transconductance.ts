@@ -32,6 +32,8 @@ export const transconductance: ElementType = {
     { key: 'cp', doc: 'control voltage, plus side' },
     { key: 'cn', doc: 'control voltage, minus side', defaultNode: 'ground' },
   ],
+  // joins nothing: the output is an ideal current source and the control draws no current
+  connections: [],
   properties: [
     { key: 'gm', unit: 'S', quantity: 'transconductance', required: true, doc: 'transconductance' },
     { key: 'delay', unit: 's', quantity: 'time', defaultValue: 0, sign: 'nonnegative', doc: 'transit time τ: the transconductance is gm·e^(−jωτ)' },

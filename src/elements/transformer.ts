@@ -24,6 +24,8 @@ export const transformer: ElementType = {
     { key: 's1', doc: 'secondary, dotted end' },
     { key: 's2', doc: 'secondary, other end', defaultNode: 'ground' },
   ],
+  // each winding joins its own two ends; the windings are not joined to each other
+  connections: [[0, 1], [2, 3]],
   properties: [
     { key: 'ratio', unit: null, quantity: 'turns ratio', required: true, sign: 'nonzero', doc: 'turns ratio n = Np/Ns, v(p1,p2) = n·v(s1,s2)' },
   ],

@@ -19,6 +19,8 @@ export const transresistance: ElementType = {
     { key: 'sp', doc: 'sense branch, where i_s enters' },
     { key: 'sn', doc: 'sense branch, where i_s leaves', defaultNode: 'ground' },
   ],
+  // the output sets v(p,n) and the sense branch is a short from sp to sn
+  connections: [[0, 1], [2, 3]],
   properties: [
     { key: 'r', unit: 'ohm', quantity: 'resistance', required: true, doc: 'transresistance v(p,n)/i_s' },
   ],

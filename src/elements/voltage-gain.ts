@@ -17,6 +17,8 @@ export const voltageGain: ElementType = {
     { key: 'cp', doc: 'control voltage, plus side' },
     { key: 'cn', doc: 'control voltage, minus side', defaultNode: 'ground' },
   ],
+  // the output sets v(p,n); the control terminals draw no current and join nothing
+  connections: [[0, 1]],
   properties: [
     { key: 'gain', unit: null, quantity: 'voltage gain', required: true, doc: 'voltage gain v(p,n)/v(cp,cn)' },
   ],
