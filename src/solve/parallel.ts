@@ -46,8 +46,8 @@ export async function solveSweepParallel(circuit: Circuit, options: ParallelOpti
     const parts = (await Promise.all(
       shares.map((f) =>
         pool
-          .run({ circuit, frequencies: f })
-          .catch(() => solveSweep(circuit, { frequencies: f }).values)
+          .run({ circuit, frequencies: f, pivotFrequency: freqs[0]! })
+          .catch(() => solveSweep(circuit, { frequencies: f, pivotFrequency: freqs[0]! }).values)
           .then((v: Float64Array) => {
             done += f.length;
             options.onProgress?.(done, freqs.length);

@@ -2,7 +2,17 @@ import type { Circuit } from '../elaborate/circuit.js';
 import { NodeSets } from '../elaborate/islands.js';
 import { ELEMENTS, joinedNodes } from '../elements/registry.js';
 import { GROUND } from '../elements/types.js';
-import { createLu, luFactor, luSolve, rcondEstimate, LU_OK, type LuFactors } from '../network/complex.js';
+import { createLu, luFactor, luSolve, rcondEstimate, LU_OK } from '../network/complex.js';
+import {
+  analyse,
+  createFactor,
+  factor as sparseFactor,
+  NEEDS_PIVOTING,
+  OK as SPARSE_OK,
+  reciprocalCondition,
+  refactor as sparseRefactor,
+  solve as sparseSolve,
+} from './sparse/index.js';
 import type { NetworkData } from '../network/types.js';
 import { buildPlan, type StampPlan } from '../plan/plan.js';
 
@@ -24,7 +34,108 @@ export class SingularSystemError extends Error {
   }
 }
 
+/** Which linear solver the sweep uses. */
+export type SolverChoice = 'auto' | 'dense' | 'sparse';
+
+/** Up to this many unknowns the dense LU is used (it is faster for small systems). */
+export const DENSE_MAX_UNKNOWNS = 48;
+/** …and above this fill of the pattern (slots / n²) too, e.g. around many-port data blocks. */
+export const DENSE_MIN_FILL = 0.2;
+
+/** The solver `auto` picks for a plan: dense for small or dense systems, sparse otherwise. */
+export function chooseSolver(plan: StampPlan, choice: SolverChoice = 'auto'): 'dense' | 'sparse' {
+  if (choice !== 'auto') return choice;
+  const n = plan.size;
+  return n <= DENSE_MAX_UNKNOWNS || plan.slotRow.length / (n * n) >= DENSE_MIN_FILL ? 'dense' : 'sparse';
+}
+
+/** One factor-and-solve engine over the slot values of a plan; allocated once per sweep. */
+interface LinearEngine {
+  /** Factors the matrix held in the slot values; returns -1 on success, else the unknown to blame (or -2: ill-conditioned). */
+  factor(vals: Float64Array): number;
+  solve(rhs: Float64Array, x: Float64Array, nrhs: number): void;
+  /** For explaining a failure: a solve with the last (ill-conditioned) factors, or undefined. */
+  nullDirection(): Float64Array | undefined;
+}
+
+function denseEngine(plan: StampPlan): LinearEngine {
+  const n = plan.size;
+  const nSlots = plan.slotRow.length;
+  const pos = new Int32Array(nSlots);
+  for (let s = 0; s < nSlots; s++) pos[s] = 2 * (plan.slotRow[s]! * n + plan.slotCol[s]!);
+  const a = new Float64Array(2 * n * n);
+  const lu = createLu(n);
+  return {
+    factor(vals) {
+      a.fill(0);
+      for (let s = 0; s < nSlots; s++) {
+        const q = pos[s]!;
+        a[q] += vals[2 * s]!;
+        a[q + 1] += vals[2 * s + 1]!;
+      }
+      const status = luFactor(n, a, lu, 0);
+      if (status !== LU_OK) return status;
+      return rcondEstimate(lu) < SINGULAR_RCOND ? -2 : -1;
+    },
+    solve(rhs, x, nrhs) {
+      luSolve(lu, rhs, x, nrhs);
+    },
+    nullDirection() {
+      if (lu.status !== LU_OK) return undefined;
+      const b = new Float64Array(2 * n);
+      for (let i = 0; i < n; i++) b[2 * i] = 1 + i / n;
+      return luSolve(lu, b, new Float64Array(2 * n), 1);
+    },
+  };
+}
+
+/**
+ * The sparse engine. Its pivot order is fixed once, by a pivoting factorisation at one reference
+ * frequency; every point then refactors in that order, and a point where a pivot collapses gets a
+ * fresh pivoting factorisation of its own (in a second factor, so the reference order stays).
+ * Each point's result therefore depends only on its own values and the reference — not on which
+ * points were solved before it — which keeps parallel sweeps bit-identical to one thread.
+ */
+function sparseEngine(plan: StampPlan, reference: Float64Array | undefined): LinearEngine {
+  const n = plan.size;
+  const pattern = analyse(n, plan.slotRow, plan.slotCol);
+  const main = createFactor(pattern);
+  let scratch: ReturnType<typeof createFactor> | undefined;
+  let used = main;
+  if (reference) sparseFactor(main, reference);
+  return {
+    factor(vals) {
+      used = main;
+      let status = sparseRefactor(main, vals);
+      if (status === NEEDS_PIVOTING) {
+        scratch ??= createFactor(pattern);
+        used = scratch;
+        status = sparseFactor(scratch, vals);
+      }
+      if (status !== SPARSE_OK) return used.failColumn >= 0 ? used.failColumn : n;
+      return reciprocalCondition(used) < SINGULAR_RCOND ? -2 : -1;
+    },
+    solve(rhs, x, nrhs) {
+      sparseSolve(used, rhs, x, nrhs);
+    },
+    nullDirection() {
+      const b = new Float64Array(2 * n);
+      for (let i = 0; i < n; i++) b[2 * i] = 1 + i / n;
+      const x = new Float64Array(2 * n);
+      sparseSolve(used, b, x, 1);
+      return x;
+    },
+  };
+}
+
 export interface SweepOptions {
+  /** The linear solver: `auto` (default) picks dense for small or dense systems, sparse otherwise. */
+  solver?: SolverChoice;
+  /**
+   * The frequency (Hz) whose factorisation fixes the sparse solver's pivot order (default: the
+   * first of the sweep). The shares of a parallel sweep all pass the whole sweep's first.
+   */
+  pivotFrequency?: number;
   /** Frequencies in Hz (default: the circuit's sweep). */
   frequencies?: Float64Array;
   /** A plan built earlier for the same circuit. */
@@ -54,10 +165,18 @@ export function solveSweep(circuit: Circuit, options: SweepOptions = {}): Networ
   const p = plan.portPlus.length;
   const nSlots = plan.slotRow.length;
   const vals = new Float64Array(2 * nSlots);
-  const pos = new Int32Array(nSlots);
-  for (let s = 0; s < nSlots; s++) pos[s] = 2 * (plan.slotRow[s]! * n + plan.slotCol[s]!);
-  const a = new Float64Array(2 * n * n);
-  const lu = createLu(n);
+  const stampers = plan.stampers;
+  let engine: LinearEngine;
+  if (chooseSolver(plan, options.solver) === 'dense') engine = denseEngine(plan);
+  else {
+    const f0 = options.pivotFrequency ?? freqs[0];
+    let reference: Float64Array | undefined;
+    if (f0 !== undefined) {
+      reference = new Float64Array(2 * nSlots);
+      for (let e = 0; e < stampers.length; e++) stampers[e]!(2 * Math.PI * f0, reference);
+    }
+    engine = sparseEngine(plan, reference);
+  }
   const rhs = new Float64Array(2 * n * p);
   const x = new Float64Array(2 * n * p);
   const sqrtRef = plan.portReference.map(Math.sqrt);
@@ -78,7 +197,6 @@ export function solveSweep(circuit: Circuit, options: SweepOptions = {}): Networ
     di[i] = (-2 * r * x) / m;
   }
   const out = new Float64Array(2 * p * p * freqs.length);
-  const stampers = plan.stampers;
 
   // Right-hand sides are the same at every frequency.
   for (let j = 0; j < p; j++) {
@@ -101,17 +219,9 @@ export function solveSweep(circuit: Circuit, options: SweepOptions = {}): Networ
     const omega = 2 * Math.PI * freqs[k]!;
     vals.fill(0);
     for (let e = 0; e < stampers.length; e++) stampers[e]!(omega, vals);
-    a.fill(0);
-    for (let s = 0; s < nSlots; s++) {
-      const q = pos[s]!;
-      a[q] += vals[2 * s]!;
-      a[q + 1] += vals[2 * s + 1]!;
-    }
-    const status = luFactor(n, a, lu, 0);
-    if (status !== LU_OK || rcondEstimate(lu) < SINGULAR_RCOND) {
-      throw explainSingular(circuit, plan, freqs[k]!, status, lu);
-    }
-    luSolve(lu, rhs, x, p);
+    const status = engine.factor(vals);
+    if (status !== -1) throw explainSingular(circuit, plan, freqs[k]!, status >= 0 ? status : -1, engine);
+    engine.solve(rhs, x, p);
     const base = 2 * p * p * k;
     for (let i = 0; i < p; i++) {
       const pl = plan.portPlus[i]!;
@@ -182,7 +292,7 @@ function formatHz(f: number): string {
  * conduct at this frequency (a node between capacitors at 0 Hz, say); failing that, the unknown
  * at which elimination broke down.
  */
-function explainSingular(circuit: Circuit, plan: StampPlan, f: number, pivot: number, lu: LuFactors): SingularSystemError {
+function explainSingular(circuit: Circuit, plan: StampPlan, f: number, pivot: number, engine: LinearEngine): SingularSystemError {
   const omega = 2 * Math.PI * f;
   const sets = new NodeSets(circuit.nodeNames.length);
   for (const r of circuit.localReferences) sets.join(r, GROUND);
@@ -211,14 +321,12 @@ function explainSingular(circuit: Circuit, plan: StampPlan, f: number, pivot: nu
     );
   }
   const blamed: number[] = [];
-  if (pivot >= 0) blamed.push(pivot);
-  else {
+  const x = pivot >= 0 ? undefined : engine.nullDirection();
+  if (pivot >= 0 && pivot < plan.size) blamed.push(pivot);
+  else if (x) {
     // Factored, but ill-conditioned: a solve amplifies the near-null direction, and the unknowns
     // that carry it are the ones left undetermined.
     const n = plan.size;
-    const b = new Float64Array(2 * n);
-    for (let i = 0; i < n; i++) b[2 * i] = 1 + i / n;
-    const x = luSolve(lu, b, new Float64Array(2 * n), 1);
     let max = 0;
     for (let i = 0; i < n; i++) max = Math.max(max, Math.hypot(x[2 * i]!, x[2 * i + 1]!));
     for (let i = 0; i < n; i++) if (Math.hypot(x[2 * i]!, x[2 * i + 1]!) >= 0.3 * max) blamed.push(i);

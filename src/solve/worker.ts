@@ -8,8 +8,10 @@ import { solveSweep } from './sweep.js';
 export interface SweepTask {
   circuit: Circuit;
   frequencies: Float64Array;
+  /** The whole sweep's first frequency: fixes the sparse pivot order the same in every share. */
+  pivotFrequency: number;
 }
 
 export default function solveShare(task: SweepTask): Float64Array {
-  return solveSweep(task.circuit, { frequencies: task.frequencies }).values;
+  return solveSweep(task.circuit, { frequencies: task.frequencies, pivotFrequency: task.pivotFrequency }).values;
 }

@@ -81,25 +81,32 @@ export function approximateMinimumDegree(n: number, adjStart: Int32Array, adj: I
   const hashNext = new Int32Array(n);
   const saved = new Int32Array(n);
 
-  // degree buckets: doubly linked lists
+  // Degree buckets: doubly linked lists, first in first out. Ties between variables of equal degree
+  // go to the one waiting longest; on a chain this eliminates from both ends in turn (two
+  // independent elimination chains instead of one long one, which halves the dependency depth of
+  // factor and solve), and the fill is the same.
   const bucketHead = new Int32Array(n + 1).fill(-1);
+  const bucketTail = new Int32Array(n + 1).fill(-1);
   const next = new Int32Array(n).fill(-1);
   const prev = new Int32Array(n).fill(-1);
   let minDeg = 0;
   const insert = (i: number, d: number): void => {
-    const h = bucketHead[d]!;
-    next[i] = h;
-    prev[i] = -1;
-    if (h >= 0) prev[h] = i;
-    bucketHead[d] = i;
+    const t = bucketTail[d]!;
+    prev[i] = t;
+    next[i] = -1;
+    if (t >= 0) next[t] = i;
+    else bucketHead[d] = i;
+    bucketTail[d] = i;
     if (d < minDeg) minDeg = d;
   };
   const remove = (i: number): void => {
     const a = prev[i]!;
     const b = next[i]!;
+    const d = degree[i]!;
     if (a >= 0) next[a] = b;
-    else bucketHead[degree[i]!] = b;
+    else bucketHead[d] = b;
     if (b >= 0) prev[b] = a;
+    else bucketTail[d] = a;
     next[i] = -1;
     prev[i] = -1;
   };

@@ -1,0 +1,149 @@
+/**
+ * Condition estimate for a sparse factorisation: rcond = 1 / (‖A‖₁ · est ‖A⁻¹‖₁).
+ *
+ * ‖A⁻¹‖₁ is estimated by the 1-norm estimator of W. W. Hager ("Condition estimates", SIAM J. Sci.
+ * Stat. Comput. 5(2), 1984) in the form N. J. Higham gives for complex matrices ("FORTRAN codes for
+ * estimating the one-norm of a real or complex matrix, with applications to condition estimation",
+ * ACM TOMS 14(4), 1988), steps as recalled (from memory):
+ *   v = A⁻¹(e/n), γ = ‖v‖₁; ξ = sign(v) (ξ_i = v_i/|v_i|, 1 where v_i = 0); z = A⁻ᴴξ;
+ *   repeat (at most 4 more times): j = argmax_i |z_i|; v = A⁻¹e_j; stop if ‖v‖₁ ≤ γ; γ = ‖v‖₁;
+ *   ξ = sign(v); z = A⁻ᴴξ; stop if |z_j| = max_i |z_i|;
+ *   finally γ = max(γ, 2‖A⁻¹t‖₁/(3n)) with t_i = (−1)^i (1 + i/(n−1)).
+ * Each value taken is ‖A⁻¹y‖₁/‖y‖₁ for some y, so the estimate never exceeds ‖A⁻¹‖₁ and rcond never
+ * falls below the true 1/κ₁(A).
+ *
+ * Costs about five solves with one right-hand side. No allocation.
+ *
+ * @module
+ */
+
+import type { SparseFactor } from './factor.js';
+import { solve, solveConjTransposed } from './solve.js';
+
+/** ‖A‖₁ (largest column sum of moduli) of the matrix last factored, from the stored slot values. */
+export function matrixNorm1(f: SparseFactor): number {
+  const pat = f.pattern;
+  const n = f.n;
+  const colStart = pat.colStart;
+  const entryRow = pat.entryRow;
+  const entrySlot = pat.entrySlot;
+  const v = f.values;
+  const x = f.x; // clean between factorisations; used as an accumulator and cleaned again
+  let best = 0;
+  for (let j = 0; j < n; j++) {
+    const a0 = colStart[j]!;
+    const a1 = colStart[j + 1]!;
+    for (let p = a0; p < a1; p++) {
+      const r2 = 2 * entryRow[p]!;
+      const s2 = 2 * entrySlot[p]!;
+      x[r2] += v[s2]!;
+      x[r2 + 1] += v[s2 + 1]!;
+    }
+    let sum = 0;
+    for (let p = a0; p < a1; p++) {
+      const r2 = 2 * entryRow[p]!;
+      const re = x[r2]!;
+      const im = x[r2 + 1]!;
+      sum += Math.sqrt(re * re + im * im);
+      x[r2] = 0;
+      x[r2 + 1] = 0;
+    }
+    if (sum > best || Number.isNaN(sum)) best = sum;
+  }
+  return best;
+}
+
+/**
+ * Lower estimate of ‖A⁻¹‖₁ (see the module comment). Infinity when `f` holds no successful
+ * factorisation or the solves overflow.
+ */
+export function inverseNorm1Estimate(f: SparseFactor): number {
+  const n = f.n;
+  if (!f.valid) return Infinity;
+  if (n === 0) return 0;
+  const v = f.est1;
+  const z = f.est2;
+  for (let i = 0; i < n; i++) {
+    v[2 * i] = 1 / n;
+    v[2 * i + 1] = 0;
+  }
+  solve(f, v, v, 1);
+  let gamma = norm1(n, v);
+  if (n === 1) return Number.isFinite(gamma) ? gamma : Infinity;
+  signOf(n, v, z);
+  solveConjTransposed(f, z, z);
+  for (let iter = 2; iter <= 5; iter++) {
+    const j = argMaxAbs(n, z);
+    v.fill(0);
+    v[2 * j] = 1;
+    solve(f, v, v, 1);
+    const g = norm1(n, v);
+    if (!(g > gamma)) break;
+    gamma = g;
+    signOf(n, v, z);
+    solveConjTransposed(f, z, z);
+    const jNew = argMaxAbs(n, z);
+    if (Math.hypot(z[2 * j]!, z[2 * j + 1]!) >= Math.hypot(z[2 * jNew]!, z[2 * jNew + 1]!)) break;
+  }
+  for (let i = 0; i < n; i++) {
+    v[2 * i] = (i % 2 === 0 ? 1 : -1) * (1 + i / (n - 1));
+    v[2 * i + 1] = 0;
+  }
+  solve(f, v, v, 1);
+  const alt = (2 * norm1(n, v)) / (3 * n);
+  if (alt > gamma) gamma = alt;
+  return Number.isFinite(gamma) ? gamma : Infinity;
+}
+
+/**
+ * Reciprocal condition number estimate in the 1-norm, 1/(‖A‖₁·est‖A⁻¹‖₁), an upper estimate of the
+ * true 1/κ₁(A) (never below it). 0 for a failed factorisation, a zero matrix, or overflow.
+ */
+export function reciprocalCondition(f: SparseFactor): number {
+  if (!f.valid) return 0;
+  if (f.n === 0) return 1;
+  const a = matrixNorm1(f);
+  if (!(a > 0) || !Number.isFinite(a)) return 0;
+  const est = inverseNorm1Estimate(f);
+  if (!(est > 0) || !Number.isFinite(est)) return 0;
+  const r = 1 / (a * est);
+  return Number.isFinite(r) ? r : 0;
+}
+
+function norm1(n: number, v: Float64Array): number {
+  let s = 0;
+  for (let i = 0; i < n; i++) {
+    const re = v[2 * i]!;
+    const im = v[2 * i + 1]!;
+    s += Math.sqrt(re * re + im * im);
+  }
+  return s;
+}
+
+function signOf(n: number, v: Float64Array, out: Float64Array): void {
+  for (let i = 0; i < n; i++) {
+    const r = Math.hypot(v[2 * i]!, v[2 * i + 1]!);
+    if (r > 0) {
+      out[2 * i] = v[2 * i]! / r;
+      out[2 * i + 1] = v[2 * i + 1]! / r;
+    } else {
+      out[2 * i] = 1;
+      out[2 * i + 1] = 0;
+    }
+  }
+}
+
+function argMaxAbs(n: number, v: Float64Array): number {
+  let j = 0;
+  let best = -1;
+  for (let i = 0; i < n; i++) {
+    const re = v[2 * i]!;
+    const im = v[2 * i + 1]!;
+    const m = re * re + im * im;
+    if (m > best) {
+      best = m;
+      j = i;
+    }
+  }
+  return j;
+}

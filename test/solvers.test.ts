@@ -1,0 +1,79 @@
+// The sparse and dense paths of the sweep agree on random circuits (to 1e-10), including
+// elements with branch unknowns, one-sided stamps (controlled sources) and data-free ideal parts.
+import fc from 'fast-check';
+import { describe, expect, it } from 'vitest';
+import { loadNetlist } from '../src/load.js';
+import { buildPlan } from '../src/plan/plan.js';
+import { chooseSolver, solveSweep } from '../src/solve/sweep.js';
+
+/** A random connected circuit: a spanning tree to ground plus extra parts, of every lumped kind and a few active ones. */
+const circuitText = fc
+  .record({
+    nodes: fc.integer({ min: 2, max: 40 }),
+    extra: fc.array(fc.tuple(fc.nat(), fc.nat(), fc.constantFrom('r', 'l', 'c', 'g', 'gm', 'tl'), fc.double({ min: 0, max: 1, noNaN: true })), { maxLength: 60 }),
+    tree: fc.array(fc.tuple(fc.nat(), fc.constantFrom('r', 'l', 'c')), { minLength: 40, maxLength: 40 }),
+    ports: fc.integer({ min: 1, max: 4 }),
+    f: fc.double({ min: 1e6, max: 3e9, noNaN: true }),
+  })
+  .map(({ nodes, extra, tree, ports, f }) => {
+    const node = (i: number) => (i < 0 ? 'ground' : `n${i}`);
+    const lines: string[] = [];
+    let k = 0;
+    const part = (kind: string, a: string, b: string, u: number) => {
+      const name = `${kind}${k++}`;
+      switch (kind) {
+        case 'r':
+          return `resistor ${name} a=${a} b=${b} value=${(10 * Math.pow(100, u)).toPrecision(6)} ohm`;
+        case 'l':
+          return `inductor ${name} a=${a} b=${b} value=${(1 * Math.pow(1000, u)).toPrecision(6)} nH q=50 at 1 GHz`;
+        case 'c':
+          return `capacitor ${name} a=${a} b=${b} value=${(0.1 * Math.pow(1000, u)).toPrecision(6)} pF esr=0.2 ohm`;
+        case 'g':
+          return `conductance ${name} a=${a} b=${b} value=${(1 * Math.pow(100, u)).toPrecision(6)} mS`;
+        case 'gm':
+          return `transconductance ${name} p=${a} n=${b} cp=${b} cn=ground gm=${(1 + 20 * u).toPrecision(4)} mS`;
+        default:
+          return `line ${name} a=${a} b=${b} z0=${(30 + 70 * u).toPrecision(4)} ohm theta=${(10 + 170 * u).toPrecision(4)} deg at 1 GHz`;
+      }
+    };
+    for (let i = 0; i < nodes; i++) {
+      const [to, kind] = tree[i]!;
+      lines.push(part(kind, node(i), node(i === 0 ? -1 : to % i === 0 ? -1 : (to % i) - 1), (to % 97) / 97));
+      lines.push(`resistor rg${i} a=${node(i)} b=ground value=${1000 + i} ohm`);
+    }
+    for (const [a, b, kind, u] of extra) {
+      const na = a % nodes;
+      const nb = b % (nodes + 1) - 1;
+      if (na === nb) continue;
+      lines.push(part(kind, node(na), node(nb), u));
+    }
+    for (let p = 0; p < Math.min(ports, nodes); p++) lines.push(`port ${p + 1} plus=${node(p)} ref=${50 + 10 * p} ohm`);
+    lines.push(`sweep list freqs=${f.toPrecision(8)} Hz, ${(f * 1.37).toPrecision(8)} Hz`);
+    return lines.join('\n') + '\n';
+  });
+
+describe('sparse and dense paths', () => {
+  it('agree to 1e-10 on random circuits (fast-check, fixed seed)', () => {
+    fc.assert(
+      fc.property(circuitText, (text) => {
+        const { circuit } = loadNetlist(text, 'random.sbx');
+        const dense = solveSweep(circuit, { solver: 'dense' });
+        const sparse = solveSweep(circuit, { solver: 'sparse' });
+        let scale = 1;
+        for (const v of dense.values) scale = Math.max(scale, Math.abs(v));
+        for (let i = 0; i < dense.values.length; i++) {
+          expect(Math.abs(dense.values[i]! - sparse.values[i]!)).toBeLessThanOrEqual(1e-10 * scale);
+        }
+      }),
+      { numRuns: 150, seed: 20261201 },
+    );
+  });
+
+  it('auto picks dense for small systems and sparse for large sparse ones', () => {
+    const small = loadNetlist('resistor r a=a b=ground value=50 ohm\nport 1 plus=a\nsweep list freqs=1 GHz\n', 's.sbx').circuit;
+    expect(chooseSolver(buildPlan(small))).toBe('dense');
+    const rows = ['port 1 plus=n0', 'sweep list freqs=1 GHz'];
+    for (let i = 0; i < 200; i++) rows.push(`inductor l${i} a=n${i} b=n${i + 1} value=1 nH`, `capacitor c${i} a=n${i + 1} b=ground value=1 pF`);
+    expect(chooseSolver(buildPlan(loadNetlist(rows.join('\n'), 'big.sbx').circuit))).toBe('sparse');
+  });
+});
