@@ -18,6 +18,13 @@ import { buildPlan, type StampPlan } from '../plan/plan.js';
 
 /** Reciprocal condition number below which a system counts as singular to working precision. */
 export const SINGULAR_RCOND = 1e-15;
+/** …and below which the sweep warns that results may have lost digits. */
+export const WARN_RCOND = 1e-11;
+/**
+ * The sparse path estimates the condition number only where the pivots spread over more than
+ * this ratio (smallest / largest |pivot|): the estimate costs several solves, the spread one pass.
+ */
+export const PIVOT_SPREAD_CHECK = 1e-9;
 
 /** The nodal system has no unique solution at some frequency (a floating node, say). */
 export class SingularSystemError extends Error {
@@ -53,6 +60,8 @@ export function chooseSolver(plan: StampPlan, choice: SolverChoice = 'auto'): 'd
 interface LinearEngine {
   /** Factors the matrix held in the slot values; returns -1 on success, else the unknown to blame (or -2: ill-conditioned). */
   factor(vals: Float64Array): number;
+  /** The condition estimate of the last factorisation, where it was computed (else NaN). */
+  lastRcond: number;
   solve(rhs: Float64Array, x: Float64Array, nrhs: number): void;
   /** For explaining a failure: a solve with the last (ill-conditioned) factors, or undefined. */
   nullDirection(): Float64Array | undefined;
@@ -66,6 +75,7 @@ function denseEngine(plan: StampPlan): LinearEngine {
   const a = new Float64Array(2 * n * n);
   const lu = createLu(n);
   return {
+    lastRcond: NaN,
     factor(vals) {
       a.fill(0);
       for (let s = 0; s < nSlots; s++) {
@@ -75,7 +85,8 @@ function denseEngine(plan: StampPlan): LinearEngine {
       }
       const status = luFactor(n, a, lu, 0);
       if (status !== LU_OK) return status;
-      return rcondEstimate(lu) < SINGULAR_RCOND ? -2 : -1;
+      this.lastRcond = rcondEstimate(lu);
+      return this.lastRcond < SINGULAR_RCOND ? -2 : -1;
     },
     solve(rhs, x, nrhs) {
       luSolve(lu, rhs, x, nrhs);
@@ -104,8 +115,10 @@ function sparseEngine(plan: StampPlan, reference: Float64Array | undefined): Lin
   let used = main;
   if (reference) sparseFactor(main, reference);
   return {
+    lastRcond: NaN,
     factor(vals) {
       used = main;
+      this.lastRcond = NaN;
       let status = sparseRefactor(main, vals);
       if (status === NEEDS_PIVOTING) {
         scratch ??= createFactor(pattern);
@@ -113,7 +126,20 @@ function sparseEngine(plan: StampPlan, reference: Float64Array | undefined): Lin
         status = sparseFactor(scratch, vals);
       }
       if (status !== SPARSE_OK) return used.failColumn >= 0 ? used.failColumn : n;
-      return reciprocalCondition(used) < SINGULAR_RCOND ? -2 : -1;
+      // spread of the pivots: one pass; the condition estimate only where it is wide
+      const lu = used.lu;
+      const dp = used.diagPos;
+      let lo = Infinity;
+      let hi = 0;
+      for (let j = 0; j < n; j++) {
+        const q = 2 * dp[j]!;
+        const m = Math.abs(lu[q]!) + Math.abs(lu[q + 1]!);
+        if (m < lo) lo = m;
+        if (m > hi) hi = m;
+      }
+      if (lo >= PIVOT_SPREAD_CHECK * hi) return -1;
+      this.lastRcond = reciprocalCondition(used);
+      return this.lastRcond < SINGULAR_RCOND ? -2 : -1;
     },
     solve(rhs, x, nrhs) {
       sparseSolve(used, rhs, x, nrhs);
@@ -142,6 +168,8 @@ export interface SweepOptions {
   plan?: StampPlan;
   /** Called after each solved frequency point with the number done and the total. */
   onProgress?: (done: number, total: number) => void;
+  /** Called once at the end of a sweep whose system came close to singular (see {@link WARN_RCOND}). */
+  onWarning?: (message: string, frequency: number, rcond: number) => void;
 }
 
 /**
@@ -215,12 +243,18 @@ export function solveSweep(circuit: Circuit, options: SweepOptions = {}): Networ
     }
   }
 
+  let worstRcond = WARN_RCOND;
+  let worstAt = NaN;
   for (let k = 0; k < freqs.length; k++) {
     const omega = 2 * Math.PI * freqs[k]!;
     vals.fill(0);
     for (let e = 0; e < stampers.length; e++) stampers[e]!(omega, vals);
     const status = engine.factor(vals);
     if (status !== -1) throw explainSingular(circuit, plan, freqs[k]!, status >= 0 ? status : -1, engine);
+    if (engine.lastRcond < worstRcond) {
+      worstRcond = engine.lastRcond;
+      worstAt = freqs[k]!;
+    }
     engine.solve(rhs, x, p);
     const base = 2 * p * p * k;
     for (let i = 0; i < p; i++) {
@@ -245,6 +279,9 @@ export function solveSweep(circuit: Circuit, options: SweepOptions = {}): Networ
       }
     }
     options.onProgress?.(k + 1, freqs.length);
+  }
+  if (!Number.isNaN(worstAt)) {
+    options.onWarning?.(`the nodal system is nearly singular at ${formatHz(worstAt)} (reciprocal condition ${worstRcond.toExponential(1)}): the results there may have lost digits`, worstAt, worstRcond);
   }
   return {
     parameter: 'S',

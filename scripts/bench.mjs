@@ -1,0 +1,183 @@
+#!/usr/bin/env node
+// scatterbox benchmark: builds its own workloads, solves them, prints one table.
+// Not a test: it measures this machine. Run with `npm run bench` (which builds first).
+//
+// Each workload runs in a child process of its own so that its peak memory (maxRSS) is its own.
+// Times are medians of several runs, in microseconds per frequency point (the whole sweep's
+// wall time divided by its points: stamping, factoring and solving every port).
+import { execFileSync } from 'node:child_process';
+import { mkdtempSync, writeFileSync } from 'node:fs';
+import { availableParallelism, cpus, tmpdir, totalmem } from 'node:os';
+import { join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+
+const here = fileURLToPath(import.meta.url);
+const lib = new URL('../dist/src/index.js', import.meta.url).href;
+const parallelLib = new URL('../dist/src/solve/parallel.js', import.meta.url).href;
+
+function ladder(n, sweep) {
+  const l = ['let l = 12 nH', 'let c = 4.7 pF'];
+  for (let k = 0; k < n; k++) {
+    l.push(`inductor l${k} a=n${k} b=n${k + 1} value=l q=40 at 500 MHz`);
+    l.push(`capacitor c${k} a=n${k + 1} b=ground value=c esr=0.1 ohm`);
+  }
+  l.push('port 1 plus=n0', `port 2 plus=n${n}`, sweep);
+  return l.join('\n') + '\n';
+}
+
+function mesh(side, sweep) {
+  const l = [];
+  const id = (i, j) => `m${i}_${j}`;
+  for (let i = 0; i < side; i++) {
+    for (let j = 0; j < side; j++) {
+      if (i + 1 < side) l.push(`resistor rv${i}_${j} a=${id(i, j)} b=${id(i + 1, j)} value=10 ohm`);
+      if (j + 1 < side) l.push(`resistor rh${i}_${j} a=${id(i, j)} b=${id(i, j + 1)} value=10 ohm`);
+      l.push(`capacitor c${i}_${j} a=${id(i, j)} b=ground value=1 pF`);
+    }
+  }
+  l.push(`port 1 plus=${id(0, 0)}`, `port 2 plus=${id(side - 1, side - 1)}`, sweep);
+  return l.join('\n') + '\n';
+}
+
+/** A 16-port around a data block: the block's file is made first from 8 coupled line pairs. */
+async function dataBlock(dir, sweep) {
+  const { loadNetlist, solve, formatTouchstone } = await import(lib);
+  const l = [];
+  for (let k = 0; k < 8; k++) {
+    l.push(`coupled_lines k${k} a1=a${k} b1=b${k} a2=a${k + 8} b2=b${k + 8} z0e=${60 + k} ohm z0o=${40 + k / 2} ohm theta=${60 + 10 * k} deg at 2 GHz`);
+    l.push(`resistor x${k} a=b${k} b=a${(k + 1) % 8} value=${200 + 10 * k} ohm`);
+  }
+  const ports = [];
+  for (let k = 0; k < 8; k++) ports.push(`a${k}`, `b${k + 8}`);
+  ports.forEach((p, i) => l.push(`port ${i + 1} plus=${p}`));
+  l.push('sweep linear start=100 MHz stop=4 GHz points=391');
+  const net = solve(loadNetlist(l.join('\n') + '\n', 'gen.sbx').circuit);
+  writeFileSync(join(dir, 'block16.s16p'), formatTouchstone(net, { digits: 17 }));
+  const c = ['datafile d file="block16.s16p" ' + Array.from({ length: 16 }, (_, i) => `p${i + 1}=t${i}`).join(' ')];
+  for (let i = 0; i < 16; i++) {
+    c.push(`inductor li${i} a=t${i} b=u${i} value=${1 + i / 10} nH`, `capacitor ci${i} a=u${i} b=ground value=0.5 pF`, `port ${i + 1} plus=u${i}`);
+  }
+  c.push(sweep);
+  return c.join('\n') + '\n';
+}
+
+function median(xs) {
+  const s = [...xs].sort((a, b) => a - b);
+  return s[Math.floor(s.length / 2)];
+}
+
+/** Child process: one workload, prints JSON {usPerPoint, usPerPointAll, rssMB, extra}. */
+async function one(kind, size) {
+  const { loadNetlist, solve } = await import(lib);
+  const { solveSweepParallel } = await import(parallelLib);
+  const dir = mkdtempSync(join(tmpdir(), 'sbx-bench-'));
+  // sweeps long enough that the one-off work (plan, ordering, first factorisation) counts little
+  const points = kind === 'ladder' ? (size >= 100000 ? 101 : size >= 10000 ? 401 : size >= 1000 ? 4001 : 20001) : 2001;
+  const sweep = kind === 'data16' ? `sweep linear start=100 MHz stop=4 GHz points=${points}` : `sweep linear start=1 MHz stop=3 GHz points=${points}`;
+  let text;
+  if (kind === 'ladder') text = ladder(size, sweep);
+  else if (kind === 'mesh') text = mesh(size, sweep);
+  else if (kind === 'data16') text = await dataBlock(dir, sweep);
+  else if (kind === 'elaborate') {
+    // parse and elaborate a netlist of `size` elements
+    const big = ladder(size / 2, 'sweep list freqs=1 GHz');
+    const times = [];
+    for (let r = 0; r < 3; r++) {
+      const t0 = performance.now();
+      loadNetlist(big, 'big.sbx');
+      times.push(performance.now() - t0);
+    }
+    return { ms: median(times), rssMB: process.resourceUsage().maxRSS / 1024 };
+  }
+  const file = join(dir, 'w.sbx');
+  writeFileSync(file, text);
+  const { circuit } = loadNetlist(text, file);
+  if (kind === 'mathjs') return mathjsBaseline(circuit, size);
+  const reps = size >= 100000 ? 1 : 3;
+  const times = [];
+  const timesAll = [];
+  for (let r = 0; r < reps; r++) {
+    const t0 = performance.now();
+    solve(circuit);
+    times.push(performance.now() - t0);
+    if (size < 100000) {
+      const t1 = performance.now();
+      await solveSweepParallel(circuit, { jobs: availableParallelism() });
+      timesAll.push(performance.now() - t1);
+    }
+  }
+  const single = (median(times) * 1000) / points;
+  const all = timesAll.length ? { usPerPoint: (median(timesAll) * 1000) / points, speedup: median(times) / median(timesAll), points } : undefined;
+  return { usPerPoint: single, all, rssMB: process.resourceUsage().maxRSS / 1024, unknowns: circuit.nodeNames.length };
+}
+
+/** The plain dense baseline: each point assembled as a mathjs complex matrix and solved with lusolve. */
+async function mathjsBaseline(circuit) {
+  const { buildPlan } = await import(new URL('../dist/src/plan/plan.js', import.meta.url).href);
+  const { create, all } = await import('mathjs');
+  const math = create(all, {});
+  const plan = buildPlan(circuit);
+  const n = plan.size;
+  const vals = new Float64Array(2 * plan.slotRow.length);
+  const points = 21;
+  const t0 = performance.now();
+  for (let k = 0; k < points; k++) {
+    const w = 2 * Math.PI * (1e6 + (k * 3e9) / points);
+    vals.fill(0);
+    for (const st of plan.stampers) st(w, vals);
+    const rows = Array.from({ length: n }, () => Array.from({ length: n }, () => math.complex(0, 0)));
+    for (let s = 0; s < plan.slotRow.length; s++) {
+      const r = plan.slotRow[s];
+      const c = plan.slotCol[s];
+      rows[r][c] = math.add(rows[r][c], math.complex(vals[2 * s], vals[2 * s + 1]));
+    }
+    const A = math.matrix(rows);
+    for (let j = 0; j < plan.portPlus.length; j++) {
+      const b = Array.from({ length: n }, (_, i) => (i === plan.portPlus[j] ? 2 / Math.sqrt(plan.portReference[j]) : 0));
+      math.lusolve(A, b);
+    }
+  }
+  return { usPerPoint: ((performance.now() - t0) * 1000) / points, rssMB: process.resourceUsage().maxRSS / 1024 };
+}
+
+const arg = process.argv.indexOf('--one');
+if (arg > 0) {
+  const res = await one(process.argv[arg + 1], Number(process.argv[arg + 2]));
+  process.stdout.write(JSON.stringify(res));
+  process.exit(0);
+}
+
+function child(kind, size) {
+  const out = execFileSync(process.execPath, ['--max-old-space-size=4096', here, '--one', kind, String(size)], { encoding: 'utf8', maxBuffer: 1 << 24 });
+  return JSON.parse(out);
+}
+
+const fmt = (x, d = 1) => (x === undefined ? '—' : x >= 100 ? x.toFixed(0) : x.toFixed(d));
+const rows = [];
+const results = {};
+for (const [label, kind, size] of [
+  ['ladder N = 100', 'ladder', 100],
+  ['ladder N = 1,000', 'ladder', 1000],
+  ['ladder N = 10,000', 'ladder', 10000],
+  ['RC mesh 30 × 30', 'mesh', 30],
+  ['16-port data block', 'data16', 16],
+  ['ladder N = 100,000 (101 points)', 'ladder', 100000],
+]) {
+  const r = child(kind, size);
+  results[`${kind}${size}`] = r;
+  rows.push([label, fmt(r.usPerPoint), r.all ? fmt(r.all.usPerPoint) : '—', r.all ? `${r.all.speedup.toFixed(2)}×` : '—', fmt(r.rssMB, 0)]);
+  process.stderr.write(`${label}: done\n`);
+}
+const base = child('mathjs', 100);
+const el = child('elaborate', 100000);
+const cpu = cpus()[0]?.model ?? 'unknown CPU';
+console.log(`scatterbox benchmark — Node ${process.version}, ${availableParallelism()} cores (${cpu}), ${(totalmem() / 2 ** 30).toFixed(0)} GiB`);
+console.log('');
+console.log('| workload | µs/point, 1 thread | µs/point, all cores | speed-up | peak memory (MB) |');
+console.log('|---|---:|---:|---:|---:|');
+for (const r of rows) console.log(`| ${r.join(' | ')} |`);
+console.log('');
+const l100 = results.ladder100.usPerPoint;
+console.log(`dense mathjs baseline, ladder N = 100: ${fmt(base.usPerPoint)} µs/point — ${(base.usPerPoint / l100).toFixed(0)}× slower than scatterbox`);
+console.log(`parse and elaborate 100,000 elements: ${(el.ms / 1000).toFixed(2)} s (peak ${fmt(el.rssMB, 0)} MB)`);
+console.log(`ladder cost N = 10,000 / N = 1,000: ${(results.ladder10000.usPerPoint / results.ladder1000.usPerPoint).toFixed(1)}× for 10× the size`);
