@@ -19,6 +19,8 @@ import { convertData, parsePairs, parseReferences, type ConvertTarget } from '..
 import { evaluateQuantity } from '../src/load.js';
 import { microstripDispersive, microstripStatic, microstripWidth } from '../src/models/microstrip.js';
 import { formatFrequency } from '../src/check/format.js';
+import { renderPlotSvg, renderReport } from '../src/report/index.js';
+import { formatFromPath } from '../src/io/output.js';
 import { FigureError, parseFigure } from '../src/figures/registry.js';
 import {
   convertNetwork,
@@ -176,6 +178,40 @@ export async function main(argv: string[], io: Io = defaultIo): Promise<number> 
           .example('$0 microstrip --z0 "70.7 ohm" --height "0.508 mm" --er 3.66 --freq "2.45 GHz"', 'a Wilkinson arm at 2.45 GHz'),
       async (args) => {
         code = runMicrostrip(args as unknown as MicrostripArgs, io);
+      },
+    )
+    .command(
+      'report <input>',
+      'a self-contained HTML report: summary, specs, Smith chart, |S|, phase and group delay',
+      (y: Argv) =>
+        solveOptions(y)
+          .positional('input', { type: 'string', describe: 'netlist (.sbx) or network-data file (.sNp, .json)', demandOption: true })
+          .option('out', { alias: 'o', type: 'string', demandOption: true, describe: 'the HTML file to write' })
+          .option('at', { type: 'string', describe: 'frequencies for the table, comma-separated, e.g. "2.40 GHz, 2.44 GHz"' })
+          .option('entry', { type: 'string', array: true, describe: 'entries to plot, e.g. 21 11 (default: all)' })
+          .option('title', { type: 'string', describe: 'title (default: the netlist title or the file name)' })
+          .example('$0 report circuits/bandpass-2g4.sbx -o report.html', 'report of a demo, specs included')
+          .example('$0 report measured.s2p -o measured.html --at "915 MHz"', 'report of a data file'),
+      async (args) => {
+        code = await runReport(args as unknown as ReportArgs, io);
+      },
+    )
+    .command(
+      'plot <input>',
+      'a static SVG (or PNG) plot for docs and code review',
+      (y: Argv) =>
+        solveOptions(y)
+          .positional('input', { type: 'string', describe: 'netlist (.sbx) or network-data file (.sNp, .json)', demandOption: true })
+          .option('out', { alias: 'o', type: 'string', demandOption: true, describe: 'the .svg or .png file to write' })
+          .option('kind', { choices: ['db', 'phase', 'gd', 'smith'] as const, default: 'db', describe: 'what to plot' })
+          .option('entry', { type: 'string', array: true, describe: 'entries to plot, e.g. 21 11 (default: all)' })
+          .option('width', { type: 'number', default: 720, describe: 'width in pixels' })
+          .option('height', { type: 'number', default: 420, describe: 'height in pixels' })
+          .option('title', { type: 'string', describe: 'title of the plot' })
+          .example('$0 plot circuits/bandpass-2g4.sbx -o bandpass.svg --kind db', '|S| in dB with the spec limits')
+          .example('$0 plot circuits/match-50-75-915.sbx -o match.png --kind smith --entry 11', 'a Smith chart as PNG'),
+      async (args) => {
+        code = await runPlot(args as unknown as PlotArgs, io);
       },
     )
     .demandCommand(1, 'give a command, e.g. `scatterbox solve circuits/harmonic-lowpass-433.sbx`')
@@ -338,6 +374,82 @@ function splitFigures(list: string): string[] {
   }
   if (cur.trim()) out.push(cur.trim());
   return out;
+}
+
+interface ReportArgs {
+  input: string;
+  out: string;
+  at?: string;
+  entry?: string[];
+  title?: string;
+  set?: string[];
+  sweep?: string;
+  jobs: number;
+  quiet: boolean;
+}
+
+/** Solves a netlist (with its specs) or reads a data file, for `report` and `plot`. */
+async function networkOf(a: { input: string; set?: string[]; sweep?: string; jobs: number; quiet: boolean }, io: Io) {
+  if (formatFromPath(a.input) || extname(a.input).toLowerCase() === '.json') {
+    return { net: readNetworkFile(a.input), circuit: undefined, specs: undefined };
+  }
+  const { circuit } = load(a, a.input, io);
+  const net = await solveWith(circuit, a.jobs, a.quiet);
+  return { net, circuit, specs: evaluateSpecs(circuit.specs, net) };
+}
+
+function parseEntries(list: string[] | undefined, ports: number): [number, number][] | undefined {
+  if (!list || list.length === 0) return undefined;
+  return list
+    .flatMap((x) => x.split(','))
+    .map((x) => x.trim())
+    .filter(Boolean)
+    .map((x) => {
+      const m = /^[sS]?(\d)(\d)$/.exec(x) ?? /^[sS]?\(?(\d+),(\d+)\)?$/.exec(x);
+      if (!m) throw new OutputError(`an entry is written like 21 or S21 or 10,2, got ${JSON.stringify(x)}`);
+      const i = Number(m[1]);
+      const j = Number(m[2]);
+      if (i < 1 || j < 1 || i > ports || j > ports) throw new OutputError(`entry ${x} is outside the ${ports}-port network`);
+      return [i, j] as [number, number];
+    });
+}
+
+async function runReport(a: ReportArgs, io: Io): Promise<number> {
+  try {
+    const { net, circuit, specs } = await networkOf(a, io);
+    const tableFrequencies = a.at ? a.at.split(',').map((t) => evaluateQuantity(t.trim(), 'Hz', '--at')) : undefined;
+    const html = renderReport({ title: a.title, source: a.input, net, circuit, specs, tableFrequencies, entries: parseEntries(a.entry, net.ports) });
+    writeFileAtomicSync(a.out, html);
+    return EXIT_OK;
+  } catch (e) {
+    io.err(describeError(e, a.quiet) + '\n');
+    return EXIT_INPUT;
+  }
+}
+
+interface PlotArgs extends ReportArgs {
+  kind: 'db' | 'phase' | 'gd' | 'smith';
+  width: number;
+  height: number;
+}
+
+async function runPlot(a: PlotArgs, io: Io): Promise<number> {
+  try {
+    const ext = extname(a.out).toLowerCase();
+    if (ext !== '.svg' && ext !== '.png') throw new OutputError(`a plot is written as .svg or .png, not ${ext || 'a file without extension'}`);
+    const { net, specs } = await networkOf(a, io);
+    const svg = renderPlotSvg(net, { kind: a.kind, specs, entries: parseEntries(a.entry, net.ports), width: a.width, height: a.height, title: a.title });
+    if (ext === '.svg') writeFileAtomicSync(a.out, svg);
+    else {
+      const { Resvg } = await import('@resvg/resvg-js');
+      const png = new Resvg(svg, { background: 'white', font: { loadSystemFonts: true } }).render().asPng();
+      writeFileAtomicSync(a.out, png);
+    }
+    return EXIT_OK;
+  } catch (e) {
+    io.err(describeError(e, a.quiet) + '\n');
+    return EXIT_INPUT;
+  }
 }
 
 interface ConvertArgs {

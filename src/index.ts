@@ -74,3 +74,5 @@ export { readNetworkFile } from './io/read.js';
 export { convertData, type ConvertOptions, type ConvertTarget } from './io/convert-file.js';
 export { evaluateQuantity } from './load.js';
 export { microstripStatic, microstripDispersive, microstripWidth, microstripAt } from './models/microstrip.js';
+export { renderReport, renderPlotSvg, type ReportInput, type PlotSvgOptions } from './report/index.js';
+export { solveSweepParallel, type ParallelOptions } from './solve/parallel.js';

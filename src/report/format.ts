@@ -1,0 +1,120 @@
+/**
+ * Text helpers for the report and the static plots: HTML/XML escaping, engineering units for
+ * frequency and delay axes, tick placement, and fixed-precision numbers for deterministic output.
+ *
+ * @module
+ */
+
+/** Escapes text for HTML or XML element content and attribute values. */
+export function escapeXml(s: string): string {
+  return s.replace(/[&<>"']/g, (c) => (c === '&' ? '&amp;' : c === '<' ? '&lt;' : c === '>' ? '&gt;' : c === '"' ? '&quot;' : '&#39;'));
+}
+
+/** A display unit: values are divided by `scale` and shown with `unit`. */
+export interface DisplayUnit {
+  scale: number;
+  unit: string;
+}
+
+/** The frequency unit for an axis reaching up to `maxHz`: GHz, MHz, kHz or Hz. */
+export function frequencyUnit(maxHz: number): DisplayUnit {
+  const a = Math.abs(maxHz);
+  if (a >= 1e9) return { scale: 1e9, unit: 'GHz' };
+  if (a >= 1e6) return { scale: 1e6, unit: 'MHz' };
+  if (a >= 1e3) return { scale: 1e3, unit: 'kHz' };
+  return { scale: 1, unit: 'Hz' };
+}
+
+/** The time unit for delays up to `maxSeconds` in magnitude: ps, ns, µs, ms or s. */
+export function delayUnit(maxSeconds: number): DisplayUnit {
+  const a = Math.abs(maxSeconds);
+  if (!Number.isFinite(a) || a === 0) return { scale: 1e-9, unit: 'ns' };
+  if (a < 1e-9) return { scale: 1e-12, unit: 'ps' };
+  if (a < 1e-6) return { scale: 1e-9, unit: 'ns' };
+  if (a < 1e-3) return { scale: 1e-6, unit: 'µs' };
+  if (a < 1) return { scale: 1e-3, unit: 'ms' };
+  return { scale: 1, unit: 's' };
+}
+
+/** Evenly spaced ticks over an axis: the values, the step and the decimals their labels need. */
+export interface Ticks {
+  min: number;
+  max: number;
+  step: number;
+  values: number[];
+  decimals: number;
+}
+
+/**
+ * A "nice" step of 1, 2 or 5 times a power of ten near `span / target` (the usual 1-2-5 rule, as in
+ * P. S. Heckbert, "Nice numbers for graph labels", Graphics Gems, 1990; from memory).
+ */
+export function niceStep(span: number, target: number): number {
+  if (!(span > 0) || !Number.isFinite(span)) return 1;
+  const raw = span / Math.max(1, target);
+  const p = Math.pow(10, Math.floor(Math.log10(raw)));
+  const m = raw / p;
+  const nice = m < 1.5 ? 1 : m < 3.5 ? 2 : m < 7.5 ? 5 : 10;
+  return nice * p;
+}
+
+/** Decimals needed to print multiples of `step` exactly (0 for steps ≥ 1). */
+export function stepDecimals(step: number): number {
+  if (!(step > 0)) return 0;
+  return Math.max(0, Math.min(12, -Math.floor(Math.log10(step) + 1e-9)));
+}
+
+/**
+ * Ticks covering [lo, hi]: the axis is widened outward to whole steps when `expand` is set
+ * (value axes), and kept at [lo, hi] with the ticks inside otherwise (frequency axes).
+ */
+export function ticks(lo: number, hi: number, target: number, expand: boolean): Ticks {
+  if (!Number.isFinite(lo) || !Number.isFinite(hi)) {
+    lo = 0;
+    hi = 1;
+  }
+  if (hi < lo) [lo, hi] = [hi, lo];
+  if (hi === lo) {
+    const d = lo === 0 ? 1 : Math.abs(lo) * 0.1;
+    lo -= d;
+    hi += d;
+  }
+  const step = niceStep(hi - lo, target);
+  const eps = step * 1e-9;
+  const min = expand ? Math.floor((lo + eps) / step) * step : lo;
+  const max = expand ? Math.ceil((hi - eps) / step) * step : hi;
+  const values: number[] = [];
+  const first = Math.ceil((min - eps) / step);
+  const last = Math.floor((max + eps) / step);
+  for (let t = first; t <= last; t++) values.push(clean(t * step));
+  return { min: clean(min), max: clean(max), step, values, decimals: stepDecimals(step) };
+}
+
+/** Removes binary noise such as 0.30000000000000004 (12 significant digits). */
+function clean(x: number): number {
+  return x === 0 ? 0 : Number(x.toPrecision(12));
+}
+
+/** A number with fixed decimals and a true minus sign (−); −0 prints as 0. */
+export function fixed(x: number, decimals: number): string {
+  const s = x.toFixed(decimals);
+  if (/^-0(\.0*)?$/.test(s)) return s.slice(1);
+  return s.startsWith('-') ? `−${s.slice(1)}` : s;
+}
+
+/** A coordinate for SVG output: two decimals, ASCII minus, no −0 (deterministic). */
+export function coord(x: number): string {
+  const s = x.toFixed(2);
+  return s === '-0.00' ? '0.00' : s;
+}
+
+/** A number rounded to `digits` significant digits for the embedded data (null when not finite). */
+export function round(x: number, digits = 9): number | null {
+  if (!Number.isFinite(x)) return null;
+  return x === 0 ? 0 : Number(x.toPrecision(digits));
+}
+
+/** `S21` for ports up to 9, `S(12,3)` beyond. */
+export function entryLabel(i: number, j: number, ports: number): string {
+  return ports <= 9 ? `S${i}${j}` : `S(${i},${j})`;
+}

@@ -1,0 +1,358 @@
+/**
+ * The HTML report: one self-contained file that opens offline. Summary (title, ports and
+ * references, sweep, spec results), a Smith chart of the reflections drawn in SVG, plots of |Sij|
+ * in dB, phase and group delay drawn with uPlot, spec limits and failing intervals, a readout at the
+ * cursor or marker, trace toggles, and a table at chosen frequencies.
+ *
+ * Offline guarantee: every script and style is inline (uPlot's own files are read from its package
+ * at render time), the data is inline JSON, there are no fonts, images or links to load, and a
+ * Content-Security-Policy in the page forbids the browser to fetch anything at all (default-src
+ * 'none'; only inline scripts and styles and data: images are allowed).
+ *
+ * @module
+ */
+
+import { readFileSync } from 'node:fs';
+import { createRequire } from 'node:module';
+import { basename } from 'node:path';
+import { evaluateSpecs } from '../check/evaluate.js';
+import { describeSpec, formatFrequency, formatMargin } from '../check/format.js';
+import type { SpecResult } from '../check/types.js';
+import type { Circuit } from '../elaborate/circuit.js';
+import type { NetworkData } from '../network/types.js';
+import { CLIENT_SCRIPT } from './client.js';
+import { delayUnit, escapeXml, fixed, frequencyUnit, round } from './format.js';
+import { buildModel, COLORS, entryDelay, entrySeries, PLOT_TITLES, summarizeSweep, type EntrySeries, type ReportModel, type SweepSummary } from './model.js';
+import { smithFragment } from './smith.js';
+import { REPORT_CSS } from './style.js';
+
+/** Input of {@link renderReport}. */
+export interface ReportInput {
+  /** Heading (default: the circuit's or the network's title, else the source's file name). */
+  title?: string;
+  /** Where the data came from (a netlist or Touchstone path), shown in the header. */
+  source: string;
+  net: NetworkData;
+  /** The circuit, for port nodes, the sweep and the spec definitions. */
+  circuit?: Circuit;
+  /** Spec results (default: the circuit's specs evaluated on `net`). */
+  specs?: SpecResult[];
+  /** Frequencies (Hz) for the table; each row shows the nearest sweep point. Default: the sweep's
+   *  ends and the spec band edges inside it (at most 12), or 5 points across the sweep. */
+  tableFrequencies?: number[];
+  /** Entries [to, from], 1-based, for the rectangular plots (default: all up to 4 ports). */
+  entries?: [number, number][];
+}
+
+const UPLOT_VERSION = '1.6.32';
+
+/** uPlot's script and stylesheet, read from its installed package. */
+function uplotAssets(): { js: string; css: string; version: string } {
+  const require = createRequire(import.meta.url);
+  const js = readFileSync(require.resolve('uplot/dist/uPlot.iife.min.js'), 'utf8');
+  const css = readFileSync(require.resolve('uplot/dist/uPlot.min.css'), 'utf8');
+  let version = UPLOT_VERSION;
+  try {
+    version = (JSON.parse(readFileSync(require.resolve('uplot/package.json'), 'utf8')) as { version?: string }).version ?? version;
+  } catch {
+    // the package file is optional here; the version is only shown in a comment
+  }
+  return { js, css, version };
+}
+
+/** Text that is safe inside a <script> element (no end tag, no comment opener). */
+function scriptText(s: string): string {
+  return s.replace(/<\/(script)/gi, '<\\/$1').replace(/<!--/g, '<\\!--');
+}
+
+/** Text that is safe inside a <style> element. */
+function styleText(s: string): string {
+  return s.replace(/<\/(style)/gi, '<\\/$1');
+}
+
+/** The data block: JSON with `<` escaped, so that no text in it can end the element. */
+function jsonBlock(value: unknown): string {
+  return JSON.stringify(value).replace(/</g, '\\u003c').replace(/\u2028/g, '\\u2028').replace(/\u2029/g, '\\u2029');
+}
+
+const SMITH_SIZE = 440;
+const SMITH_FRAME = { cx: SMITH_SIZE / 2, cy: SMITH_SIZE / 2, radius: SMITH_SIZE / 2 - 34 };
+
+/**
+ * Renders the report as one HTML document (a string). Deterministic: the same input gives the
+ * same bytes. Throws RangeError for a network without frequency points.
+ */
+export function renderReport(input: ReportInput): string {
+  const net = input.net;
+  if (net.frequencies.length === 0) throw new RangeError('renderReport: the network has no frequency points');
+  const specs = input.specs ?? (input.circuit && input.circuit.specs.length > 0 ? evaluateSpecs(input.circuit.specs, net) : []);
+  const model = buildModel(net, specs, input.entries);
+  const s = model.s;
+  const f = s.frequencies;
+  const title = input.title ?? input.circuit?.title ?? net.title ?? basename(input.source);
+  const sweep = summarizeSweep(f);
+  const series = model.entries.map((e) => entrySeries(s, e.i, e.j));
+  const delays = model.entries.map((e, k) => (model.plots.gd.includes(k) ? entryDelay(s, e.i, e.j) : null));
+  let bigDelay = 0;
+  for (const d of delays) if (d) for (const v of d) if (Number.isFinite(v)) bigDelay = Math.max(bigDelay, Math.abs(v));
+  const gdUnit = delayUnit(bigDelay);
+  const xUnit = frequencyUnit(f[f.length - 1]!);
+  const logX = sweep.spacing === 'log' && sweep.start > 0 && sweep.stop / sweep.start >= 100;
+
+  const data = {
+    schema: 'scatterbox.report/1',
+    title,
+    source: input.source,
+    ports: s.ports,
+    parameter: net.parameter,
+    f: Array.from(f, (x) => x),
+    xUnit,
+    logX,
+    gdUnit,
+    colors: { ink: COLORS.ink, muted: COLORS.muted, grid: COLORS.grid, gridStrong: COLORS.gridStrong, limit: COLORS.limit, fail: COLORS.fail, accent: COLORS.accent },
+    entries: model.entries.map((e, k) => ({
+      label: e.label,
+      display: e.display,
+      i: e.i,
+      j: e.j,
+      color: e.color,
+      z0: s.references[e.i - 1]!,
+      re: Array.from(series[k]!.re, (x) => round(x, 12)),
+      im: Array.from(series[k]!.im, (x) => round(x, 12)),
+      db: Array.from(series[k]!.db, (x) => round(x, 9)),
+      deg: Array.from(series[k]!.deg, (x) => round(x, 9)),
+      gd: delays[k] ? Array.from(delays[k]!, (x) => round(x, 9)) : null,
+    })),
+    plots: model.plots,
+    smith: model.smith,
+    smithFrame: SMITH_FRAME,
+    limits: model.limits,
+    fails: model.fails,
+  };
+
+  const assets = uplotAssets();
+  const passCount = specs.filter((r) => r.pass).length;
+  const verdictStatus = specs.length === 0 ? 'none' : passCount === specs.length ? 'pass' : 'fail';
+  const verdictText = specs.length === 0 ? 'no specs' : passCount === specs.length ? `all ${specs.length} specs pass` : `${specs.length - passCount} of ${specs.length} specs fail`;
+  const csp = "default-src 'none'; script-src 'unsafe-inline'; style-src 'unsafe-inline'; img-src data:; font-src 'none'; connect-src 'none'; media-src 'none'; object-src 'none'; frame-src 'none'; worker-src 'none'; base-uri 'none'; form-action 'none'";
+
+  const out: string[] = [];
+  out.push('<!doctype html>');
+  out.push('<html lang="en">');
+  out.push('<head>');
+  out.push('<meta charset="utf-8">');
+  out.push('<meta name="viewport" content="width=device-width, initial-scale=1">');
+  out.push(`<meta http-equiv="Content-Security-Policy" content="${csp}">`);
+  out.push('<meta name="generator" content="scatterbox">');
+  out.push(`<title>${escapeXml(title)} · scatterbox report</title>`);
+  out.push('<link rel="icon" href="data:,">');
+  out.push(`<style>/* uPlot ${escapeXml(assets.version)} (MIT licence) */\n${styleText(assets.css)}</style>`);
+  out.push(`<style>${styleText(REPORT_CSS)}</style>`);
+  out.push('</head>');
+  out.push('<body>');
+  out.push('<header class="sbx-head">');
+  out.push('<div class="sbx-titles">');
+  out.push('<p class="sbx-kicker">scatterbox · network report</p>');
+  out.push(`<h1 data-testid="title">${escapeXml(title)}</h1>`);
+  out.push(`<div class="sbx-source">source <code data-testid="source">${escapeXml(input.source)}</code></div>`);
+  out.push('</div>');
+  out.push(`<div class="verdict" data-testid="verdict" data-status="${verdictStatus}">${escapeXml(verdictText)}</div>`);
+  out.push('</header>');
+  out.push('<main>');
+  out.push('<noscript><p>Scripts are off: the plots of magnitude, phase and group delay need them. The summary, the Smith chart and the tables are shown as they are.</p></noscript>');
+
+  // summary
+  out.push('<section class="summary" data-testid="summary">');
+  out.push('<h2>Summary</h2>');
+  out.push('<div class="cards">');
+  out.push(portsCard(s, input.circuit));
+  out.push(sweepCard(sweep));
+  out.push(networkCard(net, model, specs));
+  out.push('</div>');
+  out.push('</section>');
+
+  // specs
+  out.push('<section class="specs" data-testid="specs">');
+  out.push('<h2>Specs</h2>');
+  out.push(specTable(specs, model));
+  out.push('</section>');
+
+  // plots
+  out.push('<section class="response" data-testid="response">');
+  out.push('<h2>Response</h2>');
+  out.push('<div class="toolbar">');
+  out.push('<label><input type="checkbox" data-testid="toggle-limits" checked> spec limits and failing bands</label>');
+  out.push('<button type="button" data-testid="reset-zoom">reset zoom</button>');
+  out.push('<span class="hint">Drag across a plot to zoom in; click to place a marker; click a legend entry to hide or show a trace.</span>');
+  out.push('</div>');
+  out.push('<div class="readout" data-testid="readout" aria-live="polite"></div>');
+  out.push(plotFigure('db', 'Magnitude', '|S| in dB', 300));
+  out.push('<div class="charts">');
+  out.push(smithFigure(model, series));
+  out.push('<div class="stack">');
+  out.push(plotFigure('phase', 'Phase', 'degrees, wrapped to ±180°', 200));
+  out.push(plotFigure('gd', 'Group delay', `${gdUnit.unit}, −dφ/dω of the transmissions`, 200));
+  out.push('</div>');
+  out.push('</div>');
+  out.push('</section>');
+
+  // table
+  out.push('<section class="values" data-testid="values">');
+  out.push('<h2>Values at selected frequencies</h2>');
+  out.push(frequencyTable(model, series, input.tableFrequencies ?? defaultTableFrequencies(f, specs)));
+  out.push('</section>');
+  out.push('</main>');
+  out.push(
+    `<footer>Made by scatterbox. Everything this page shows is inside this one file (data, scripts, styles); it makes no network requests. Plots drawn with uPlot ${escapeXml(assets.version)}.</footer>`,
+  );
+  out.push(`<script type="application/json" id="sbx-data">${jsonBlock(data)}</script>`);
+  out.push(`<script>/* uPlot ${escapeXml(assets.version)}, MIT licence */\n${scriptText(assets.js)}</script>`);
+  out.push(`<script>${scriptText(CLIENT_SCRIPT)}</script>`);
+  out.push('</body>');
+  out.push('</html>');
+  return out.join('\n') + '\n';
+}
+
+function portsCard(s: NetworkData, circuit: Circuit | undefined): string {
+  const rows: string[] = [];
+  for (let p = 1; p <= s.ports; p++) {
+    const port = circuit?.ports.find((q) => q.number === p);
+    const nodes = port ? `${escapeXml(port.plusName)} <span class="muted">/</span> ${escapeXml(port.minusName)}` : '<span class="muted">—</span>';
+    const z0 = Number(s.references[p - 1]!.toPrecision(6));
+    rows.push(`<tr data-testid="port-row" data-port="${p}" data-reference="${s.references[p - 1]}"><td>${p}</td><td>${nodes}</td><td class="num">${z0} Ω</td></tr>`);
+  }
+  return `<div class="card" data-testid="ports"><h3>Ports</h3><table><thead><tr><th>port</th><th>nodes (+ / −)</th><th class="num">reference</th></tr></thead><tbody>${rows.join('')}</tbody></table></div>`;
+}
+
+function sweepCard(w: SweepSummary): string {
+  let spacing: string;
+  if (w.spacing === 'linear') spacing = `even, ${formatFrequency(w.step!)} steps`;
+  else if (w.spacing === 'log') spacing = `logarithmic, ${Number(w.perDecade!.toPrecision(4))} points per decade`;
+  else if (w.spacing === 'single') spacing = 'a single point';
+  else spacing = `uneven, steps ${formatFrequency(w.minStep!)} to ${formatFrequency(w.maxStep!)}`;
+  return (
+    `<div class="card" data-testid="sweep" data-start="${w.start}" data-stop="${w.stop}" data-points="${w.points}"><h3>Sweep</h3><dl class="facts">` +
+    `<dt>from</dt><dd>${formatFrequency(w.start)}</dd><dt>to</dt><dd>${formatFrequency(w.stop)}</dd>` +
+    `<dt>points</dt><dd>${w.points}</dd><dt>spacing</dt><dd>${escapeXml(spacing)}</dd></dl></div>`
+  );
+}
+
+function networkCard(net: NetworkData, model: ReportModel, specs: readonly SpecResult[]): string {
+  const shown = model.plots.db.map((k) => model.entries[k]!.display).join(', ');
+  const kind = net.parameter === 'S' ? 'S-parameters' : `${net.parameter}-parameters, shown as S for the port references`;
+  const passed = specs.filter((r) => r.pass).length;
+  return (
+    `<div class="card" data-testid="network"><h3>Network</h3><dl class="facts">` +
+    `<dt>ports</dt><dd>${net.ports}</dd><dt>data</dt><dd>${escapeXml(kind)}</dd>` +
+    `<dt>traces</dt><dd>${escapeXml(shown)}</dd>` +
+    `<dt>specs</dt><dd>${specs.length === 0 ? 'none' : `${passed} pass, ${specs.length - passed} fail`}</dd></dl></div>`
+  );
+}
+
+/** Text with a true minus sign (−) before digits, for display. */
+function minus(s: string): string {
+  return s.replace(/-(?=[\d.∞])/g, '−');
+}
+
+function specTable(specs: readonly SpecResult[], model: ReportModel): string {
+  if (specs.length === 0) return '<p class="muted" data-testid="no-specs">No specs were given.</p>';
+  const rows = specs.map((r) => {
+    const status = r.pass ? 'pass' : 'fail';
+    const none = r.points === 0;
+    const plot = model.placed.get(r.spec.name);
+    const where = plot ? PLOT_TITLES[plot].toLowerCase() : '<span class="muted">not plotted</span>';
+    return (
+      `<tr class="spec-row" data-testid="spec-row" data-spec="${escapeXml(r.spec.name)}" data-status="${status}" data-margin="${r.worstMargin}" data-frequency="${r.worstFrequency}">` +
+      `<td class="spec-name">${escapeXml(r.spec.name)}</td>` +
+      `<td class="req">${escapeXml(minus(describeSpec(r.spec)))}</td>` +
+      `<td><span class="chip ${status}">${r.pass ? 'PASS' : 'FAIL'}</span></td>` +
+      `<td class="num" data-field="margin">${none ? 'no points in band' : escapeXml(minus(formatMargin(r.worstMargin, r.spec.unit)))}</td>` +
+      `<td class="num" data-field="at">${none ? '' : escapeXml(formatFrequency(r.worstFrequency))}</td>` +
+      `<td class="num" data-field="value">${none ? '' : escapeXml(minus(formatMargin(r.worstValue, r.spec.unit)))}</td>` +
+      `<td class="num">${r.points}</td>` +
+      `<td>${where}</td></tr>`
+    );
+  });
+  return (
+    '<div class="table-wrap"><table class="spec-table"><thead><tr><th>spec</th><th>requirement</th><th>result</th>' +
+    '<th class="num">worst margin</th><th class="num">at</th><th class="num">value there</th><th class="num">points</th><th>plotted on</th></tr></thead>' +
+    `<tbody>${rows.join('\n')}</tbody></table></div>`
+  );
+}
+
+function plotFigure(kind: string, title: string, sub: string, height: number): string {
+  return `<figure class="plot-card" data-plot="${kind}"><figcaption>${escapeXml(title)}<span class="sub">${escapeXml(sub)}</span></figcaption><div class="plot" data-testid="plot-${kind}" data-height="${height}"></div></figure>`;
+}
+
+function smithFigure(model: ReportModel, series: EntrySeries[]): string {
+  const traces = model.smith.map((k) => {
+    const e = model.entries[k]!;
+    return { label: e.label, display: e.display, color: e.color, re: series[k]!.re, im: series[k]!.im };
+  });
+  const body = smithFragment({ frame: SMITH_FRAME, traces, admittance: 'hidden', fontSize: 10.5, interactive: true });
+  const svg =
+    `<svg data-testid="smith" data-admittance="hidden" viewBox="0 0 ${SMITH_SIZE} ${SMITH_SIZE}" role="img" aria-label="Smith chart of the reflections" font-family="system-ui, 'DejaVu Sans', sans-serif">` +
+    `${body}<g data-part="smith-dots" class="smith-dots"></g></svg>`;
+  const toggles = traces
+    .map((t) => `<button type="button" data-testid="smith-toggle" data-entry="${escapeXml(t.label)}" aria-pressed="true" style="--c:${t.color}"><i></i>${escapeXml(t.display)}</button>`)
+    .join('');
+  const refs = [...new Set(Array.from(model.s.references))].map((r) => `${Number(r.toPrecision(6))} Ω`).join(', ');
+  return (
+    `<figure class="smith-card" data-plot="smith"><figcaption>Smith chart<span class="sub">reflections, normalised to ${escapeXml(refs)}</span></figcaption>${svg}` +
+    `<div class="smith-controls">${toggles}<label><input type="checkbox" data-testid="toggle-admittance"> admittance grid</label></div>` +
+    `<div class="smith-readout" data-testid="smith-readout"></div>` +
+    `<div class="smith-note">○ first sweep point · ● last sweep point · grid: constant resistance and reactance</div></figure>`
+  );
+}
+
+/** The sweep's ends and the finite spec band edges inside it (sorted, at most 12), or 5 points across. */
+export function defaultTableFrequencies(f: Float64Array, specs: readonly SpecResult[]): number[] {
+  const lo = f[0]!;
+  const hi = f[f.length - 1]!;
+  if (specs.length === 0) {
+    const out: number[] = [];
+    const count = Math.min(5, f.length);
+    for (let q = 0; q < count; q++) out.push(f[Math.round((q * (f.length - 1)) / Math.max(1, count - 1))]!);
+    return [...new Set(out)];
+  }
+  const set = new Set<number>([lo, hi]);
+  for (const r of specs) for (const e of r.spec.band) if (Number.isFinite(e) && e >= lo && e <= hi) set.add(e);
+  const all = [...set].sort((a, b) => a - b);
+  if (all.length <= 12) return all;
+  // keep both ends and an even pick of the rest
+  const pick: number[] = [];
+  for (let q = 0; q < 12; q++) pick.push(all[Math.round((q * (all.length - 1)) / 11)]!);
+  return [...new Set(pick)];
+}
+
+function nearestIndex(f: Float64Array, x: number): number {
+  let best = 0;
+  for (let k = 1; k < f.length; k++) if (Math.abs(f[k]! - x) < Math.abs(f[best]! - x)) best = k;
+  return best;
+}
+
+function frequencyTable(model: ReportModel, series: EntrySeries[], freqs: readonly number[]): string {
+  const f = model.s.frequencies;
+  const cols = model.plots.db;
+  const head1 = cols.map((k) => `<th colspan="2" class="entry"><span class="swatch" style="background:${model.entries[k]!.color}"></span>${escapeXml(model.entries[k]!.display)}</th>`).join('');
+  const head2 = cols.map(() => '<th class="num">|S| dB</th><th class="num">∠ deg</th>').join('');
+  const rows = freqs.map((want) => {
+    const k = nearestIndex(f, want);
+    const at = f[k]!;
+    const moved = Math.abs(at - want) > 1e-9 * Math.max(Math.abs(want), 1);
+    const label = moved ? `${formatFrequency(at)} <span class="muted">(asked ${formatFrequency(want)})</span>` : formatFrequency(at);
+    const cells = cols
+      .map((q) => {
+        const e = model.entries[q]!;
+        const db = series[q]!.db[k]!;
+        const deg = series[q]!.deg[k]!;
+        return `<td class="num" data-entry="${escapeXml(e.label)}" data-db="${db}" data-deg="${deg}">${Number.isFinite(db) ? fixed(db, 3) : '−∞'}</td><td class="num">${fixed(deg, 2)}</td>`;
+      })
+      .join('');
+    return `<tr data-testid="freq-row" data-frequency="${at}" data-asked="${want}"><td class="freq">${label}</td>${cells}</tr>`;
+  });
+  return (
+    `<div class="table-wrap"><table class="freq-table" data-testid="freq-table"><thead><tr><th rowspan="2" class="freq">frequency</th>${head1}</tr><tr>${head2}</tr></thead>` +
+    `<tbody>${rows.join('\n')}</tbody></table></div>`
+  );
+}

@@ -1,0 +1,137 @@
+/**
+ * The stylesheet of the HTML report (screen and print), as text to put inline. Our own look: an ink
+ * header band, white cards on a pale stone page, a teal accent, green/red only for pass and fail.
+ *
+ * @module
+ */
+
+import { COLORS } from './model.js';
+
+export const REPORT_CSS = `
+:root {
+  --ink: ${COLORS.ink};
+  --muted: ${COLORS.muted};
+  --line: #dde2e7;
+  --page: #f3f4f1;
+  --card: #ffffff;
+  --accent: ${COLORS.accent};
+  --pass: ${COLORS.pass};
+  --fail: ${COLORS.fail};
+  --fail-shade: ${COLORS.failShade};
+  --mono: ui-monospace, "DejaVu Sans Mono", "Liberation Mono", Menlo, Consolas, monospace;
+  --sans: system-ui, "Segoe UI", "DejaVu Sans", "Liberation Sans", sans-serif;
+}
+* { box-sizing: border-box; }
+html { background: var(--page); }
+body { margin: 0; color: var(--ink); font: 14px/1.45 var(--sans); }
+.sbx-head { background: var(--ink); color: #f5f7f9; padding: 18px 28px 16px; display: flex; flex-wrap: wrap; align-items: flex-end; gap: 6px 24px; }
+.sbx-head .sbx-titles { flex: 1 1 420px; min-width: 0; }
+.sbx-kicker { font-size: 11px; letter-spacing: .14em; text-transform: uppercase; color: #9fd3d6; margin: 0 0 4px; }
+.sbx-head h1 { margin: 0; font-size: 22px; font-weight: 650; line-height: 1.25; }
+.sbx-source { margin-top: 6px; font-size: 12.5px; color: #c4ccd5; overflow-wrap: anywhere; }
+.sbx-source code { font-family: var(--mono); color: #ffffff; }
+.verdict { font-size: 13px; font-weight: 600; padding: 6px 14px; border-radius: 999px; border: 1.5px solid currentColor; white-space: nowrap; }
+.verdict[data-status="pass"] { color: #7ee2a8; }
+.verdict[data-status="fail"] { color: #ff9a8f; }
+.verdict[data-status="none"] { color: #c4ccd5; }
+main { padding: 20px 28px 28px; max-width: 1320px; margin: 0 auto; }
+section { margin: 0 0 22px; }
+h2 { font-size: 12px; font-weight: 700; letter-spacing: .12em; text-transform: uppercase; color: var(--accent); margin: 0 0 10px; padding-bottom: 5px; border-bottom: 1px solid var(--line); }
+.cards { display: grid; grid-template-columns: repeat(auto-fit, minmax(250px, 1fr)); gap: 14px; }
+.card, figure.plot-card, figure.smith-card { background: var(--card); border: 1px solid var(--line); border-radius: 8px; padding: 14px 16px; margin: 0; }
+.card h3, figure figcaption { font-size: 13px; font-weight: 650; margin: 0 0 8px; color: var(--ink); }
+figure figcaption .sub { font-weight: 400; color: var(--muted); margin-left: 6px; }
+dl.facts { display: grid; grid-template-columns: auto 1fr; gap: 3px 14px; margin: 0; font-size: 13px; }
+dl.facts dt { color: var(--muted); }
+dl.facts dd { margin: 0; font-variant-numeric: tabular-nums; }
+table { border-collapse: collapse; width: 100%; font-size: 13px; font-variant-numeric: tabular-nums; }
+th { text-align: left; font-weight: 600; color: var(--muted); font-size: 11.5px; letter-spacing: .03em; border-bottom: 1.5px solid var(--line); padding: 5px 8px; }
+td { padding: 5px 8px; border-bottom: 1px solid #edf0f2; vertical-align: top; }
+td.num, th.num { text-align: right; white-space: nowrap; }
+.table-wrap { background: var(--card); border: 1px solid var(--line); border-radius: 8px; overflow-x: auto; }
+.table-wrap table th:first-child, .table-wrap table td:first-child { padding-left: 14px; }
+tr.spec-row[data-status="fail"] td { background: #fff5f3; }
+tr.spec-row[data-status="fail"] td:first-child { box-shadow: inset 3px 0 0 var(--fail); }
+tr.spec-row[data-status="pass"] td:first-child { box-shadow: inset 3px 0 0 var(--pass); }
+.chip { display: inline-block; min-width: 44px; text-align: center; font-size: 11px; font-weight: 700; letter-spacing: .06em; padding: 1px 8px; border-radius: 4px; color: #fff; }
+.chip.pass { background: var(--pass); }
+.chip.fail { background: var(--fail); }
+.spec-name { font-family: var(--mono); font-size: 12.5px; }
+.req { color: var(--ink); }
+.muted { color: var(--muted); }
+.toolbar { display: flex; flex-wrap: wrap; align-items: center; gap: 8px 18px; margin: 0 0 10px; font-size: 12.5px; color: var(--muted); }
+.toolbar label { display: inline-flex; align-items: center; gap: 6px; cursor: pointer; color: var(--ink); }
+.toolbar button, .smith-controls button { font: inherit; font-size: 12.5px; border: 1px solid var(--line); background: #fff; color: var(--ink); border-radius: 6px; padding: 3px 10px; cursor: pointer; }
+.toolbar button:hover, .smith-controls button:hover { border-color: var(--accent); }
+.readout { position: sticky; top: 0; z-index: 5; background: #ffffffee; border: 1px solid var(--line); border-left: 4px solid var(--accent); border-radius: 8px; padding: 8px 12px; margin: 0 0 14px; font-size: 12.5px; min-height: 38px; display: flex; flex-wrap: wrap; gap: 4px 16px; align-items: baseline; font-variant-numeric: tabular-nums; }
+.readout .ro-f { font-weight: 700; color: var(--accent); min-width: 96px; }
+.readout .ro-item { white-space: nowrap; }
+.readout .ro-name { font-weight: 650; color: var(--c); }
+.readout .ro-v { margin-left: 2px; }
+.readout .ro-hint { color: var(--muted); }
+.charts { display: grid; grid-template-columns: minmax(320px, 460px) minmax(0, 1fr); gap: 14px; margin-top: 14px; }
+.stack { display: grid; gap: 14px; min-width: 0; }
+.plot { min-width: 0; overflow: hidden; }
+figure.smith-card svg { display: block; width: 100%; height: auto; }
+.smith-controls { display: flex; flex-wrap: wrap; gap: 6px 8px; align-items: center; margin-top: 8px; font-size: 12.5px; }
+.smith-controls button[aria-pressed] { display: inline-flex; align-items: center; gap: 6px; }
+.smith-controls button[aria-pressed] i { width: 14px; height: 3px; border-radius: 2px; background: var(--c); display: inline-block; }
+.smith-controls button[aria-pressed="false"] { opacity: .45; text-decoration: line-through; }
+.smith-controls label { display: inline-flex; align-items: center; gap: 6px; margin-left: auto; cursor: pointer; }
+.smith-readout { margin-top: 8px; font-size: 12px; color: var(--ink); min-height: 18px; font-variant-numeric: tabular-nums; }
+.smith-note { margin-top: 4px; font-size: 11.5px; color: var(--muted); }
+.smith-dots circle { fill: #fff; stroke-width: 2.2; pointer-events: none; }
+.smith-dots circle.smith-marker { fill: ${COLORS.accent}; stroke: #fff !important; stroke-width: 1.5; }
+.smith-dots circle.smith-hot { stroke-width: 2.6; }
+.fail-region { position: absolute; top: 0; bottom: 0; background: var(--fail-shade); border-left: 1px solid ${COLORS.fail}55; border-right: 1px solid ${COLORS.fail}55; pointer-events: none; }
+.uplot { font-family: var(--sans); }
+.u-legend { font-size: 12px; margin-top: 2px; }
+.u-legend .u-series { cursor: pointer; }
+.u-legend .u-series.u-off > * { opacity: .4; }
+.u-legend .u-series > * { padding: 2px 4px; }
+.u-legend .u-marker { border-radius: 2px; }
+.u-legend .u-series:first-child .u-label { color: var(--muted); }
+.u-select { background: rgba(13, 110, 116, 0.10); }
+.freq-table td.num { font-family: var(--mono); font-size: 12px; }
+.freq-table td.freq, .freq-table th.freq { text-align: left; white-space: nowrap; width: 1%; padding-right: 28px; }
+.freq-table td.freq { font-family: var(--sans); font-size: 13px; }
+.freq-table th.entry { text-align: center; border-bottom: none; color: var(--ink); }
+.freq-table .swatch { display: inline-block; width: 10px; height: 3px; border-radius: 2px; margin-right: 6px; vertical-align: middle; }
+footer { color: var(--muted); font-size: 11.5px; padding: 0 28px 24px; max-width: 1320px; margin: 0 auto; }
+noscript p { background: #fff5f3; border: 1px solid var(--fail); border-radius: 6px; padding: 8px 12px; }
+@media (max-width: 900px) {
+  .charts { grid-template-columns: minmax(0, 1fr); }
+  main, .sbx-head { padding-left: 14px; padding-right: 14px; }
+}
+@media print {
+  @page { size: A4; margin: 14mm 12mm; }
+  html, body { background: #fff; }
+  body { font-size: 10pt; }
+  * { -webkit-print-color-adjust: exact; print-color-adjust: exact; }
+  .sbx-head { background: #fff; color: var(--ink); border-bottom: 2px solid var(--ink); padding: 0 0 8px; }
+  .sbx-kicker { color: var(--accent); }
+  .sbx-source, .sbx-source code { color: var(--ink); }
+  .verdict[data-status="pass"] { color: var(--pass); }
+  .verdict[data-status="fail"] { color: var(--fail); }
+  main { padding: 12px 0 0; max-width: none; }
+  footer { padding: 0; }
+  .toolbar, .readout, .smith-controls, .smith-readout, .smith-dots, .u-cursor-x, .u-cursor-y, .u-cursor-pt, .u-select, .u-legend .u-value { display: none !important; }
+  .cards { grid-template-columns: repeat(3, minmax(0, 1fr)); gap: 8px; }
+  .card { padding: 8px 10px; }
+  table { font-size: 8.5pt; }
+  th { font-size: 7.5pt; padding: 3px 5px; }
+  td { padding: 3px 5px; }
+  .spec-table .req { width: 34%; }
+  .spec-name { font-size: 8pt; }
+  .charts { display: block; }
+  .stack { display: block; }
+  figure.plot-card, figure.smith-card, .card { break-inside: avoid; page-break-inside: avoid; margin: 0 0 10px; border-color: #c9d0d8; }
+  figure.smith-card svg { max-width: 120mm; margin: 0 auto; }
+  section.response { break-before: page; page-break-before: always; }
+  section.values { break-before: page; page-break-before: always; }
+  .table-wrap { overflow: visible; border: none; }
+  thead { display: table-header-group; }
+  tr { break-inside: avoid; page-break-inside: avoid; }
+  h2 { break-after: avoid; page-break-after: avoid; }
+}
+`;
