@@ -104,3 +104,28 @@ describe('scatterbox microstrip', () => {
     expect(r.err).toMatch(/--height:1:1: error: --height must be in m, but it is a capacitance \(F\)/);
   });
 });
+
+describe('scatterbox report and plot', () => {
+  it('report writes one self-contained HTML file with the specs', () => {
+    const out = join(dir, 'r.html');
+    const r = run(['report', 'circuits/pad-10db-pi.sbx', '-o', out, '--at', '1 GHz']);
+    expect(r.code).toBe(0);
+    const html = readFileSync(out, 'utf8');
+    expect(html.toLowerCase().startsWith('<!doctype html>')).toBe(true);
+    expect(html).toMatch(/loss_upper/);
+    expect(html).not.toMatch(/\s(src|href)=["']https?:/);
+  });
+
+  it('plot writes SVG, or PNG through the rasteriser; other extensions are refused', () => {
+    const svg = join(dir, 'p.svg');
+    expect(run(['plot', 'circuits/match-50-75-915.sbx', '-o', svg, '--kind', 'smith', '--entry', '11']).code).toBe(0);
+    expect(readFileSync(svg, 'utf8')).toMatch(/^<svg[\s\S]*<\/svg>\s*$/);
+    const png = join(dir, 'p.png');
+    expect(run(['plot', 'circuits/pad-10db-pi.sbx', '-o', png]).code).toBe(0);
+    // PNG signature (PNG specification, ISO/IEC 15948): 89 50 4E 47 0D 0A 1A 0A
+    expect(Array.from(readFileSync(png).subarray(0, 8))).toEqual([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]);
+    const bad = run(['plot', 'circuits/pad-10db-pi.sbx', '-o', join(dir, 'p.gif')]);
+    expect(bad.code).toBe(1);
+    expect(bad.err).toMatch(/\.svg or \.png/);
+  });
+});
