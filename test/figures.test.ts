@@ -131,7 +131,7 @@ const ONE_POINT = [1e9];
 const mc = (z: C): Complex => math.complex(z[0], z[1]);
 const mabs = (z: Complex | number): number => math.abs(z as Complex) as unknown as number;
 const madd = (a: Complex | number, b: Complex | number): Complex => math.add(a, b) as Complex;
-const msub = (a: Complex | number, b: Complex | number): Complex => math.subtract(a, b) as Complex;
+const matSub = (a: Complex | number, b: Complex | number): Complex => math.subtract(a, b) as Complex;
 const mmul = (a: Complex | number, b: Complex | number): Complex => math.multiply(a, b) as Complex;
 const mdiv = (a: Complex | number, b: Complex | number): Complex => math.divide(a, b) as Complex;
 const mconj = (a: Complex): Complex => math.conj(a) as Complex;
@@ -208,7 +208,7 @@ describe('scalar definitions', () => {
     expectAbs(abs(loadReflection(50, 0, 50)), 0, 1e-15, 'match');
     // [MATH] a complex load against mathjs
     const zl = math.complex(25, -40);
-    const ref = mdiv(msub(zl, 75), madd(zl, 75));
+    const ref = mdiv(matSub(zl, 75), madd(zl, 75));
     const g = loadReflection(25, -40, 75);
     expectAbs(g[0], ref.re, 1e-15, 'Re Γ');
     expectAbs(g[1], ref.im, 1e-15, 'Im Γ');
@@ -362,7 +362,7 @@ describe('per-entry figures', () => {
     /** [BW] H(jω) = Π(−p_k)/Π(jω − p_k), evaluated with mathjs. */
     const response = (n: number, w: number): C => {
       let h: Complex = math.complex(1, 0);
-      for (const p of poles(n)) h = mmul(h, mdiv(mc([-p[0], -p[1]]), msub(math.complex(0, w), mc(p))));
+      for (const p of poles(n)) h = mmul(h, mdiv(mc([-p[0], -p[1]]), matSub(math.complex(0, w), mc(p))));
       return [h.re, h.im];
     };
     const butterworth = (n: number, f: number[]): NetworkData =>
@@ -438,7 +438,7 @@ describe('per-entry figures', () => {
     const zNet = constant(ONE_POINT, zm, { parameter: 'Z', references: [50, 75] });
     const sNet = convertNetwork(zNet, 'S');
     const z = inputImpedance(sNet, 1);
-    const ref = msub(mc(zm[0]![0]!), mdiv(mmul(mc(zm[0]![1]!), mc(zm[1]![0]!)), madd(mc(zm[1]![1]!), 75)));
+    const ref = matSub(mc(zm[0]![0]!), mdiv(mmul(mc(zm[0]![1]!), mc(zm[1]![0]!)), madd(mc(zm[1]![1]!), 75)));
     const scale = mabs(ref);
     expectAbs(z[0]!, ref.re, 1e-10 * scale, 'Re Zin');
     expectAbs(z[1]!, ref.im, 1e-10 * scale, 'Im Zin');
@@ -500,12 +500,12 @@ function reference(s: C[][]) {
   const s12 = mc(s[0]![1]!);
   const s21 = mc(s[1]![0]!);
   const s22 = mc(s[1]![1]!);
-  const delta = msub(mmul(s11, s22), mmul(s12, s21)); // [ROL]
+  const delta = matSub(mmul(s11, s22), mmul(s12, s21)); // [ROL]
   const d = mabs(delta);
   const t = mabs(mmul(s12, s21));
   const k = (1 - mabs(s11) ** 2 - mabs(s22) ** 2 + d ** 2) / (2 * t); // [ROL]
-  const mu = (1 - mabs(s11) ** 2) / (mabs(msub(s22, mmul(delta, mconj(s11)))) + t); // [ES]
-  const mu2 = (1 - mabs(s22) ** 2) / (mabs(msub(s11, mmul(delta, mconj(s22)))) + t); // [ES]
+  const mu = (1 - mabs(s11) ** 2) / (mabs(matSub(s22, mmul(delta, mconj(s11)))) + t); // [ES]
+  const mu2 = (1 - mabs(s22) ** 2) / (mabs(matSub(s11, mmul(delta, mconj(s22)))) + t); // [ES]
   return { s11, s12, s21, s22, delta, d, k, mu, mu2 };
 }
 
@@ -683,7 +683,7 @@ describe('two-port stability and gain', () => {
       let m = 0;
       for (let q = 0; q < 20000; q++) {
         const g = mc(polar(radius, (360 * q) / 20000));
-        const gin = madd(own, mdiv(mmul(t, g), msub(1, mmul(far, g))));
+        const gin = madd(own, mdiv(mmul(t, g), matSub(1, mmul(far, g))));
         m = Math.max(m, mabs(gin));
       }
       return m;
@@ -721,12 +721,12 @@ describe('two-port stability and gain', () => {
 
     const b1 = 1 + mabs(r.s11) ** 2 - mabs(r.s22) ** 2 - r.d ** 2;
     const b2 = 1 + mabs(r.s22) ** 2 - mabs(r.s11) ** 2 - r.d ** 2;
-    const c1 = msub(r.s11, mmul(r.delta, mconj(r.s22)));
-    const c2 = msub(r.s22, mmul(r.delta, mconj(r.s11)));
+    const c1 = matSub(r.s11, mmul(r.delta, mconj(r.s22)));
+    const c2 = matSub(r.s22, mmul(r.delta, mconj(r.s11)));
     const gms = mdiv(b1 - Math.sqrt(b1 * b1 - 4 * mabs(c1) ** 2), mmul(2, c1));
     const gml = mdiv(b2 - Math.sqrt(b2 * b2 - 4 * mabs(c2) ** 2), mmul(2, c2));
-    const den = msub(
-      mmul(msub(1, mmul(r.s11, gms)), msub(1, mmul(r.s22, gml))),
+    const den = matSub(
+      mmul(matSub(1, mmul(r.s11, gms)), matSub(1, mmul(r.s22, gml))),
       mmul(mmul(r.s12, r.s21), mmul(gms, gml)),
     );
     const gt = ((1 - mabs(gms) ** 2) * mabs(r.s21) ** 2 * (1 - mabs(gml) ** 2)) / mabs(den) ** 2;
