@@ -1,17 +1,7 @@
 import type { SpecDefinition } from './types.js';
 
-/** A frequency for people: `2.45 GHz`, `433 MHz`, `0 Hz`. */
-export function formatFrequency(f: number): string {
-  if (!Number.isFinite(f)) return f > 0 ? '∞' : String(f);
-  if (f === 0) return '0 Hz';
-  const units: [number, string][] = [
-    [1e9, 'GHz'],
-    [1e6, 'MHz'],
-    [1e3, 'kHz'],
-  ];
-  for (const [s, u] of units) if (Math.abs(f) >= s) return `${Number((f / s).toPrecision(6))} ${u}`;
-  return `${Number(f.toPrecision(6))} Hz`;
-}
+export { formatFrequency } from '../format/frequency.js';
+import { formatFrequency } from '../format/frequency.js';
 
 /** A figure value or margin with its unit: `0.42 dB`, `1.3 ns`, `1.05`. */
 export function formatMargin(v: number, unit: string): string {

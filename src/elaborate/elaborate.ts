@@ -1,12 +1,13 @@
 import type { Arg, Expr, KeyArg, NetlistAst, Statement } from '../ast/ast.js';
 import { DiagnosticBag, type SourceSpan } from '../diagnostics/diagnostic.js';
 import { closest, didYouMean } from '../diagnostics/suggest.js';
-import { ELEMENTS, joinedNodes } from '../elements/registry.js';
+import { ELEMENTS, joinedNodes, outsideRange } from '../elements/registry.js';
 import { GROUND, GROUND_NAME, type ElementInstance, type PropertySpec, type TerminalSpec } from '../elements/types.js';
 import type { NetworkData } from '../network/types.js';
 import type { Circuit, ParameterValue, Port } from './circuit.js';
 import { describeUnit, evaluate, math, toSI, type EvalScope, type Quantity } from './evaluate.js';
 import { dirname, isAbsolute, join } from 'node:path';
+import { formatFrequency } from '../format/frequency.js';
 import { floatingGroups } from './islands.js';
 import { elaborateSpec } from './spec.js';
 import { buildSweep } from './sweep.js';
@@ -586,13 +587,8 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
   if (frequencies.length > 0) {
     const lo = frequencies[0]!;
     const hi = frequencies[frequencies.length - 1]!;
-    for (const el of elements) {
-      const range = ELEMENTS.get(el.type)!.frequencyRange?.(el);
-      if (!range) continue;
-      const tol = 1e-9 * Math.max(range[1], 1);
-      if (lo < range[0] - tol || hi > range[1] + tol) {
-        bag.error('sweep-outside-data', `the sweep (${hz(lo)} to ${hz(hi)}) reaches outside the data of \`${el.name}\` (${hz(range[0])} to ${hz(range[1])})`, el.span, 'narrow the sweep, or let the element extrapolate with `extrapolate=hold`');
-      }
+    for (const { element: el, range } of outsideRange(elements, lo, hi)) {
+      bag.error('sweep-outside-data', `the sweep (${formatFrequency(lo)} to ${formatFrequency(hi)}) reaches outside the data of \`${el.name}\` (${formatFrequency(range[0])} to ${formatFrequency(range[1])})`, el.span, 'narrow the sweep, or let the element extrapolate with `extrapolate=hold`');
     }
   }
 
@@ -782,13 +778,6 @@ function blockHeader(st: Statement, bag: DiagnosticBag): BlockDefinition | undef
     }
   }
   return ok ? { name: st.label.text, header: st, terminals, params, body: [], used: false } : undefined;
-}
-
-function hz(f: number): string {
-  if (f >= 1e9) return `${Number((f / 1e9).toPrecision(6))} GHz`;
-  if (f >= 1e6) return `${Number((f / 1e6).toPrecision(6))} MHz`;
-  if (f >= 1e3) return `${Number((f / 1e3).toPrecision(6))} kHz`;
-  return `${Number(f.toPrecision(6))} Hz`;
 }
 
 function signOk(p: PropertySpec, v: number): boolean {

@@ -34,3 +34,18 @@ export function joinedNodes(el: { type: string; nodes: readonly number[] }): num
   if (!groups) return [el.nodes.slice()];
   return groups.map((g) => g.map((t) => el.nodes[t]!));
 }
+
+/**
+ * The elements whose data does not cover the band lo…hi (Hz), with their own ranges: measured
+ * data blocks that would have to extrapolate (to 1e-9 relative).
+ */
+export function outsideRange<E extends { type: string }>(elements: readonly E[], lo: number, hi: number): { element: E; range: [number, number] }[] {
+  const out: { element: E; range: [number, number] }[] = [];
+  for (const el of elements) {
+    const range = ELEMENTS.get(el.type)?.frequencyRange?.(el as never);
+    if (!range) continue;
+    const tol = 1e-9 * Math.max(range[1], 1);
+    if (lo < range[0] - tol || hi > range[1] + tol) out.push({ element: el, range });
+  }
+  return out;
+}

@@ -1,6 +1,7 @@
 import type { Circuit } from '../elaborate/circuit.js';
+import { formatFrequency } from '../format/frequency.js';
 import { NodeSets } from '../elaborate/islands.js';
-import { ELEMENTS, joinedNodes } from '../elements/registry.js';
+import { ELEMENTS, joinedNodes, outsideRange } from '../elements/registry.js';
 import { GROUND } from '../elements/types.js';
 import { createLu, luFactor, luSolve, rcondEstimate, LU_OK } from '../network/complex.js';
 import {
@@ -281,7 +282,7 @@ export function solveSweep(circuit: Circuit, options: SweepOptions = {}): Networ
     options.onProgress?.(k + 1, freqs.length);
   }
   if (!Number.isNaN(worstAt)) {
-    options.onWarning?.(`the nodal system is nearly singular at ${formatHz(worstAt)} (reciprocal condition ${worstRcond.toExponential(1)}): the results there may have lost digits`, worstAt, worstRcond);
+    options.onWarning?.(`the nodal system is nearly singular at ${formatFrequency(worstAt)} (reciprocal condition ${worstRcond.toExponential(1)}): the results there may have lost digits`, worstAt, worstRcond);
   }
   return {
     parameter: 'S',
@@ -303,25 +304,10 @@ function checkRanges(circuit: Circuit, freqs: Float64Array): void {
     lo = Math.min(lo, f);
     hi = Math.max(hi, f);
   }
-  for (const el of circuit.elements) {
-    const range = ELEMENTS.get(el.type)!.frequencyRange?.(el);
-    if (!range) continue;
-    const tol = 1e-9 * Math.max(range[1], 1);
-    if (lo < range[0] - tol || hi > range[1] + tol) {
-      throw new RangeError(`the frequencies (${formatHz(lo)} to ${formatHz(hi)}) reach outside the data of ${el.name} (${formatHz(range[0])} to ${formatHz(range[1])})`);
-    }
+  const bad = outsideRange(circuit.elements, lo, hi)[0];
+  if (bad) {
+    throw new RangeError(`the frequencies (${formatFrequency(lo)} to ${formatFrequency(hi)}) reach outside the data of ${bad.element.name} (${formatFrequency(bad.range[0])} to ${formatFrequency(bad.range[1])})`);
   }
-}
-
-function formatHz(f: number): string {
-  if (f === 0) return '0 Hz';
-  const units: [number, string][] = [
-    [1e9, 'GHz'],
-    [1e6, 'MHz'],
-    [1e3, 'kHz'],
-  ];
-  for (const [s, u] of units) if (f >= s) return `${Number((f / s).toPrecision(9))} ${u}`;
-  return `${Number(f.toPrecision(9))} Hz`;
 }
 
 /**
@@ -344,7 +330,7 @@ function explainSingular(circuit: Circuit, plan: StampPlan, f: number, pivot: nu
   }
   for (const p of circuit.ports) sets.join(p.plus, p.minus);
   const floating = circuit.nodeNames.filter((_, i) => !sets.grounded(i));
-  const at = formatHz(f);
+  const at = formatFrequency(f);
   if (floating.length > 0) {
     const shown = floating.slice(0, 8).map((n) => `\`${n}\``);
     if (floating.length > 8) shown.push(`and ${floating.length - 8} more`);
