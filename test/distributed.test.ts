@@ -207,15 +207,18 @@ describe('line: matched lossless section [TL]', () => {
     expect(abs(s(g2, 0, 1, 1))).toBeGreaterThan(0.1); // a mismatched line does reflect
   });
 
-  it('with two separately floating pairs the potential between them is undetermined: a singular system', () => {
+  it('with two separately floating pairs, each pair gets a reference of its own: a matched line, S21 = e^(−jθ)', () => {
     // The section couples only the voltage across each pair, so nothing fixes the level of one pair
-    // against the other (as with an ideal transformer's two windings).
-    expect(() =>
-      solve(
-        'line l1 a=p b=q a_ret=pr b_ret=qr z0=100 ohm theta=50 deg at 1 GHz\nsweep list freqs=1 GHz\n' +
-          'port 1 plus=p minus=pr ref=100 ohm\nport 2 plus=q minus=qr ref=100 ohm\n',
-      ),
-    ).toThrow(SingularSystemError);
+    // against the other (as with an ideal transformer's two windings); the element says so
+    // (its connections), each pair becomes a group with a port, and S is that of the line
+    // (matched lossless line, common practice).
+    const net = solve(
+      'line l1 a=p b=q a_ret=pr b_ret=qr z0=100 ohm theta=50 deg at 1 GHz\nsweep list freqs=1 GHz\n' +
+        'port 1 plus=p minus=pr ref=100 ohm\nport 2 plus=q minus=qr ref=100 ohm\n',
+    );
+    const th = (50 * Math.PI) / 180;
+    expectNear(s(net, 0, 2, 1), { re: Math.cos(th), im: -Math.sin(th) }, 1e-12, 'S21');
+    expectNear(s(net, 0, 1, 1), cx(0), 1e-12, 'S11');
   });
 });
 

@@ -592,6 +592,12 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
     }
   }
 
+  // Warnings of the elements' own (models outside their ranges, lengths that look mistyped).
+  if (frequencies.length > 0 && !bag.hasErrors) {
+    const top = frequencies[frequencies.length - 1]!;
+    for (const el of elements) for (const w of ELEMENTS.get(el.type)!.warnings?.(el, top) ?? []) bag.warning('element-range', `\`${el.name}\`: ${w}`, el.span);
+  }
+
   // Ports: numbered 1..N without gaps.
   const portList = [...ports.values()].sort((a, b) => a.number - b.number);
   if (!topStatements.some((st) => st.keyword === 'port') && !ast.failedKeywords.includes('port')) {

@@ -132,7 +132,7 @@ export function evaluate(e: Expr, scope: EvalScope, bag: DiagnosticBag): Quantit
     case 'binary': {
       // `0.5 dB/m`, `3 V*s`: a unit right after a number may be divided or multiplied by a further
       // unit name, when no parameter has that name.
-      if ((e.op === '/' || e.op === '*') && e.left.kind === 'number' && e.left.unit !== undefined && e.right.kind === 'name' && scope.lookup(e.right.name) === undefined) {
+      if ((e.op === '/' || e.op === '*') && e.left.kind === 'number' && e.left.unit !== undefined && e.right.kind === 'name' && scope.lookup(e.right.name) === undefined && scope.explainMissing?.(e.right.name) === undefined) {
         const compound = `${normaliseUnit(e.left.unit)}${e.op}${normaliseUnit(e.right.name)}`;
         if (unitOf(e.left.unit) && unitOf(e.right.name)) return math.unit(e.left.value, compound);
       }

@@ -188,6 +188,18 @@ const TWO_PI = 2 * Math.PI;
 // ------------------------------------------------------------------------------------------------
 // the element
 
+/**
+ * An electrical length of more than two turns is almost always `theta=90` meant as degrees (a bare
+ * number is in radians).
+ */
+export function temSectionWarnings(el: ElementInstance): string[] {
+  const th = el.props.theta;
+  if (th !== undefined && Math.abs(th) > 4 * Math.PI) {
+    return [`its electrical length is ${Number(th.toPrecision(4))} rad (${Number(((th * 180) / Math.PI).toPrecision(5))}°); a bare number is in radians — for degrees write e.g. \`theta=${Number(th.toPrecision(4))} deg\``];
+  }
+  return [];
+}
+
 export const line: ElementType = {
   keyword: 'line',
   summary: 'ideal TEM transmission line from a to b (optional return terminals a_ret, b_ret), with optional loss',
@@ -198,8 +210,15 @@ export const line: ElementType = {
     { key: 'a_ret', doc: 'return conductor at the first end', defaultNode: 'ground' },
     { key: 'b_ret', doc: 'return conductor at the second end', defaultNode: 'ground' },
   ],
+  // each end's pair has its own common level: an ideal TEM two-port fixes only v(a, a_ret) and
+  // v(b, b_ret), so a pair with no path to ground of its own needs a reference of its own
+  connections: [
+    [0, 2],
+    [1, 3],
+  ],
   properties: TEM_SECTION_PROPERTIES,
   validate: validateTemSection,
+  warnings: (el) => temSectionWarnings(el),
   compile(el, b) {
     const section = temSectionOf(el);
     const [a, bb, aRet, bRet] = el.nodes as [number, number, number, number];

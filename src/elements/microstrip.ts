@@ -54,6 +54,7 @@ export function microstripIssues(el: ElementInstance, maxFrequency: number): str
 }
 
 export const microstrip: ElementType = {
+  warnings: (el, maxFrequency) => microstripIssues(el, maxFrequency),
   keyword: 'microstrip',
   summary: 'microstrip line from a to b over ground, from width, substrate and length (dispersion and losses per frequency)',
   example: 'microstrip feed a=in b=out w=1.5 mm h=0.8 mm t=35 um er=4.4 tand=0.02 length=17 mm',

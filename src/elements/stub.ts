@@ -1,5 +1,5 @@
 import { lineAbcdFromGammaLength, lineGammaLength, type TemLine } from '../models/line.js';
-import { addSlot, TEM_SECTION_PROPERTIES, temSectionOf, validateTemSection } from './line.js';
+import { addSlot, TEM_SECTION_PROPERTIES, temSectionOf, temSectionWarnings, validateTemSection } from './line.js';
 import type { ElementType, StampBuilder, TerminalSpec } from './types.js';
 
 /**
@@ -65,6 +65,7 @@ export const openStub: ElementType = {
   terminals: STUB_TERMINALS,
   properties: TEM_SECTION_PROPERTIES,
   validate: validateTemSection,
+  warnings: (el) => temSectionWarnings(el),
   // Zin = Z0·coth(γℓ) is infinite at 0 Hz (the model has no DC loss): no DC path between a and b.
   openAt: (_el, omega) => omega === 0,
   compile(el, b) {
@@ -80,6 +81,7 @@ export const shortStub: ElementType = {
   terminals: STUB_TERMINALS,
   properties: TEM_SECTION_PROPERTIES,
   validate: validateTemSection,
+  warnings: (el) => temSectionWarnings(el),
   compile(el, b) {
     const s = stubSlots(b, el.nodes[0]!, el.nodes[1]!, el.name, 'current into the far end');
     return compileStub(temSectionOf(el), s, false);

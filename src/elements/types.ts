@@ -104,6 +104,8 @@ export interface ElementType {
    * (and has reported why through `ctx.fail`).
    */
   resolve?(el: ElementInstance, ctx: ResolveContext): TerminalSpec[] | undefined;
+  /** Warnings about the element for a sweep up to `maxFrequency` (Hz): models used outside their ranges, say. */
+  warnings?(el: ElementInstance, maxFrequency: number): string[];
   /** The frequency range (Hz) the element is defined over, if limited (measured data). */
   frequencyRange?(el: ElementInstance): [number, number] | undefined;
   /** Cross-property rules (e.g. two loss forms given at once); report problems through `fail`. */

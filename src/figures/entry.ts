@@ -223,6 +223,9 @@ export function inputImpedance(net: NetworkData, port: number, out?: Float64Arra
   const v = s.values;
   const n = s.ports;
   const z0 = s.references[port - 1]!;
+  // a complex reference Zr = R + jX (power waves, Kurokawa 1965): Zin = (Zr* + S·Zr)/(1 − S),
+  // which for X = 0 is the usual R·(1 + S)/(1 − S)
+  const x0 = s.referenceReactances?.[port - 1] ?? 0;
   for (let k = 0; k < points; k++) {
     const o = 2 * ((k * n + port - 1) * n + port - 1);
     const sr = v[o]!;
@@ -234,9 +237,11 @@ export function inputImpedance(net: NetworkData, port: number, out?: Float64Arra
       res[2 * k + 1] = Number.NaN;
       continue;
     }
-    // (1 + S)·conj(1 − S) / |1 − S|² = ((1 − |S|²) + 2j·Im S) / |1 − S|²
-    res[2 * k] = (z0 * (1 - sr * sr - si * si)) / d;
-    res[2 * k + 1] = (z0 * 2 * si) / d;
+    // numerator N = Zr* + S·Zr, then N·conj(1 − S)/|1 − S|²
+    const nr = z0 + sr * z0 - si * x0;
+    const ni = -x0 + sr * x0 + si * z0;
+    res[2 * k] = (nr * dr - ni * si) / d;
+    res[2 * k + 1] = (ni * dr + nr * si) / d;
   }
   return res;
 }
