@@ -107,9 +107,16 @@ export function loadNetlist(text: string, file: string, options: LoadOptions = {
 function expandIncludes(ast: NetlistAst, chain: string[], bag: DiagnosticBag, sources: Map<string, string>, read: (path: string) => string): NetlistAst {
   const statements: Statement[] = [];
   const failedKeywords = [...ast.failedKeywords];
+  let inBlock = false;
   for (const st of ast.statements) {
+    if (st.keyword === 'block') inBlock = true;
+    if (st.keyword === 'end') inBlock = false;
     if (st.keyword !== 'include') {
       statements.push(st);
+      continue;
+    }
+    if (inBlock) {
+      bag.error('not-in-block', '`include` cannot be used inside a block', st.keywordSpan, 'include the file at the top level; its blocks can then be used inside others');
       continue;
     }
     const arg = st.args[0];

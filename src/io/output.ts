@@ -52,7 +52,7 @@ export function renderNetwork(net: NetworkData, options: OutputOptions = {}, pat
     );
   }
   if (net.referenceReactances?.some((x) => x !== 0)) {
-    throw new OutputError('the ports have complex reference impedances, which network-data files cannot carry', 'renormalise to real references first (fromComplexReferences), or give the ports real `ref=` values');
+    throw new OutputError('the ports have complex reference impedances, which network-data files cannot carry', 'give the ports real references (leave out `ref_x`), or renormalise the data to real references first (in the library: fromComplexReferences)');
   }
   const data = options.parameter && options.parameter !== net.parameter ? convertNetwork(net, options.parameter) : net;
   switch (format) {
