@@ -17,7 +17,10 @@
  * - supervariables: variables of L_p with identical lists (found by hashing, then compared) are
  *   merged and carried on as one weighted variable (indistinguishable nodes);
  * - mass elimination: a variable whose only neighbour is the new element is eliminated with p;
- * - dense rows: variables of degree above max(16, 10·√n) are held back and ordered last.
+ * - dense rows: variables of degree above max(16, 10·√n) are held back and ordered last (the
+ *   10·√n threshold as recalled from the paper's code, from memory);
+ * - ties between variables of the same degree are broken first-in first-out (our choice; see the
+ *   degree lists below).
  *
  * Not done (the ordering is still valid, only possibly a little worse or slower than the full
  * method): the post-ordering of the assembly tree, and in-place construction of L_p when E_p is

@@ -12,7 +12,9 @@
  * Each value taken is ‖A⁻¹y‖₁/‖y‖₁ for some y, so the estimate never exceeds ‖A⁻¹‖₁ and rcond never
  * falls below the true 1/κ₁(A).
  *
- * Costs about five solves with one right-hand side. No allocation.
+ * Costs three to eleven solves with one right-hand side (A or Aᴴ), typically five to seven; moduli
+ * are taken as √(re² + im²), fine for the magnitudes of nodal systems (no overflow below ~1e150).
+ * No allocation.
  *
  * @module
  */
@@ -83,7 +85,9 @@ export function inverseNorm1Estimate(f: SparseFactor): number {
     signOf(n, v, z);
     solveConjTransposed(f, z, z);
     const jNew = argMaxAbs(n, z);
-    if (Math.hypot(z[2 * j]!, z[2 * j + 1]!) >= Math.hypot(z[2 * jNew]!, z[2 * jNew + 1]!)) break;
+    const zj = z[2 * j]! * z[2 * j]! + z[2 * j + 1]! * z[2 * j + 1]!;
+    const zn = z[2 * jNew]! * z[2 * jNew]! + z[2 * jNew + 1]! * z[2 * jNew + 1]!;
+    if (zj >= zn) break;
   }
   for (let i = 0; i < n; i++) {
     v[2 * i] = (i % 2 === 0 ? 1 : -1) * (1 + i / (n - 1));
@@ -120,12 +124,15 @@ function norm1(n: number, v: Float64Array): number {
   return s;
 }
 
+/** out_i = v_i/|v_i| (1 where v_i = 0). `out` may be `v`. */
 function signOf(n: number, v: Float64Array, out: Float64Array): void {
   for (let i = 0; i < n; i++) {
-    const r = Math.hypot(v[2 * i]!, v[2 * i + 1]!);
+    const re = v[2 * i]!;
+    const im = v[2 * i + 1]!;
+    const r = Math.sqrt(re * re + im * im);
     if (r > 0) {
-      out[2 * i] = v[2 * i]! / r;
-      out[2 * i + 1] = v[2 * i + 1]! / r;
+      out[2 * i] = re / r;
+      out[2 * i + 1] = im / r;
     } else {
       out[2 * i] = 1;
       out[2 * i + 1] = 0;

@@ -18,9 +18,10 @@
  *   sequence into fixed positions: the slot values are written straight into their places in the
  *   factor storage, then for every column j and every k in U(:, j) (in a topological order) the
  *   update L(:, k)·u_kj is subtracted at precomputed target positions of column j, then column j
- *   of L is scaled by 1/u_jj. Each pivot is checked: max_i |l_ij| ≤ 1/τ_r, i.e.
- *   |u_jj| ≥ τ_r·max_i |a_ij| over the column being eliminated (τ_r = 0.01 by default, below τ so
- *   that a sweep does not flip between the two). When the check fails it returns
+ *   of L is scaled by 1/u_jj. Each pivot is checked: max_i |l_ij| ≤ 1/τ_r, i.e. (up to the factor
+ *   √2 between |Re| + |Im| and the modulus) |u_jj| ≥ τ_r·max_i |x_ij| over the column being
+ *   eliminated (τ_r = 0.01 by default, below τ so that a sweep does not flip between the two; our
+ *   choice). When the check fails it returns
  *   {@link NEEDS_PIVOTING} and the caller runs {@link factor} (see {@link refactorOrFactor}).
  *   When the list of update targets would exceed `maxUpdateList` entries, refactor instead runs the
  *   left-looking scheme with a dense work vector (scatter, update, gather), which needs no list.
@@ -30,7 +31,10 @@
  *
  * Storage: one array of entries for L and U together, by columns; column j holds first its U
  * entries (rows < j, topological order), then the pivot u_jj, then its L entries (rows > j). Row
- * lists of L and U (entry numbers) are kept as well, for the row-oriented solves in solve.ts.
+ * lists of L (entry numbers) are kept as well, for the row-oriented forward solve in solve.ts.
+ *
+ * Non-finite values are reported (SINGULAR) when they reach a pivot column; {@link factor} also
+ * checks the U entries.
  *
  * Allocation: {@link createFactor} allocates everything for the analysed pattern (with 25 % + n room
  * in every factor array). {@link refactor} and the solves never allocate. {@link factor} allocates
@@ -427,6 +431,7 @@ export function factor(f: SparseFactor, values: Float64Array): FactorStatus {
   let swaps = 0;
   let lnz = 0;
   let unz = 0;
+  let uFinite = true;
   lStart[0] = 0;
   uStart[0] = 0;
 
@@ -507,6 +512,7 @@ export function factor(f: SparseFactor, values: Float64Array): FactorStatus {
       uVal[2 * unz] = ur;
       uVal[2 * unz + 1] = ui;
       unz++;
+      if (!(Math.abs(ur) + Math.abs(ui) < Infinity)) uFinite = false;
       if (ur === 0 && ui === 0) continue;
       const q1 = lStart[k + 1]!;
       for (let q = lStart[k]!; q < q1; q++) {
@@ -535,7 +541,7 @@ export function factor(f: SparseFactor, values: Float64Array): FactorStatus {
       }
       if (r === preferred) prefMag = m;
     }
-    if (nLower === 0 || !(bestMag > 0) || !finite) {
+    if (nLower === 0 || !(bestMag > 0) || !finite || !uFinite) {
       for (let t = 0; t < nLower; t++) {
         const r2 = 2 * lower[t]!;
         x[r2] = 0;
@@ -754,7 +760,10 @@ function eliminateByList(f: SparseFactor): number {
   return -1;
 }
 
-/** Real part of 1/(dr + j·di) by Smith's method (safe from overflow and underflow far out). */
+/**
+ * Real part of 1/(dr + j·di) by Smith's method (R. L. Smith, "Algorithm 116: Complex division",
+ * Comm. ACM 5(8), 1962 — reference from memory), safe from overflow and underflow far out.
+ */
 function smithReal(dr: number, di: number): number {
   if (Math.abs(dr) >= Math.abs(di)) {
     const r = di / dr;
