@@ -75,7 +75,7 @@ async function one(kind, size) {
   const points = kind === 'ladder' ? (size >= 100000 ? 101 : size >= 10000 ? 401 : size >= 1000 ? 4001 : 20001) : 2001;
   const sweep = kind === 'data16' ? `sweep linear start=100 MHz stop=4 GHz points=${points}` : `sweep linear start=1 MHz stop=3 GHz points=${points}`;
   let text;
-  if (kind === 'ladder') text = ladder(size, sweep);
+  if (kind === 'ladder' || kind === 'mathjs') text = ladder(size, sweep);
   else if (kind === 'mesh') text = mesh(size, sweep);
   else if (kind === 'data16') text = await dataBlock(dir, sweep);
   else if (kind === 'elaborate') {

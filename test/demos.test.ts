@@ -12,7 +12,7 @@ import { solveSweep } from '../src/solve/sweep.js';
 const dir = join(import.meta.dirname, '..', 'circuits');
 const demos = readdirSync(dir).filter((f) => f.endsWith('.sbx')).sort();
 /** Demos with active elements (controlled sources): neither reciprocal nor passive by design. */
-const ACTIVE = new Set(['lna-2g44.sbx']);
+const ACTIVE = new Set(['lna-2g44.sbx', 'hf-feedback-amp-30m.sbx', 'optical-rx-tia-10m.sbx']);
 
 describe('demo circuits', () => {
   it('there are at least four', () => expect(demos.length).toBeGreaterThanOrEqual(4));
