@@ -1,5 +1,5 @@
 import type { CstNode, IToken, IRecognitionException } from 'chevrotain';
-import { parseToCst } from '../parse/parser.js';
+import { parseLines, type ParsedLine } from '../parse/parser.js';
 import { DiagnosticBag, type SourceSpan } from '../diagnostics/diagnostic.js';
 import { joinSpans, type Arg, type Expr, type NetlistAst, type Statement } from './ast.js';
 
@@ -196,18 +196,15 @@ function explain(e: IRecognitionException, line: IToken[]): { message: string; h
 
 /** Parses a netlist text to its AST, reporting every lexical and grammar error into `bag`. */
 export function parseNetlist(text: string, file: string, bag: DiagnosticBag): NetlistAst {
-  const cst = parseToCst(text);
-  for (const e of cst.lexErrors) {
-    bag.error('syntax', e.message, { file, line: e.line, column: e.column, length: e.length });
-  }
   const builder = new AstBuilder(file);
   const statements: Statement[] = [];
   const failedKeywords: string[] = [];
-  for (const line of cst.lines) {
+  // each line's CST becomes AST at once and is dropped: a large netlist never holds its whole CST
+  const lexErrors = parseLines(text, (line: ParsedLine) => {
     if (line.openString) {
       bag.error('syntax', 'this quoted string is not closed', tokSpan(file, line.openString), 'end it with `"` on the same line');
       failedKeywords.push(line.tokens[0]!.image);
-      continue;
+      return;
     }
     if (line.errors.length > 0) {
       const { message, help, at, pastEnd } = explain(line.errors[0]!, line.tokens);
@@ -219,10 +216,13 @@ export function parseNetlist(text: string, file: string, bag: DiagnosticBag): Ne
       }
       bag.error('syntax', message, span, help);
       failedKeywords.push(line.tokens[0]!.image);
-      continue;
+      return;
     }
     const st = line.cst!.children.statement as CstNode[];
     statements.push(builder.statement(st[0]!));
+  });
+  for (const e of lexErrors) {
+    bag.error('syntax', e.message, { file, line: e.line, column: e.column, length: e.length });
   }
   return { file, statements, failedKeywords };
 }

@@ -45,6 +45,7 @@ export type SourceMap = ReadonlyMap<string, string>;
 /** Collects diagnostics in the order they are found. */
 export class DiagnosticBag {
   readonly items: Diagnostic[] = [];
+  private readonly seen = new Set<string>();
   error(code: string, message: string, span?: SourceSpan, help?: string): void {
     this.add({ severity: 'error', code, message, span, help });
   }
@@ -56,14 +57,10 @@ export class DiagnosticBag {
   }
   /** Adds a diagnostic unless the very same one is there already (a block used twice repeats its findings). */
   add(d: Diagnostic): void {
-    const same = (x: Diagnostic) =>
-      x.severity === d.severity &&
-      x.code === d.code &&
-      x.message === d.message &&
-      x.span?.file === d.span?.file &&
-      x.span?.line === d.span?.line &&
-      x.span?.column === d.span?.column;
-    if (!this.items.some(same)) this.items.push(d);
+    const key = `${d.severity}\u0000${d.code}\u0000${d.message}\u0000${d.span?.file}\u0000${d.span?.line}\u0000${d.span?.column}`;
+    if (this.seen.has(key)) return;
+    this.seen.add(key);
+    this.items.push(d);
   }
 }
 

@@ -5,7 +5,7 @@ import { ELEMENTS, joinedNodes, outsideRange } from '../elements/registry.js';
 import { GROUND, GROUND_NAME, type ElementInstance, type PropertySpec, type TerminalSpec } from '../elements/types.js';
 import type { NetworkData } from '../network/types.js';
 import type { Circuit, ParameterValue, Port } from './circuit.js';
-import { describeUnit, evaluate, math, toSI, type EvalScope, type Quantity } from './evaluate.js';
+import { describeUnit, evaluate, literalToSI, math, toSI, toSICached, type EvalScope, type Quantity } from './evaluate.js';
 import { dirname, isAbsolute, join } from 'node:path';
 import { formatFrequency } from '../format/frequency.js';
 import { floatingGroups } from './islands.js';
@@ -144,7 +144,7 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
 
   const nodeIndex = new Map<string, number>();
   const nodeNames: string[] = [];
-  const nodeUses: { count: number; first: SourceSpan; by: string[]; elementUses: number }[] = [];
+  const nodeUses: { count: number; first: SourceSpan; by: string; elementUses: number }[] = [];
   const useNode = (name: string, span: SourceSpan, by: string, isPort: boolean): number => {
     if (name === GROUND_NAME) return GROUND;
     let i = nodeIndex.get(name);
@@ -152,7 +152,7 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
       i = nodeNames.length;
       nodeIndex.set(name, i);
       nodeNames.push(name);
-      nodeUses.push({ count: 0, first: span, by: [], elementUses: 0 });
+      nodeUses.push({ count: 0, first: span, by, elementUses: 0 });
     }
     countUse(i, by, isPort);
     return i;
@@ -160,7 +160,6 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
   function countUse(i: number, by: string, isPort: boolean) {
     const u = nodeUses[i]!;
     u.count++;
-    u.by.push(by);
     if (!isPort) u.elementUses++;
   }
 
@@ -387,9 +386,14 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
       bag.error('bad-value', `\`${a.key}\` takes one value`, a.span);
       return undefined;
     }
-    const q = evaluate(a.values[0]!, evalScope(ctx), bag);
-    if (q === undefined) return undefined;
-    const r = toSI(q, unit);
+    const e = a.values[0]!;
+    let r: { value: number } | { error: string } | undefined;
+    if (e.kind === 'number' && Number.isFinite(e.value)) r = literalToSI(e.value, e.unit, unit);
+    if (!r) {
+      const q = evaluate(e, evalScope(ctx), bag);
+      if (q === undefined) return undefined;
+      r = toSICached(q, unit);
+    }
     if ('error' in r) {
       bag.error('wrong-unit', `\`${a.key}\` must be ${unit === null ? 'a plain number' : article(quantity) + ` (${unit})`}, but ${r.error}`, a.values[0]!.span, unitHelp(unit));
       return undefined;
@@ -638,9 +642,9 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
   if (!bag.hasErrors) nodeUses.forEach((u, i) => {
     const name = nodeNames[i]!;
     if (u.elementUses === 0) {
-      bag.warning('port-on-bare-node', `${u.by[0]} is on node \`${name}\`, which no element touches`, u.first);
+      bag.warning('port-on-bare-node', `${u.by} is on node \`${name}\`, which no element touches`, u.first);
     } else if (u.count === 1) {
-      bag.warning('dangling-node', `node \`${name}\` has a single connection (${u.by[0]})`, u.first, didYouMean(name, nodeNames.filter((n) => n !== name)) ?? 'check the spelling of the node name');
+      bag.warning('dangling-node', `node \`${name}\` has a single connection (${u.by})`, u.first, didYouMean(name, nodeNames.filter((n) => n !== name)) ?? 'check the spelling of the node name');
     }
   });
   for (const [key, d] of definitions) {

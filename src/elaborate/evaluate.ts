@@ -225,3 +225,40 @@ export function toSI(x: Quantity, unit: string | null): { value: number } | { er
   if (!x.equalBase(want)) return { error: `it is ${describeQuantity(x)}` };
   return { value: x.toNumber(unit) };
 }
+
+/** Conversion factors of plain `number unit` literals, by unit and target: elaboration's fast path. */
+const literalFactors = new Map<string, { factor: number } | { error: string }>();
+
+/**
+ * The SI value of a literal such as `4.7 pF` for a quantity in `unit`, without building a mathjs
+ * value for each one: the factor of each unit is found once with mathjs and kept. Undefined when
+ * the literal needs the general path (an unknown unit, a warning to give).
+ */
+export function literalToSI(value: number, unitName: string | undefined, unit: string | null): { value: number } | { error: string } | undefined {
+  if (unitName === undefined) return { value };
+  const name = normaliseUnit(unitName);
+  if (name === 'mHz') return undefined;
+  const key = `${name}\u0000${unit ?? ''}`;
+  let f = literalFactors.get(key);
+  if (!f) {
+    const u = unitOf(name);
+    if (!u) return undefined;
+    const r = toSI(u, unit);
+    f = 'error' in r ? r : { factor: r.value };
+    literalFactors.set(key, f);
+  }
+  return 'error' in f ? f : { value: value * f.factor };
+}
+
+/** toSI of parameter values, kept per value object: a parameter used by many elements converts once. */
+const convertedValues = new WeakMap<object, Map<string, { value: number } | { error: string }>>();
+
+export function toSICached(x: Quantity, unit: string | null): { value: number } | { error: string } {
+  if (typeof x === 'number') return { value: x };
+  let m = convertedValues.get(x);
+  if (!m) convertedValues.set(x, (m = new Map()));
+  const key = unit ?? '';
+  let r = m.get(key);
+  if (!r) m.set(key, (r = toSI(x, unit)));
+  return r;
+}

@@ -56,4 +56,4 @@ export const allTokens: TokenType[] = [
   Caret,
 ];
 
-export const netlistLexer = new Lexer(allTokens, { positionTracking: 'full', ensureOptimizations: false });
+export const netlistLexer = new Lexer(allTokens, { positionTracking: 'onlyStart', ensureOptimizations: true });

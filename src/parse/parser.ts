@@ -204,6 +204,17 @@ export interface CstFile {
  * does not hide mistakes on the others.
  */
 export function parseToCst(text: string): CstFile {
+  const lines: ParsedLine[] = [];
+  const lexErrors = parseLines(text, (line) => lines.push(line));
+  return { lines, lexErrors };
+}
+
+/**
+ * Like {@link parseToCst}, but hands each parsed line to `onLine` as soon as it is parsed, so a
+ * caller that turns lines into something smaller (the AST) never holds the whole file's CST.
+ * Returns the lexical errors.
+ */
+export function parseLines(text: string, onLine: (line: ParsedLine) => void): LexError[] {
   const lexed = netlistLexer.tokenize(text);
   const lexErrors: LexError[] = lexed.errors.map((e) => ({
     line: e.line ?? 1,
@@ -211,20 +222,19 @@ export function parseToCst(text: string): CstFile {
     length: e.length,
     message: `unexpected character ${JSON.stringify(text.substr(e.offset, 1))}`,
   }));
-  const lines: ParsedLine[] = [];
   let current: IToken[] = [];
   const flush = () => {
     if (current.length === 0) return;
     const open = current.find((t) => t.tokenType === OpenString);
     if (open) {
-      lines.push({ cst: undefined, tokens: current, errors: [], openString: open });
+      onLine({ cst: undefined, tokens: current, errors: [], openString: open });
       current = [];
       return;
     }
     parser.input = current;
     const cst = parser.line();
     const errors = parser.errors.slice();
-    lines.push({ cst: errors.length ? undefined : cst, tokens: current, errors });
+    onLine({ cst: errors.length ? undefined : cst, tokens: current, errors });
     current = [];
   };
   for (const tok of lexed.tokens) {
@@ -232,5 +242,5 @@ export function parseToCst(text: string): CstFile {
     else current.push(tok);
   }
   flush();
-  return { lines, lexErrors };
+  return lexErrors;
 }
