@@ -1,6 +1,6 @@
 import { existsSync, mkdirSync } from 'node:fs';
 import { availableParallelism } from 'node:os';
-import { solveSweepParallel } from '../src/solve/parallel.js';
+import { closeSweepPool, solveSweepParallel } from '../src/solve/parallel.js';
 import { solveSweep } from '../src/solve/sweep.js';
 import type { Circuit } from '../src/elaborate/circuit.js';
 import { basename, extname, join } from 'node:path';
@@ -232,6 +232,7 @@ export async function main(argv: string[], io: Io = defaultIo): Promise<number> 
   try {
     await parser.parseAsync();
   } catch (e) {
+    await closeSweepPool();
     if (e instanceof UsageError) {
       io.err(`scatterbox: ${e.message}\nRun \`scatterbox --help\` for usage.\n`);
       return EXIT_USAGE;
@@ -239,6 +240,7 @@ export async function main(argv: string[], io: Io = defaultIo): Promise<number> 
     io.err(`scatterbox: internal error: ${(e as Error).stack ?? String(e)}\n`);
     return EXIT_INPUT;
   }
+  await closeSweepPool();
   return code;
 }
 
@@ -259,8 +261,12 @@ interface SolveArgs {
   quiet: boolean;
 }
 
-/** Sweeps long enough to be worth starting worker threads for. */
-const PARALLEL_MIN_POINTS = 256;
+/**
+ * Sweeps big enough to be worth starting worker threads for: points × (nodes + elements), a
+ * rough measure of the work (starting and warming the workers costs about as much as a few
+ * hundred thousand of those).
+ */
+const PARALLEL_MIN_WORK = 2_000_000;
 
 /** Sweeps long enough to show progress for (on a terminal, without --quiet). */
 const PROGRESS_MIN_POINTS = 2000;
@@ -268,7 +274,8 @@ const PROGRESS_MIN_POINTS = 2000;
 async function solveWith(circuit: Circuit, jobs: number, quiet = false) {
   const bar = !quiet && process.stderr.isTTY && circuit.frequencies.length >= PROGRESS_MIN_POINTS ? progressBar('sweep', circuit.frequencies.length) : undefined;
   try {
-    if (jobs > 1 && circuit.frequencies.length >= PARALLEL_MIN_POINTS) return await solveSweepParallel(circuit, { jobs, onProgress: bar?.update });
+    const work = circuit.frequencies.length * (circuit.nodeNames.length + circuit.elements.length);
+    if (jobs > 1 && circuit.frequencies.length >= 2 * jobs && work >= PARALLEL_MIN_WORK) return await solveSweepParallel(circuit, { jobs, onProgress: bar?.update });
     return solveSweep(circuit, { onProgress: bar?.update });
   } finally {
     bar?.stop();

@@ -75,4 +75,4 @@ export { convertData, type ConvertOptions, type ConvertTarget } from './io/conve
 export { evaluateQuantity } from './load.js';
 export { microstripStatic, microstripDispersive, microstripWidth, microstripAt } from './models/microstrip.js';
 export { renderReport, renderPlotSvg, type ReportInput, type PlotSvgOptions } from './report/index.js';
-export { solveSweepParallel, type ParallelOptions } from './solve/parallel.js';
+export { solveSweepParallel, closeSweepPool, type ParallelOptions } from './solve/parallel.js';

@@ -1,7 +1,7 @@
 // Parallel sweeps: the same numbers as the single-thread run, bit for bit.
-import { describe, expect, it } from 'vitest';
+import { afterAll, describe, expect, it } from 'vitest';
 import { loadNetlist } from '../src/load.js';
-import { solveSweepParallel } from '../src/solve/parallel.js';
+import { closeSweepPool, solveSweepParallel } from '../src/solve/parallel.js';
 import { SingularSystemError, solveSweep } from '../src/solve/sweep.js';
 
 function ladder(sections: number): string {
@@ -13,6 +13,8 @@ function ladder(sections: number): string {
   l.push('port 1 plus=n0', `port 2 plus=n${sections}`, 'sweep linear start=1 MHz stop=2 GHz points=401');
   return l.join('\n') + '\n';
 }
+
+afterAll(closeSweepPool);
 
 describe('solveSweepParallel', () => {
   it('gives bit-identical results to the single-thread sweep', async () => {

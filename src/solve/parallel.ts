@@ -23,6 +23,26 @@ function workerFile(): string {
   return compiled;
 }
 
+let shared: { pool: Tinypool; jobs: number } | undefined;
+
+/**
+ * The worker pool, kept between sweeps so that its threads start (and warm up) once; a different
+ * thread count replaces it. {@link closeSweepPool} ends it (the process does not exit while it runs).
+ */
+async function poolFor(jobs: number): Promise<Tinypool> {
+  if (shared && shared.jobs === jobs) return shared.pool;
+  await closeSweepPool();
+  shared = { pool: new Tinypool({ filename: workerFile(), minThreads: jobs, maxThreads: jobs, isolateWorkers: false }), jobs };
+  return shared.pool;
+}
+
+/** Ends the worker threads of parallel sweeps (call it when done, so that the process can exit). */
+export async function closeSweepPool(): Promise<void> {
+  const s = shared;
+  shared = undefined;
+  if (s) await s.pool.destroy();
+}
+
 /**
  * Solves the sweep on worker threads, the frequencies split into one contiguous share per
  * worker. Every frequency point is solved by the same code on the same data as in
@@ -32,8 +52,8 @@ export async function solveSweepParallel(circuit: Circuit, options: ParallelOpti
   const freqs = options.frequencies ?? circuit.frequencies;
   const jobs = Math.max(1, Math.min(options.jobs ?? availableParallelism(), freqs.length));
   if (jobs === 1) return solveSweep(circuit, { frequencies: freqs, onProgress: options.onProgress });
-  const pool = new Tinypool({ filename: workerFile(), minThreads: jobs, maxThreads: jobs, isolateWorkers: false });
-  try {
+  const pool = await poolFor(jobs);
+  {
     const shares: Float64Array[] = [];
     let done = 0;
     for (let w = 0; w < jobs; w++) {
@@ -64,7 +84,5 @@ export async function solveSweepParallel(circuit: Circuit, options: ParallelOpti
     }
     const first = solveSweep(circuit, { frequencies: freqs.subarray(0, 0) });
     return { ...first, frequencies: Float64Array.from(freqs), values };
-  } finally {
-    await pool.destroy();
   }
 }
