@@ -227,6 +227,18 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
     }
   }
 
+  /** The full name of an element or instance (with the instance path), or undefined if taken (reported). */
+  function claimName(label: NonNullable<Statement['label']>, ctx: Context): string | undefined {
+    const name = ctx.prefix + label.text;
+    const prev = elementNames.get(name);
+    if (prev) {
+      bag.error('duplicate-name', `an element named \`${name}\` exists already (line ${prev.line})`, label.span);
+      return undefined;
+    }
+    elementNames.set(name, label.span);
+    return name;
+  }
+
   function instantiate(st: Statement, block: BlockDefinition, ctx: Context) {
     const what = `block \`${block.name}\``;
     block.used = true;
@@ -239,13 +251,8 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
       bag.error('recursive-block', `${what} contains itself: ${chain}`, st.keywordSpan, 'a block cannot use itself, directly or through other blocks');
       return;
     }
-    const name = ctx.prefix + st.label.text;
-    const prev = elementNames.get(name);
-    if (prev) {
-      bag.error('duplicate-name', `an element named \`${name}\` exists already (line ${prev.line})`, st.label.span);
-      return;
-    }
-    elementNames.set(name, st.label.span);
+    const name = claimName(st.label, ctx);
+    if (name === undefined) return;
     const args = keyArgs(st, [...block.terminals, ...block.params.keys()], what);
     const terminals = new Map<string, number>();
     let ok = true;
@@ -423,13 +430,8 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
       bag.error('missing-name', `${what} needs a name after the keyword`, st.label?.span ?? st.keywordSpan, `e.g. \`${type.example}\``);
       return;
     }
-    const name = ctx.prefix + st.label.text;
-    const prev = elementNames.get(name);
-    if (prev) {
-      bag.error('duplicate-name', `an element named \`${name}\` exists already (line ${prev.line})`, st.label.span);
-      return;
-    }
-    elementNames.set(name, st.label.span);
+    const name = claimName(st.label, ctx);
+    if (name === undefined) return;
     const textKeys = (type.textProperties ?? []).map((p) => p.key);
     // Terminals may depend on the text properties (a data file's ports): allow any key that looks
     // like one until they are known.
