@@ -1,6 +1,6 @@
 // Makes docs/report.png: the report of circuits/bandpass-2g4.sbx in headless Chromium, with the
 // marker at 2.44 GHz, cut below the charts. Run from the repository root:
-//   npx tsx scripts/report-screenshot.ts [netlist] [out.png]
+//   npm run build && node scripts/report-screenshot.mjs [netlist] [out.png]
 // Needs /usr/bin/chromium (Debian's chromium package). Also leaves the HTML next to the PNG's
 // temporary folder for a look: the path is printed.
 import { mkdtempSync, writeFileSync } from 'node:fs';
@@ -8,10 +8,10 @@ import { tmpdir } from 'node:os';
 import { join, relative, resolve } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { chromium } from 'playwright-core';
-import { evaluateSpecs } from '../src/check/evaluate.js';
-import { loadNetlistFile } from '../src/load.js';
-import { renderReport } from '../src/report/index.js';
-import { solveSweep } from '../src/solve/sweep.js';
+import { evaluateSpecs } from '../dist/src/check/evaluate.js';
+import { loadNetlistFile } from '../dist/src/load.js';
+import { renderReport } from '../dist/src/report/index.js';
+import { solveSweep } from '../dist/src/solve/sweep.js';
 
 const netlist = process.argv[2] ?? 'circuits/bandpass-2g4.sbx';
 const out = resolve(process.argv[3] ?? 'docs/report.png');
@@ -32,9 +32,9 @@ try {
   const page = await context.newPage();
   await page.goto(pathToFileURL(file).href);
   await page.waitForSelector('html[data-ready="true"]');
-  await page.evaluate(() => (window as unknown as { scatterboxReport: { readoutAt(f: number): string } }).scatterboxReport.readoutAt(2.44e9));
+  await page.evaluate(() => window.scatterboxReport.readoutAt(2.44e9));
   const bottom = await page.evaluate(() => {
-    const r = document.querySelector('.charts')!.getBoundingClientRect();
+    const r = document.querySelector('.charts').getBoundingClientRect();
     return Math.ceil(r.bottom + window.scrollY + 16);
   });
   await page.screenshot({ path: out, fullPage: true, clip: { x: 0, y: 0, width: 1280, height: bottom } });
