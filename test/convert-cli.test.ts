@@ -39,6 +39,17 @@ describe('scatterbox convert', () => {
     v.forEach((x, i) => expect(x).toBeCloseTo(expected[i]!, 10));
   });
 
+  it('writes H of a series impedance as Touchstone 1.1: H = [[Z, 1], [−1, 0]], h11 = Z/R (common practice; normalisation of the standard, from memory)', () => {
+    const out = join(dir, 'h.s2p');
+    expect(run(['convert', join(dir, 'series.s2p'), '-o', out, '--to', 'H']).code).toBe(0);
+    const lines = readFileSync(out, 'utf8').split('\n').filter((l) => l && !l.startsWith('!'));
+    expect(lines[0]).toBe('# GHz H RI R 50');
+    // two-port order N11 N21 N12 N22
+    const v = lines[1]!.trim().split(/\s+/).map(Number);
+    const expected = [1, 30 / 50, 40 / 50, -1, 0, 1, 0, 0, 0];
+    v.forEach((x, i) => expect(x).toBeCloseTo(expected[i]!, 12));
+  });
+
   it('Z of a series element does not exist: a clear error, nothing written', () => {
     const r = run(['convert', join(dir, 'series.s2p'), '-o', join(dir, 'z.s2p'), '--to', 'Z']);
     expect(r.code).toBe(1);

@@ -4,7 +4,7 @@ import { convertNetwork, renormalizeNetwork } from '../network/convert.js';
 import { mixedMode, modeLabels, type PortPair } from '../network/mixed-mode.js';
 import type { NetworkData, ParameterKind } from '../network/types.js';
 import { OutputError, renderNetwork, type OutputOptions } from './output.js';
-import { encodeComplex, formatShortest, type ComplexFormat } from './touchstone.js';
+import { encodeComplex, formatShortest, formatTouchstoneHybrid, type ComplexFormat } from './touchstone.js';
 
 /** What `scatterbox convert` can turn network data into. */
 export type ConvertTarget = ParameterKind | TwoPortRepresentation;
@@ -94,10 +94,18 @@ export function convertData(net: NetworkData, options: ConvertOptions, path?: st
   if (to === 'ABCD' || to === 'T' || to === 'H') {
     if (s.ports !== 2) throw new OutputError(`${to} is a two-port representation, but the data has ${s.ports} ports`);
     const d = toTwoPort(s, to);
-    const format = options.format ?? (path ? (extname(path).toLowerCase() === '.json' ? 'json' : extname(path).toLowerCase() === '.csv' ? 'csv' : undefined) : 'csv');
+    const ext = path ? extname(path).toLowerCase() : '';
+    const format = options.format ?? (ext === '.json' ? 'json' : ext === '.csv' || !path ? 'csv' : /^\.s2p$/.test(ext) ? 'touchstone' : undefined);
     if (format === 'json') return formatTwoPortJson(d);
     if (format === 'csv') return formatTwoPortCsv(d, options.data ?? 'RI');
-    throw new OutputError(`Touchstone files hold S, Z or Y; write ${to} as .csv or .json`);
+    if (to === 'H') {
+      const sameRefs = s.references[0] === s.references[1];
+      return formatTouchstoneHybrid(
+        { frequencies: d.frequencies, values: d.values, references: s.references, comments },
+        { version: options.version ?? (sameRefs ? '1.1' : '2.0'), format: options.data ?? 'RI', frequencyUnit: options.frequencyUnit ?? 'GHz', digits: options.digits },
+      );
+    }
+    throw new OutputError(`Touchstone files hold S, Z, Y or (for two-ports) H; write ${to} as .csv or .json`);
   }
   comments = comments.length ? comments : [];
   return renderNetwork(s, { ...options, parameter: to, comments }, path);

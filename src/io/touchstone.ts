@@ -825,3 +825,44 @@ class Reader {
 export function parseTouchstone(text: string, opts: TouchstoneReadOptions = {}): NetworkData {
   return new Reader(text, opts).read();
 }
+
+/** Hybrid (H) parameters of a two-port over frequency, for {@link formatTouchstoneHybrid}. */
+export interface HybridTwoPort {
+  frequencies: Float64Array;
+  /** H11, H12, H21, H22 per frequency, complex interleaved (8 numbers a point); H11 in ohms, H22 in siemens. */
+  values: Float64Array;
+  /** The reference written in the option line (and [Reference] in 2.0); H itself does not depend on it. */
+  references: Float64Array;
+  title?: string;
+  comments?: string[];
+}
+
+/**
+ * Touchstone file of two-port H-parameters, which both versions allow for two-ports (option line
+ * parameter `H`; from memory of the standard). Version 1.1 normalises them to R: h11 = H11/R,
+ * h12 = H12, h21 = H21, h22 = H22·R; version 2.0 writes them as they are. The layout is the
+ * two-port one (N11 N21 N12 N22).
+ *
+ * Written through the Z path of {@link formatTouchstone}, whose normalisation divides every
+ * entry by R: the entries are scaled beforehand so that the division leaves exactly the H
+ * normalisation above, and the option line then names H.
+ */
+export function formatTouchstoneHybrid(h: HybridTwoPort, opts: TouchstoneWriteOptions = {}): string {
+  const version = opts.version ?? '1.1';
+  const r = h.references[0] ?? 50;
+  const v = Float64Array.from(h.values);
+  if (version === '1.1') {
+    for (let k = 0; k < h.frequencies.length; k++) {
+      for (const [e, s] of [
+        [1, r],
+        [2, r],
+        [3, r * r],
+      ] as const) {
+        v[8 * k + 2 * e] *= s;
+        v[8 * k + 2 * e + 1] *= s;
+      }
+    }
+  }
+  const text = formatTouchstone({ parameter: 'Z', ports: 2, frequencies: h.frequencies, references: h.references, values: v, title: h.title, comments: h.comments }, opts);
+  return text.replace(/^(# \S+) Z /m, '$1 H ');
+}
