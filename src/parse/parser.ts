@@ -237,10 +237,16 @@ export function parseLines(text: string, onLine: (line: ParsedLine) => void): Le
     onLine({ cst: errors.length ? undefined : cst, tokens: current, errors });
     current = [];
   };
-  for (const tok of lexed.tokens) {
+  // the token vector is emptied as lines are parsed, so that a large file's tokens can be
+  // collected line by line instead of all living until the end
+  const tokens = lexed.tokens;
+  for (let i = 0; i < tokens.length; i++) {
+    const tok = tokens[i]!;
+    (tokens as (IToken | undefined)[])[i] = undefined;
     if (tok.tokenType === Newline) flush();
     else current.push(tok);
   }
+  tokens.length = 0;
   flush();
   return lexErrors;
 }
