@@ -9,11 +9,14 @@ function tokSpan(file: string, t: IToken): SourceSpan {
   return { file, line: t.startLine ?? 1, column: t.startColumn ?? 1, length: Math.max(1, t.image.length) };
 }
 
-function nodes(c: Children, key: string): CstNode[] {
-  return (c[key] ?? []) as CstNode[];
+/** Shared for absent children, so that reading a CST allocates nothing for what is not there. */
+const NONE: readonly never[] = Object.freeze([]);
+
+function nodes(c: Children, key: string): readonly CstNode[] {
+  return (c[key] ?? NONE) as readonly CstNode[];
 }
-function toks(c: Children, key: string): IToken[] {
-  return (c[key] ?? []) as IToken[];
+function toks(c: Children, key: string): readonly IToken[] {
+  return (c[key] ?? NONE) as readonly IToken[];
 }
 
 /** Turns the concrete syntax tree into the plain AST; the grammar stays free of semantics. */
@@ -64,15 +67,22 @@ class AstBuilder {
 
   expression(node: CstNode): Expr {
     const c = node.children as Children;
-    return this.chain(nodes(c, 'operands').map((t) => this.term(t)), toks(c, 'operators'));
+    const operands = nodes(c, 'operands');
+    const ops = toks(c, 'operators');
+    // most values are a single term: no arrays for them
+    if (ops.length === 0) return this.term(operands[0]!);
+    return this.chain(operands.map((t) => this.term(t)), ops);
   }
 
   term(node: CstNode): Expr {
     const c = node.children as Children;
-    return this.chain(nodes(c, 'operands').map((f) => this.factor(f)), toks(c, 'operators'));
+    const operands = nodes(c, 'operands');
+    const ops = toks(c, 'operators');
+    if (ops.length === 0) return this.factor(operands[0]!);
+    return this.chain(operands.map((f) => this.factor(f)), ops);
   }
 
-  private chain(operands: Expr[], ops: IToken[]): Expr {
+  private chain(operands: Expr[], ops: readonly IToken[]): Expr {
     let acc = operands[0]!;
     for (let i = 0; i < ops.length; i++) {
       const right = operands[i + 1]!;
