@@ -122,6 +122,14 @@ describe('block errors are located', () => {
     expect(ds).toEqual([expect.objectContaining({ code: 'unknown-parameter', message: 'unknown parameter `zz`', span: expect.objectContaining({ line: 2, column: 33 }) })]);
   });
 
+  it('an error in a block body names the (first) instance it came from', () => {
+    const text = lines('block pad terminals=p r=10 ohm', '  resistor r1 a=p b=ground value=r', 'end', 'pad u1 p=in', 'pad u2 p=in r=1 pF', 'port 1 plus=in', 'sweep list freqs=1 GHz');
+    const ds = errors(text);
+    expect(ds).toHaveLength(1);
+    expect(ds[0]).toMatchObject({ code: 'wrong-unit', span: { line: 2 } });
+    expect(ds[0]!.help).toMatch(/in instance `u2` of block `pad` \(line 5\)$/);
+  });
+
   it('ports, sweeps and nested definitions are not allowed inside a block; a block needs `end`', () => {
     const ds = errors(lines('block x terminals=p', '  port 1 plus=p', 'end', 'x u p=in', 'resistor r a=in b=ground value=1 ohm', 'port 1 plus=in', 'sweep list freqs=1 GHz', 'block y terminals=q'));
     expect(ds.map((d) => [d.code, d.span?.line]).sort((x, y) => Number(x[1]) - Number(y[1]))).toEqual([

@@ -1,5 +1,5 @@
 import type { Arg, Expr, KeyArg, NetlistAst, Statement } from '../ast/ast.js';
-import { DiagnosticBag, type SourceSpan } from '../diagnostics/diagnostic.js';
+import { DiagnosticBag, type Diagnostic, type SourceSpan } from '../diagnostics/diagnostic.js';
 import { closest, didYouMean } from '../diagnostics/suggest.js';
 import { ELEMENTS, joinedNodes, outsideRange } from '../elements/registry.js';
 import { GROUND, GROUND_NAME, type ElementInstance, type PropertySpec, type TerminalSpec } from '../elements/types.js';
@@ -284,7 +284,27 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
       if (!definitions.has(key)) definitions.set(key, { name: p, span: def.span, failed: false, what: `parameter of block \`${block.name}\`` });
     }
     if (!ok) return;
-    run(block.body, { scope, prefix: `${name}.`, terminals, chain: [...ctx.chain, block.name], later: laterOf(block.body) });
+    // Findings inside the body say which instance they came from (the first one, when several
+    // instances give the same finding, which is then reported once).
+    const outerBag = bag;
+    const bodyFile = block.header.span.file;
+    const bodyLines = block.body.map((b) => b.span.line);
+    const first = Math.min(...bodyLines);
+    const last = Math.max(...bodyLines);
+    const note = `in instance \`${name}\` of block \`${block.name}\` (line ${st.span.line})`;
+    bag = Object.create(outerBag, {
+      add: {
+        value: (d: Diagnostic) => {
+          const inBody = d.span && d.span.file === bodyFile && d.span.line >= first && d.span.line <= last;
+          outerBag.add(inBody && !d.help?.includes('in instance') ? { ...d, help: d.help ? `${d.help}; ${note}` : note } : d);
+        },
+      },
+    }) as DiagnosticBag;
+    try {
+      run(block.body, { scope, prefix: `${name}.`, terminals, chain: [...ctx.chain, block.name], later: laterOf(block.body) });
+    } finally {
+      bag = outerBag;
+    }
   }
 
   /** Reads a data file for the statement `st`; a failure becomes an error at its `file=` (and in the file). */
