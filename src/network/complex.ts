@@ -13,6 +13,8 @@
  * @module
  */
 
+import { estimateInverseNorm1 } from './norm-estimate.js';
+
 const EPS = Number.EPSILON;
 
 /** Copies the first `len` numbers (a plain loop: `subarray` would allocate a view). */
@@ -429,7 +431,7 @@ export function inverse(n: number, a: Float64Array, out: Float64Array, f: LuFact
 
 /**
  * Lower estimate of ‖A⁻¹‖₁ from the factorisation in `f`, by the Hager/Higham 1-norm estimator for
- * complex matrices (W. W. Hager 1984; N. J. Higham, ACM TOMS 14(4), 1988, the complex variant):
+ * complex matrices (norm-estimate.ts; W. W. Hager 1984; N. J. Higham, ACM TOMS 14(4), 1988):
  *   v = A⁻¹(e/n), γ = ‖v‖₁, ξ = sign(v), x = A⁻ᴴξ; then repeatedly take j = argmax|x_j|, v = A⁻¹e_j,
  *   stop when ‖v‖₁ no longer grows, or |x_j| is still the largest entry, or after 5 steps; finally compare
  *   with 2‖A⁻¹t‖₁/(3n) for t_i = (−1)^i (1 + i/(n−1)) (steps as recalled from the paper, from memory).
@@ -437,45 +439,12 @@ export function inverse(n: number, a: Float64Array, out: Float64Array, f: LuFact
  *   exact value). Returns Infinity when the factorisation failed or the solves overflow.
  */
 export function invNorm1Estimate(f: LuFactors): number {
-  const n = f.n;
   if (f.status !== LU_OK) return Infinity;
-  if (n === 0) return 0;
-  const v = f.v1;
-  const x = f.v2;
-  for (let i = 0; i < n; i++) {
-    v[2 * i] = 1 / n;
-    v[2 * i + 1] = 0;
-  }
-  luSolve(f, v, v, 1);
-  let gamma = vecNorm1(n, v);
-  if (n === 1) return Number.isFinite(gamma) ? gamma : Infinity;
-  signVector(n, v, x);
-  luSolveConjTransposed(f, x, x);
-  for (let iter = 2; iter <= 5; iter++) {
-    const j = argMaxAbs(n, x);
-    for (let i = 0; i < 2 * n; i++) v[i] = 0;
-    v[2 * j] = 1;
-    luSolve(f, v, v, 1);
-    const previous = gamma;
-    gamma = vecNorm1(n, v);
-    if (!(gamma > previous)) {
-      gamma = previous;
-      break;
-    }
-    signVector(n, v, x);
-    luSolveConjTransposed(f, x, x);
-    const jNew = argMaxAbs(n, x);
-    if (Math.hypot(x[2 * j]!, x[2 * j + 1]!) >= Math.hypot(x[2 * jNew]!, x[2 * jNew + 1]!)) break;
-  }
-  for (let i = 0; i < n; i++) {
-    v[2 * i] = (i % 2 === 0 ? 1 : -1) * (1 + i / (n - 1));
-    v[2 * i + 1] = 0;
-  }
-  luSolve(f, v, v, 1);
-  const alt = (2 * vecNorm1(n, v)) / (3 * n);
-  if (alt > gamma) gamma = alt;
-  return Number.isFinite(gamma) ? gamma : Infinity;
+  return estimateInverseNorm1(f.n, f, denseSolve, denseSolveH, f.v1, f.v2);
 }
+
+const denseSolve = (f: LuFactors, x: Float64Array): void => void luSolve(f, x, x, 1);
+const denseSolveH = (f: LuFactors, x: Float64Array): void => void luSolveConjTransposed(f, x, x);
 
 /**
  * Reciprocal condition number estimate in the 1-norm, 1 / (‖A‖₁ · est‖A⁻¹‖₁), from a factorisation
@@ -489,39 +458,6 @@ export function rcondEstimate(f: LuFactors): number {
   if (!(est > 0) || !Number.isFinite(est)) return 0;
   const r = 1 / (f.norm * est);
   return Number.isFinite(r) ? r : 0;
-}
-
-function vecNorm1(n: number, v: Float64Array): number {
-  let s = 0;
-  for (let i = 0; i < n; i++) s += Math.hypot(v[2 * i]!, v[2 * i + 1]!);
-  return s;
-}
-
-/** out_i = v_i/|v_i| (1 when v_i = 0). */
-function signVector(n: number, v: Float64Array, out: Float64Array): void {
-  for (let i = 0; i < n; i++) {
-    const r = Math.hypot(v[2 * i]!, v[2 * i + 1]!);
-    if (r > 0) {
-      out[2 * i] = v[2 * i]! / r;
-      out[2 * i + 1] = v[2 * i + 1]! / r;
-    } else {
-      out[2 * i] = 1;
-      out[2 * i + 1] = 0;
-    }
-  }
-}
-
-function argMaxAbs(n: number, v: Float64Array): number {
-  let j = 0;
-  let best = -1;
-  for (let i = 0; i < n; i++) {
-    const r = Math.hypot(v[2 * i]!, v[2 * i + 1]!);
-    if (r > best) {
-      best = r;
-      j = i;
-    }
-  }
-  return j;
 }
 
 // ---------------------------------------------------------------------------------------------

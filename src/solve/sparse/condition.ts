@@ -1,7 +1,7 @@
 /**
  * Condition estimate for a sparse factorisation: rcond = 1 / (‖A‖₁ · est ‖A⁻¹‖₁).
  *
- * ‖A⁻¹‖₁ is estimated by the 1-norm estimator of W. W. Hager ("Condition estimates", SIAM J. Sci.
+ * ‖A⁻¹‖₁ is estimated (src/network/norm-estimate.ts, shared with the dense LU) by the 1-norm estimator of W. W. Hager ("Condition estimates", SIAM J. Sci.
  * Stat. Comput. 5(2), 1984) in the form N. J. Higham gives for complex matrices ("FORTRAN codes for
  * estimating the one-norm of a real or complex matrix, with applications to condition estimation",
  * ACM TOMS 14(4), 1988), steps as recalled (from memory):
@@ -20,6 +20,7 @@
  */
 
 import type { SparseFactor } from './factor.js';
+import { estimateInverseNorm1 } from '../../network/norm-estimate.js';
 import { solve, solveConjTransposed } from './solve.js';
 
 /** ‖A‖₁ (largest column sum of moduli) of the matrix last factored, from the stored slot values. */
@@ -60,44 +61,12 @@ export function matrixNorm1(f: SparseFactor): number {
  * factorisation or the solves overflow.
  */
 export function inverseNorm1Estimate(f: SparseFactor): number {
-  const n = f.n;
   if (!f.valid) return Infinity;
-  if (n === 0) return 0;
-  const v = f.est1;
-  const z = f.est2;
-  for (let i = 0; i < n; i++) {
-    v[2 * i] = 1 / n;
-    v[2 * i + 1] = 0;
-  }
-  solve(f, v, v, 1);
-  let gamma = norm1(n, v);
-  if (n === 1) return Number.isFinite(gamma) ? gamma : Infinity;
-  signOf(n, v, z);
-  solveConjTransposed(f, z, z);
-  for (let iter = 2; iter <= 5; iter++) {
-    const j = argMaxAbs(n, z);
-    v.fill(0);
-    v[2 * j] = 1;
-    solve(f, v, v, 1);
-    const g = norm1(n, v);
-    if (!(g > gamma)) break;
-    gamma = g;
-    signOf(n, v, z);
-    solveConjTransposed(f, z, z);
-    const jNew = argMaxAbs(n, z);
-    const zj = z[2 * j]! * z[2 * j]! + z[2 * j + 1]! * z[2 * j + 1]!;
-    const zn = z[2 * jNew]! * z[2 * jNew]! + z[2 * jNew + 1]! * z[2 * jNew + 1]!;
-    if (zj >= zn) break;
-  }
-  for (let i = 0; i < n; i++) {
-    v[2 * i] = (i % 2 === 0 ? 1 : -1) * (1 + i / (n - 1));
-    v[2 * i + 1] = 0;
-  }
-  solve(f, v, v, 1);
-  const alt = (2 * norm1(n, v)) / (3 * n);
-  if (alt > gamma) gamma = alt;
-  return Number.isFinite(gamma) ? gamma : Infinity;
+  return estimateInverseNorm1(f.n, f, sparseSolve, sparseSolveH, f.est1, f.est2);
 }
+
+const sparseSolve = (f: SparseFactor, x: Float64Array): void => solve(f, x, x, 1);
+const sparseSolveH = (f: SparseFactor, x: Float64Array): void => solveConjTransposed(f, x, x);
 
 /**
  * Reciprocal condition number estimate in the 1-norm, 1/(‖A‖₁·est‖A⁻¹‖₁), an upper estimate of the
@@ -112,45 +81,4 @@ export function reciprocalCondition(f: SparseFactor): number {
   if (!(est > 0) || !Number.isFinite(est)) return 0;
   const r = 1 / (a * est);
   return Number.isFinite(r) ? r : 0;
-}
-
-function norm1(n: number, v: Float64Array): number {
-  let s = 0;
-  for (let i = 0; i < n; i++) {
-    const re = v[2 * i]!;
-    const im = v[2 * i + 1]!;
-    s += Math.sqrt(re * re + im * im);
-  }
-  return s;
-}
-
-/** out_i = v_i/|v_i| (1 where v_i = 0). `out` may be `v`. */
-function signOf(n: number, v: Float64Array, out: Float64Array): void {
-  for (let i = 0; i < n; i++) {
-    const re = v[2 * i]!;
-    const im = v[2 * i + 1]!;
-    const r = Math.sqrt(re * re + im * im);
-    if (r > 0) {
-      out[2 * i] = re / r;
-      out[2 * i + 1] = im / r;
-    } else {
-      out[2 * i] = 1;
-      out[2 * i + 1] = 0;
-    }
-  }
-}
-
-function argMaxAbs(n: number, v: Float64Array): number {
-  let j = 0;
-  let best = -1;
-  for (let i = 0; i < n; i++) {
-    const re = v[2 * i]!;
-    const im = v[2 * i + 1]!;
-    const m = re * re + im * im;
-    if (m > best) {
-      best = m;
-      j = i;
-    }
-  }
-  return j;
 }
