@@ -1,4 +1,4 @@
-import { addBranchImpedance, branchSlots } from './stamp.js';
+import { addAdmittance, addBranchImpedance, admittanceSlots, branchSlots } from './stamp.js';
 import type { ElementType } from './types.js';
 
 /**
@@ -6,12 +6,21 @@ import type { ElementType } from './types.js';
  * quality factor at a stated frequency (`q=Q at f0`), which sets Rs = 2π·f0·L/Q, held constant over
  * frequency (so the model's Q rises in proportion to f away from f0).
  *
- * Stamped with a branch current so that it is a short at 0 Hz: v_a − v_b = (Rs + jωL)·i.
+ * Stamped as the admittance 1/(Rs + jωL) where the sweep keeps its impedance away from zero (see
+ * {@link ADMITTANCE_MIN_OHMS}); otherwise with a branch current, so that it is a short at 0 Hz:
+ * v_a − v_b = (Rs + jωL)·i.
  * A lossless inductor at exactly 0 Hz is given {@link DC_SHORT_OHMS} of resistance, so that a loop
  * of ideal inductors (two in parallel, say) has a definite current split; its effect on S is far
  * below the solver's rounding (a 1 pΩ short against 50 Ω references moves S by about 4e-14).
  */
 export const DC_SHORT_OHMS = 1e-12;
+/**
+ * Where |Rs + jωL| stays at or above this over the whole sweep, the inductor is stamped as a plain
+ * admittance between its nodes (no branch unknown, so a ladder keeps one unknown per node). The
+ * admittance is then at most 1000 S; against port terminations of ohms or more this costs at most
+ * three or four of the sixteen digits where it matters (our choice).
+ */
+export const ADMITTANCE_MIN_OHMS = 1e-3;
 
 export const inductor: ElementType = {
   keyword: 'inductor',
@@ -33,11 +42,20 @@ export const inductor: ElementType = {
     if (el.props.q !== undefined && !(el.at.q! > 0)) fail('the frequency after `at` must be above 0 Hz', 'q');
   },
   compile(el, b) {
-    const i = b.branch(`current through ${el.name}`);
-    const s = branchSlots(b, el.nodes[0]!, el.nodes[1]!, i);
     const l = el.props.value!;
     const q = el.props.q;
     const r = q !== undefined ? (2 * Math.PI * el.at.q! * l) / q : (el.props.rs ?? 0);
+    if (Math.hypot(r, b.lowestOmega * l) >= ADMITTANCE_MIN_OHMS) {
+      const s = admittanceSlots(b, el.nodes[0]!, el.nodes[1]!);
+      return (omega, v) => {
+        // Y = 1/(R + jωL) = (R − jωL) / (R² + ω²L²)
+        const wl = omega * l;
+        const d = 1 / (r * r + wl * wl);
+        addAdmittance(v, s, r * d, -wl * d);
+      };
+    }
+    const i = b.branch(`current through ${el.name}`);
+    const s = branchSlots(b, el.nodes[0]!, el.nodes[1]!, i);
     const r0 = r > 0 ? r : DC_SHORT_OHMS;
     return (omega, v) => addBranchImpedance(v, s, omega === 0 ? r0 : r, omega * l);
   },

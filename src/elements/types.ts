@@ -78,6 +78,12 @@ export interface StampBuilder {
   branch(label: string): number;
   /** The slot of matrix entry (row, col); -1 when either is ground. */
   entry(row: number, col: number): number;
+  /**
+   * The lowest angular frequency (rad/s) the plan will be solved at. An element may choose its
+   * formulation by it: an inductor, say, needs a branch current only where its impedance can
+   * come close to zero.
+   */
+  readonly lowestOmega: number;
 }
 
 /**

@@ -31,10 +31,28 @@ export interface StampPlan {
   portReference: Float64Array;
   /** Per port: the reactance of a complex reference impedance in ohms (0 for a real one). */
   portReactance: Float64Array;
+  /** The lowest frequency (Hz) the plan may be solved at: elements chose their formulation by it. */
+  lowestFrequency: number;
+}
+
+export interface PlanOptions {
+  /**
+   * The lowest frequency (Hz) the plan will be solved at (default: the lowest of the circuit's
+   * sweep). Solving below it is refused.
+   */
+  lowestFrequency?: number;
+}
+
+/** The lowest of a list of frequencies (0 for an empty list). */
+export function lowestOf(freqs: ArrayLike<number>): number {
+  let lo = Infinity;
+  for (let k = 0; k < freqs.length; k++) if (freqs[k]! < lo) lo = freqs[k]!;
+  return lo === Infinity ? 0 : Math.max(0, lo);
 }
 
 /** Builds the stamp plan: assigns unknowns, fixes the pattern and compiles every element. */
-export function buildPlan(circuit: Circuit): StampPlan {
+export function buildPlan(circuit: Circuit, options: PlanOptions = {}): StampPlan {
+  const lowestFrequency = Math.max(0, options.lowestFrequency ?? lowestOf(circuit.frequencies));
   const nodeUnknown = new Int32Array(circuit.nodeNames.length);
   const unknownNames: string[] = [];
   const local = new Set(circuit.localReferences);
@@ -74,6 +92,7 @@ export function buildPlan(circuit: Circuit): StampPlan {
       }
       return s;
     },
+    lowestOmega: 2 * Math.PI * lowestFrequency,
   };
 
   const stampers: Stamper[] = [];
@@ -115,5 +134,6 @@ export function buildPlan(circuit: Circuit): StampPlan {
     portMinus,
     portReference,
     portReactance,
+    lowestFrequency,
   };
 }

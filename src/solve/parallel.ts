@@ -5,6 +5,7 @@ import Tinypool from 'tinypool';
 import type { Circuit } from '../elaborate/circuit.js';
 import type { NetworkData } from '../network/types.js';
 import { solveSweep } from './sweep.js';
+import { lowestOf } from '../plan/plan.js';
 
 export interface ParallelOptions {
   /** Worker threads to use (default: the machine's available parallelism). 1 solves in this thread. */
@@ -53,6 +54,7 @@ export async function solveSweepParallel(circuit: Circuit, options: ParallelOpti
   const jobs = Math.max(1, Math.min(options.jobs ?? availableParallelism(), freqs.length));
   if (jobs === 1) return solveSweep(circuit, { frequencies: freqs, onProgress: options.onProgress });
   const pool = await poolFor(jobs);
+  const lowest = lowestOf(freqs);
   {
     const shares: Float64Array[] = [];
     let done = 0;
@@ -66,8 +68,8 @@ export async function solveSweepParallel(circuit: Circuit, options: ParallelOpti
     const parts = (await Promise.all(
       shares.map((f) =>
         pool
-          .run({ circuit, frequencies: f, pivotFrequency: freqs[0]! })
-          .catch(() => solveSweep(circuit, { frequencies: f, pivotFrequency: freqs[0]! }).values)
+          .run({ circuit, frequencies: f, pivotFrequency: freqs[0]!, lowestFrequency: lowest })
+          .catch(() => solveSweep(circuit, { frequencies: f, pivotFrequency: freqs[0]!, lowestFrequency: lowest }).values)
           .then((v: Float64Array) => {
             done += f.length;
             options.onProgress?.(done, freqs.length);

@@ -15,7 +15,7 @@ import {
   solve as sparseSolve,
 } from './sparse/index.js';
 import type { NetworkData } from '../network/types.js';
-import { buildPlan, type StampPlan } from '../plan/plan.js';
+import { buildPlan, lowestOf, type StampPlan } from '../plan/plan.js';
 
 /** Reciprocal condition number below which a system counts as singular to working precision. */
 export const SINGULAR_RCOND = 1e-15;
@@ -165,8 +165,13 @@ export interface SweepOptions {
   pivotFrequency?: number;
   /** Frequencies in Hz (default: the circuit's sweep). */
   frequencies?: Float64Array;
-  /** A plan built earlier for the same circuit. */
+  /** A plan built earlier for the same circuit (its lowest frequency must not be above the sweep's). */
   plan?: StampPlan;
+  /**
+   * The lowest frequency (Hz) of the whole sweep, which fixes how elements are formulated
+   * (default: the lowest of `frequencies`). The shares of a parallel sweep pass the whole sweep's.
+   */
+  lowestFrequency?: number;
   /** Called after each solved frequency point with the number done and the total. */
   onProgress?: (done: number, total: number) => void;
   /** Called once at the end of a sweep whose system came close to singular (see {@link WARN_RCOND}). */
@@ -187,9 +192,12 @@ export interface SweepOptions {
  * allocated once.
  */
 export function solveSweep(circuit: Circuit, options: SweepOptions = {}): NetworkData {
-  const plan = options.plan ?? buildPlan(circuit);
   const freqs = options.frequencies ?? circuit.frequencies;
+  const plan = options.plan ?? buildPlan(circuit, { lowestFrequency: options.lowestFrequency ?? lowestOf(freqs) });
   checkRanges(circuit, freqs);
+  if (freqs.length > 0 && lowestOf(freqs) < plan.lowestFrequency) {
+    throw new RangeError(`the sweep reaches down to ${formatFrequency(lowestOf(freqs))}, below the ${formatFrequency(plan.lowestFrequency)} its stamp plan was built for`);
+  }
   const n = plan.size;
   const p = plan.portPlus.length;
   const nSlots = plan.slotRow.length;

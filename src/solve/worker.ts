@@ -10,8 +10,10 @@ export interface SweepTask {
   frequencies: Float64Array;
   /** The whole sweep's first frequency: fixes the sparse pivot order the same in every share. */
   pivotFrequency: number;
+  /** The whole sweep's lowest frequency: fixes the elements' formulation the same in every share. */
+  lowestFrequency: number;
 }
 
 export default function solveShare(task: SweepTask): Float64Array {
-  return solveSweep(task.circuit, { frequencies: task.frequencies, pivotFrequency: task.pivotFrequency }).values;
+  return solveSweep(task.circuit, { frequencies: task.frequencies, pivotFrequency: task.pivotFrequency, lowestFrequency: task.lowestFrequency }).values;
 }
