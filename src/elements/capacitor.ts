@@ -1,5 +1,20 @@
-import { addAdmittance, admittanceSlots } from './stamp.js';
-import type { ElementType } from './types.js';
+import type { AdmittanceKernel, ElementType } from './types.js';
+
+/** Y = jωC / (1 + jωC·R) = (ω²C²R + jωC) / (1 + (ωCR)²) (parameters: C, R). */
+const kernel: AdmittanceKernel = {
+  stride: 2,
+  run(omega, p, count, out, offset) {
+    let o = 2 * offset;
+    for (let k = 0; k < 2 * count; k += 2) {
+      const wc = omega * p[k]!;
+      const wcr = wc * p[k + 1]!;
+      const d = 1 / (1 + wcr * wcr);
+      out[o] = wc * wcr * d;
+      out[o + 1] = wc * d;
+      o += 2;
+    }
+  },
+};
 
 /**
  * A capacitor, optionally lossy through a series resistance (ESR): either given directly (`esr=`)
@@ -29,15 +44,10 @@ export const capacitor: ElementType = {
   },
   openAt: (_el, omega) => omega === 0,
   compile(el, b) {
-    const s = admittanceSlots(b, el.nodes[0]!, el.nodes[1]!);
     const c = el.props.value!;
     const q = el.props.q;
     const r = q !== undefined ? 1 / (2 * Math.PI * el.at.q! * c * q) : (el.props.esr ?? 0);
-    return (omega, v) => {
-      // Y = jωC / (1 + jωCR) = (ω²C²R + jωC) / (1 + (ωCR)²)
-      const wc = omega * c;
-      const d = 1 + wc * r * wc * r;
-      addAdmittance(v, s, (wc * wc * r) / d, wc / d);
-    };
+    b.admittance(el.nodes[0]!, el.nodes[1]!, kernel, [c, r]);
+    return undefined;
   },
 };

@@ -1,5 +1,16 @@
-import { addAdmittance, admittanceSlots } from './stamp.js';
-import type { ElementType } from './types.js';
+import type { AdmittanceKernel, ElementType } from './types.js';
+
+/** y = G (parameters: G). */
+const kernel: AdmittanceKernel = {
+  stride: 1,
+  constant: true,
+  run(_omega, p, count, out, offset) {
+    for (let k = 0; k < count; k++) {
+      out[2 * (offset + k)] = p[k]!;
+      out[2 * (offset + k) + 1] = 0;
+    }
+  },
+};
 
 /** An ideal conductance (a resistor given in siemens; zero is allowed and means an open). */
 export const conductance: ElementType = {
@@ -13,8 +24,7 @@ export const conductance: ElementType = {
   properties: [{ key: 'value', unit: 'S', quantity: 'conductance', required: true, doc: 'conductance' }],
   openAt: (el) => el.props.value === 0,
   compile(el, b) {
-    const s = admittanceSlots(b, el.nodes[0]!, el.nodes[1]!);
-    const g = el.props.value!;
-    return (_omega, v) => addAdmittance(v, s, g, 0);
+    b.admittance(el.nodes[0]!, el.nodes[1]!, kernel, [el.props.value!]);
+    return undefined;
   },
 };

@@ -1,5 +1,21 @@
-import { addAdmittance, addBranchImpedance, admittanceSlots, branchSlots } from './stamp.js';
-import type { ElementType } from './types.js';
+import { addBranchImpedance, branchSlots } from './stamp.js';
+import type { AdmittanceKernel, ElementType } from './types.js';
+
+/** Y = 1/(R + jωL) = (R − jωL) / (R² + ω²L²) (parameters: L, R). */
+const kernel: AdmittanceKernel = {
+  stride: 2,
+  run(omega, p, count, out, offset) {
+    let o = 2 * offset;
+    for (let k = 0; k < 2 * count; k += 2) {
+      const wl = omega * p[k]!;
+      const r = p[k + 1]!;
+      const d = 1 / (r * r + wl * wl);
+      out[o] = r * d;
+      out[o + 1] = -wl * d;
+      o += 2;
+    }
+  },
+};
 
 /**
  * An inductor, optionally lossy through a series resistance: given directly (`rs=`) or from a
@@ -46,13 +62,8 @@ export const inductor: ElementType = {
     const q = el.props.q;
     const r = q !== undefined ? (2 * Math.PI * el.at.q! * l) / q : (el.props.rs ?? 0);
     if (Math.hypot(r, b.lowestOmega * l) >= ADMITTANCE_MIN_OHMS) {
-      const s = admittanceSlots(b, el.nodes[0]!, el.nodes[1]!);
-      return (omega, v) => {
-        // Y = 1/(R + jωL) = (R − jωL) / (R² + ω²L²)
-        const wl = omega * l;
-        const d = 1 / (r * r + wl * wl);
-        addAdmittance(v, s, r * d, -wl * d);
-      };
+      b.admittance(el.nodes[0]!, el.nodes[1]!, kernel, [l, r]);
+      return undefined;
     }
     const i = b.branch(`current through ${el.name}`);
     const s = branchSlots(b, el.nodes[0]!, el.nodes[1]!, i);

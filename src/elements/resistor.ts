@@ -1,5 +1,16 @@
-import { addAdmittance, admittanceSlots } from './stamp.js';
-import type { ElementType } from './types.js';
+import type { AdmittanceKernel, ElementType } from './types.js';
+
+/** y = 1/R (parameters: R). */
+const kernel: AdmittanceKernel = {
+  stride: 1,
+  constant: true,
+  run(_omega, p, count, out, offset) {
+    for (let k = 0; k < count; k++) {
+      out[2 * (offset + k)] = 1 / p[k]!;
+      out[2 * (offset + k) + 1] = 0;
+    }
+  },
+};
 
 /** An ideal resistor. */
 export const resistor: ElementType = {
@@ -14,8 +25,7 @@ export const resistor: ElementType = {
     { key: 'value', unit: 'ohm', quantity: 'resistance', required: true, sign: 'nonzero', doc: 'resistance' },
   ],
   compile(el, b) {
-    const s = admittanceSlots(b, el.nodes[0]!, el.nodes[1]!);
-    const g = 1 / el.props.value!;
-    return (_omega, v) => addAdmittance(v, s, g, 0);
+    b.admittance(el.nodes[0]!, el.nodes[1]!, kernel, [el.props.value!]);
+    return undefined;
   },
 };

@@ -84,6 +84,25 @@ export interface StampBuilder {
    * come close to zero.
    */
   readonly lowestOmega: number;
+  /**
+   * Stamps a two-terminal admittance between unknowns a and b whose value a kernel computes; the
+   * plan runs each kernel once per frequency for all the elements that use it (one tight loop per
+   * element type instead of one call per element). `params` are this element's numbers, as many
+   * as the kernel's stride.
+   */
+  admittance(a: number, b: number, kernel: AdmittanceKernel, params: readonly number[]): void;
+}
+
+/**
+ * The admittance of one kind of two-terminal element, computed for many elements at once.
+ * Element k's parameters are params[k·stride … k·stride + stride − 1]; its admittance goes to
+ * out[2(offset + k)] (real) and out[2(offset + k) + 1] (imaginary). Must not allocate.
+ */
+export interface AdmittanceKernel {
+  readonly stride: number;
+  /** True when the admittance does not depend on frequency: the plan then evaluates it once. */
+  readonly constant?: boolean;
+  run(omega: number, params: Float64Array, count: number, out: Float64Array, offset: number): void;
 }
 
 /**
@@ -127,6 +146,9 @@ export interface ElementType {
    * (a capacitor at 0 Hz). Used only to explain a singular system; absent means "never open".
    */
   openAt?(el: ElementInstance, omega: number): boolean;
-  /** Compiles the element into a stamper over fixed slots. */
-  compile(el: ElementInstance, b: StampBuilder): Stamper;
+  /**
+   * Compiles the element into a stamper over fixed slots, or into stamps given to the builder
+   * (`b.admittance`), in which case it returns undefined.
+   */
+  compile(el: ElementInstance, b: StampBuilder): Stamper | undefined;
 }

@@ -1,7 +1,7 @@
 import type { Circuit } from '../elaborate/circuit.js';
 import { ELEMENTS } from '../elements/registry.js';
 import { addAdmittance, admittanceSlots } from '../elements/stamp.js';
-import { GROUND, type StampBuilder, type Stamper } from '../elements/types.js';
+import { GROUND, type AdmittanceKernel, type StampBuilder, type Stamper } from '../elements/types.js';
 
 /**
  * The stamp plan of a circuit: the unknowns, the fixed sparsity pattern (one slot per distinct
@@ -24,7 +24,13 @@ export interface StampPlan {
   /** Row and column of each slot. */
   slotRow: Int32Array;
   slotCol: Int32Array;
+  /**
+   * Per-frequency stampers, run after the slot values are set to {@link StampPlan.baseValues}
+   * (see {@link stampAt}): one for all kernel-batched admittances, one per other element.
+   */
   stampers: Stamper[];
+  /** The frequency-independent part of the slot values (resistors, port terminations). */
+  baseValues: Float64Array;
   /** Per port: unknown of its plus and minus terminals (GROUND = -1) and its reference in ohms. */
   portPlus: Int32Array;
   portMinus: Int32Array;
@@ -66,6 +72,9 @@ export function buildPlan(circuit: Circuit, options: PlanOptions = {}): StampPla
   }
   const toUnknown = (node: number) => (node === GROUND ? GROUND : nodeUnknown[node]!);
 
+  // Kernel-batched admittances: per kernel, the parameters and the (slot, element) pairs that
+  // receive +y and −y.
+  const groups = new Map<AdmittanceKernel, { params: number[]; plus: number[]; minus: number[] }>();
   // Slots are handed out in order of first use; entries touching ground get no slot.
   const slotIndex = new Map<number, number>();
   const rows: number[] = [];
@@ -93,18 +102,35 @@ export function buildPlan(circuit: Circuit, options: PlanOptions = {}): StampPla
       return s;
     },
     lowestOmega: 2 * Math.PI * lowestFrequency,
+    admittance(a, c, kernel, params) {
+      let g = groups.get(kernel);
+      if (!g) groups.set(kernel, (g = { params: [], plus: [], minus: [] }));
+      if (params.length !== kernel.stride) throw new Error(`stamp plan: ${params.length} parameters for a kernel of stride ${kernel.stride}`);
+      const k = g.params.length / kernel.stride;
+      g.params.push(...params);
+      const saa = this.entry(a, a);
+      const sab = this.entry(a, c);
+      const sba = this.entry(c, a);
+      const scc = this.entry(c, c);
+      if (saa >= 0) g.plus.push(saa, k);
+      if (scc >= 0) g.plus.push(scc, k);
+      if (sab >= 0) g.minus.push(sab, k);
+      if (sba >= 0) g.minus.push(sba, k);
+    },
   };
 
   const stampers: Stamper[] = [];
   for (const el of circuit.elements) {
     const type = ELEMENTS.get(el.type)!;
     const mapped = { ...el, nodes: el.nodes.map(toUnknown) };
-    stampers.push(type.compile(mapped, builder));
+    const st = type.compile(mapped, builder);
+    if (st) stampers.push(st);
   }
   const portPlus = new Int32Array(circuit.ports.length);
   const portMinus = new Int32Array(circuit.ports.length);
   const portReference = new Float64Array(circuit.ports.length);
   const portReactance = new Float64Array(circuit.ports.length);
+  const terminations: { s: Int32Array; gr: number; gi: number }[] = [];
   circuit.ports.forEach((p, k) => {
     portPlus[k] = toUnknown(p.plus);
     portMinus[k] = toUnknown(p.minus);
@@ -115,11 +141,15 @@ export function buildPlan(circuit: Circuit, options: PlanOptions = {}): StampPla
     const d = p.reference * p.reference + portReactance[k]! * portReactance[k]!;
     const gr = p.reference / d;
     const gi = -portReactance[k]! / d;
-    stampers.push((_omega, v) => addAdmittance(v, s, gr, gi));
+    terminations.push({ s, gr, gi });
   });
   // Every unknown gets its diagonal slot, so that the pattern is structurally square.
   const size = nodeCount + branchNames.length;
   for (let i = 0; i < size; i++) builder.entry(i, i);
+  const baseValues = new Float64Array(2 * rows.length);
+  for (const t of terminations) addAdmittance(baseValues, t.s, t.gr, t.gi);
+  const batched = batchAdmittances(groups, baseValues);
+  if (batched) stampers.unshift(batched);
   const unknownNode = new Int32Array(size).fill(-1);
   for (let i = 0; i < nodeUnknown.length; i++) if (nodeUnknown[i]! >= 0) unknownNode[nodeUnknown[i]!] = i;
   return {
@@ -130,10 +160,76 @@ export function buildPlan(circuit: Circuit, options: PlanOptions = {}): StampPla
     slotRow: Int32Array.from(rows),
     slotCol: Int32Array.from(cols),
     stampers,
+    baseValues,
     portPlus,
     portMinus,
     portReference,
     portReactance,
     lowestFrequency,
+  };
+}
+
+/** Sets the slot values of the plan's matrix at angular frequency `omega` (no allocation). */
+export function stampAt(plan: StampPlan, omega: number, values: Float64Array): void {
+  values.set(plan.baseValues);
+  const st = plan.stampers;
+  for (let e = 0; e < st.length; e++) st[e]!(omega, values);
+}
+
+/**
+ * One stamper for all kernel-batched admittances: per frequency each kernel runs over its
+ * elements, then every admittance is added into its slots (+y on the diagonal slots, −y off it).
+ * Constant kernels are evaluated here, once, into `base`. Undefined when nothing varies.
+ */
+function batchAdmittances(groups: Map<AdmittanceKernel, { params: number[]; plus: number[]; minus: number[] }>, base: Float64Array): Stamper | undefined {
+  const varying: { kernel: AdmittanceKernel; params: Float64Array; count: number; offset: number }[] = [];
+  const plus: number[] = [];
+  const minus: number[] = [];
+  let total = 0;
+  for (const [kernel, g] of groups) {
+    const count = g.params.length / kernel.stride;
+    const params = Float64Array.from(g.params);
+    if (kernel.constant) {
+      const y = new Float64Array(2 * count);
+      kernel.run(0, params, count, y, 0);
+      for (let t = 0; t < g.plus.length; t += 2) {
+        base[2 * g.plus[t]!] += y[2 * g.plus[t + 1]!]!;
+        base[2 * g.plus[t]! + 1] += y[2 * g.plus[t + 1]! + 1]!;
+      }
+      for (let t = 0; t < g.minus.length; t += 2) {
+        base[2 * g.minus[t]!] -= y[2 * g.minus[t + 1]!]!;
+        base[2 * g.minus[t]! + 1] -= y[2 * g.minus[t + 1]! + 1]!;
+      }
+      continue;
+    }
+    varying.push({ kernel, params, count, offset: total });
+    // pairs as (2·slot, 2·admittance index) for the scatter below
+    for (let t = 0; t < g.plus.length; t += 2) plus.push(2 * g.plus[t]!, 2 * (total + g.plus[t + 1]!));
+    for (let t = 0; t < g.minus.length; t += 2) minus.push(2 * g.minus[t]!, 2 * (total + g.minus[t + 1]!));
+    total += count;
+  }
+  if (varying.length === 0) return undefined;
+  const y = new Float64Array(2 * total);
+  const pl = Int32Array.from(plus);
+  const mi = Int32Array.from(minus);
+  const np = pl.length;
+  const nm = mi.length;
+  return (omega, v) => {
+    for (let g = 0; g < varying.length; g++) {
+      const k = varying[g]!;
+      k.kernel.run(omega, k.params, k.count, y, k.offset);
+    }
+    for (let t = 0; t < np; t += 2) {
+      const s = pl[t]!;
+      const a = pl[t + 1]!;
+      v[s] += y[a]!;
+      v[s + 1] += y[a + 1]!;
+    }
+    for (let t = 0; t < nm; t += 2) {
+      const s = mi[t]!;
+      const a = mi[t + 1]!;
+      v[s] -= y[a]!;
+      v[s + 1] -= y[a + 1]!;
+    }
   };
 }

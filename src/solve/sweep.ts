@@ -13,9 +13,11 @@ import {
   reciprocalCondition,
   refactor as sparseRefactor,
   solve as sparseSolve,
+  solveRange as sparseSolveRange,
+  type SparsePattern,
 } from './sparse/index.js';
 import type { NetworkData } from '../network/types.js';
-import { buildPlan, lowestOf, type StampPlan } from '../plan/plan.js';
+import { buildPlan, lowestOf, stampAt, type StampPlan } from '../plan/plan.js';
 
 /** Reciprocal condition number below which a system counts as singular to working precision. */
 export const SINGULAR_RCOND = 1e-15;
@@ -45,10 +47,14 @@ export class SingularSystemError extends Error {
 /** Which linear solver the sweep uses. */
 export type SolverChoice = 'auto' | 'dense' | 'sparse';
 
-/** Up to this many unknowns the dense LU is used (it is faster for small systems). */
-export const DENSE_MAX_UNKNOWNS = 48;
-/** …and above this fill of the pattern (slots / n²) too, e.g. around many-port data blocks. */
-export const DENSE_MIN_FILL = 0.2;
+/**
+ * Up to this many unknowns the dense LU is used. Measured with `npm run bench`-style sweeps on
+ * this project's reference machine: the sparse LU is already faster from 3 unknowns up (ladders of
+ * 3 to 33 nodes: 1.5× to 11×) and at a fill of 0.26 to 0.53 around a 16-port data block (3× to 5×).
+ */
+export const DENSE_MAX_UNKNOWNS = 2;
+/** …and at or above this fill of the pattern (slots / n²), where sparse indexing buys nothing. */
+export const DENSE_MIN_FILL = 0.75;
 
 /** The solver `auto` picks for a plan: dense for small or dense systems, sparse otherwise. */
 export function chooseSolver(plan: StampPlan, choice: SolverChoice = 'auto'): 'dense' | 'sparse' {
@@ -110,40 +116,44 @@ function denseEngine(plan: StampPlan): LinearEngine {
  */
 function sparseEngine(plan: StampPlan, reference: Float64Array | undefined): LinearEngine {
   const n = plan.size;
-  const pattern = analyse(n, plan.slotRow, plan.slotCol);
+  // Right-hand sides only in port rows, and only port voltages wanted: with the port unknowns
+  // ordered last the solves touch only the last few steps, but the factors may fill more (on a
+  // ladder, a dense row and column for the far port). The cheaper of the two orders is taken.
+  const ports = Int32Array.from([...plan.portPlus, ...plan.portMinus].filter((u) => u >= 0));
+  const nrhs = plan.portPlus.length;
+  let pattern = analyse(n, plan.slotRow, plan.slotCol);
+  if (ports.length > 0) {
+    const held = analyse(n, plan.slotRow, plan.slotCol, { last: ports });
+    if (pointCost(held, ports, nrhs) < pointCost(pattern, ports, nrhs)) pattern = held;
+  }
   const main = createFactor(pattern);
   let scratch: ReturnType<typeof createFactor> | undefined;
   let used = main;
   if (reference) sparseFactor(main, reference);
+  const mainRange = sparseSolveRange(main, ports, ports);
+  let range = mainRange;
   return {
     lastRcond: NaN,
     factor(vals) {
       used = main;
+      range = mainRange;
       this.lastRcond = NaN;
       let status = sparseRefactor(main, vals);
       if (status === NEEDS_PIVOTING) {
         scratch ??= createFactor(pattern);
         used = scratch;
         status = sparseFactor(scratch, vals);
+        range = sparseSolveRange(scratch, ports, ports);
       }
       if (status !== SPARSE_OK) return used.failColumn >= 0 ? used.failColumn : n;
-      // spread of the pivots: one pass; the condition estimate only where it is wide
-      const lu = used.lu;
-      const dp = used.diagPos;
-      let lo = Infinity;
-      let hi = 0;
-      for (let j = 0; j < n; j++) {
-        const q = 2 * dp[j]!;
-        const m = Math.abs(lu[q]!) + Math.abs(lu[q + 1]!);
-        if (m < lo) lo = m;
-        if (m > hi) hi = m;
-      }
-      if (lo >= PIVOT_SPREAD_CHECK * hi) return -1;
+      // the condition estimate only where the pivots spread wide
+      if (used.pivotMin >= PIVOT_SPREAD_CHECK * used.pivotMax) return -1;
       this.lastRcond = reciprocalCondition(used);
       return this.lastRcond < SINGULAR_RCOND ? -2 : -1;
     },
     solve(rhs, x, nrhs) {
-      sparseSolve(used, rhs, x, nrhs);
+      // right-hand sides only in port rows, and only port voltages wanted
+      sparseSolve(used, rhs, x, nrhs, range);
     },
     nullDirection() {
       const b = new Float64Array(2 * n);
@@ -153,6 +163,24 @@ function sparseEngine(plan: StampPlan, reference: Float64Array | undefined): Lin
       return x;
     },
   };
+}
+
+/**
+ * Estimated work of one frequency point with this pattern (diagonal pivots): the refactor's
+ * updates, scalings and placements, and the partial solves for `nrhs` right-hand sides in the rows
+ * `ports` that read only the `ports` unknowns. The weights are measured ratios on ladders and meshes
+ * (a refactor step about 2.5× a solve step per right-hand side).
+ */
+export function pointCost(pattern: SparsePattern, ports: Int32Array, nrhs: number): number {
+  const n = pattern.n;
+  let first = n;
+  for (const u of ports) first = Math.min(first, pattern.stepOf[u]!);
+  let lRow = 0;
+  for (let q = 0; q < pattern.lRow.length; q++) if (pattern.lRow[q]! >= first) lRow++;
+  const uCol = pattern.uStart[n]! - pattern.uStart[first]!;
+  const factor = pattern.updateCount + pattern.lNonzeros + pattern.uNonzeros + n;
+  const solve = nrhs * (lRow + uCol + 2 * (n - first));
+  return 2.5 * factor + solve;
 }
 
 export interface SweepOptions {
@@ -202,7 +230,6 @@ export function solveSweep(circuit: Circuit, options: SweepOptions = {}): Networ
   const p = plan.portPlus.length;
   const nSlots = plan.slotRow.length;
   const vals = new Float64Array(2 * nSlots);
-  const stampers = plan.stampers;
   let engine: LinearEngine;
   if (chooseSolver(plan, options.solver) === 'dense') engine = denseEngine(plan);
   else {
@@ -210,7 +237,7 @@ export function solveSweep(circuit: Circuit, options: SweepOptions = {}): Networ
     let reference: Float64Array | undefined;
     if (f0 !== undefined) {
       reference = new Float64Array(2 * nSlots);
-      for (let e = 0; e < stampers.length; e++) stampers[e]!(2 * Math.PI * f0, reference);
+      stampAt(plan, 2 * Math.PI * f0, reference);
     }
     engine = sparseEngine(plan, reference);
   }
@@ -256,8 +283,7 @@ export function solveSweep(circuit: Circuit, options: SweepOptions = {}): Networ
   let worstAt = NaN;
   for (let k = 0; k < freqs.length; k++) {
     const omega = 2 * Math.PI * freqs[k]!;
-    vals.fill(0);
-    for (let e = 0; e < stampers.length; e++) stampers[e]!(omega, vals);
+    stampAt(plan, omega, vals);
     const status = engine.factor(vals);
     if (status !== -1) throw explainSingular(circuit, plan, freqs[k]!, status >= 0 ? status : -1, engine);
     if (engine.lastRcond < worstRcond) {

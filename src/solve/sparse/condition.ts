@@ -30,7 +30,7 @@ export function matrixNorm1(f: SparseFactor): number {
   const colStart = pat.colStart;
   const entryRow = pat.entryRow;
   const entrySlot = pat.entrySlot;
-  const v = f.values;
+  const v = f.lastValues;
   const x = f.x; // clean between factorisations; used as an accumulator and cleaned again
   let best = 0;
   for (let j = 0; j < n; j++) {

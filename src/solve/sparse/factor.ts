@@ -124,8 +124,16 @@ export interface SparseFactor {
   useUpdateList: boolean;
   readonly maxUpdateList: number;
 
-  /** Copy of the slot values last factored (for ‖A‖₁ in the condition estimate). */
+  /** Storage for a copy of the slot values a pivoting factorisation was given. */
   readonly values: Float64Array;
+  /**
+   * The slot values last factored, for ‖A‖₁ in the condition estimate: the copy above after
+   * {@link factor}, the caller's own array after {@link refactor} (keep it unchanged until then).
+   */
+  lastValues: Float64Array;
+  /** Smallest and largest |Re| + |Im| of the pivots of the last successful factorisation. */
+  pivotMin: number;
+  pivotMax: number;
   /** Steps where {@link factor} did not take the preferred row. */
   swaps: number;
   /** Counters: pivoting factorisations, refactorisations, times storage grew. */
@@ -198,6 +206,9 @@ export function createFactor(pattern: SparsePattern, options: FactorOptions = {}
     useUpdateList: true,
     maxUpdateList: maxUpd,
     values: new Float64Array(2 * pattern.slotCount),
+    lastValues: new Float64Array(0),
+    pivotMin: NaN,
+    pivotMax: NaN,
     swaps: 0,
     factorCount: 0,
     refactorCount: 0,
@@ -232,6 +243,7 @@ export function createFactor(pattern: SparsePattern, options: FactorOptions = {}
 
 function copyValues(f: SparseFactor, values: Float64Array): void {
   const dst = f.values;
+  f.lastValues = dst;
   if (values.length === dst.length) dst.set(values);
   else {
     if (values.length < dst.length) throw new RangeError(`sparse LU: ${values.length} values given, the pattern needs ${dst.length} (2 per slot)`);
@@ -594,6 +606,7 @@ export function factor(f: SparseFactor, values: Float64Array): FactorStatus {
   // rows of L in steps, then lay out and compile the new sequence
   for (let q = 0; q < lnz; q++) lRow[q] = rowStep[lRow[q]!]!;
   compile(f, lStart, lRow, uStart, uRow, true);
+  pivotSpread(f);
   f.swaps = swaps;
   f.hasSequence = true;
   f.valid = true;
@@ -616,7 +629,8 @@ export function refactor(f: SparseFactor, values: Float64Array): FactorStatus {
     f.failColumn = -1;
     return NEEDS_PIVOTING;
   }
-  copyValues(f, values);
+  if (values.length < 2 * f.pattern.slotCount) throw new RangeError(`sparse LU: ${values.length} values given, the pattern needs ${2 * f.pattern.slotCount} (2 per slot)`);
+  f.lastValues = values;
   f.refactorCount++;
   if (f.slotsUnique) placeValues(f, values);
   else addValues(f, values);
@@ -648,6 +662,22 @@ function placeValues(f: SparseFactor, values: Float64Array): void {
     lu[e] = values[s2]!;
     lu[e | 1] = values[s2 | 1]!;
   }
+}
+
+/** Sets pivotMin / pivotMax from the stored pivots. */
+function pivotSpread(f: SparseFactor): void {
+  const lu = f.lu;
+  const dp = f.diagPos;
+  let lo = Infinity;
+  let hi = 0;
+  for (let j = 0; j < f.n; j++) {
+    const q = 2 * dp[j]!;
+    const m = Math.abs(lu[q]!) + Math.abs(lu[q + 1]!);
+    if (m < lo) lo = m;
+    if (m > hi) hi = m;
+  }
+  f.pivotMin = lo;
+  f.pivotMax = hi;
 }
 
 /** Adds the slot values into their entries after zeroing all (some entry holds several slots). */
@@ -743,7 +773,8 @@ function eliminateByList(f: SparseFactor): number {
     const j2 = j << 1;
     pivotInv[j2] = qr;
     pivotInv[j2 | 1] = qi;
-    let big = 0;
+    // (a flag, not a running maximum: a number carried round the loop was boxed on every column)
+    let bad = false;
     const e1 = c1 << 1;
     for (let q2 = (d2 + 2) | 0; q2 < e1; q2 = (q2 + 2) | 0) {
       const xr = lu[q2]!;
@@ -752,11 +783,12 @@ function eliminateByList(f: SparseFactor): number {
       const li = xr * qi + xi * qr;
       lu[q2] = lr;
       lu[q2 | 1] = li;
-      big = Math.max(big, Math.abs(lr) + Math.abs(li));
+      if (!(Math.abs(lr) + Math.abs(li) <= limit)) bad = true;
     }
-    if (!(big <= limit)) return j;
+    if (bad) return j;
     c0 = c1;
   }
+  pivotSpread(f);
   return -1;
 }
 
@@ -832,6 +864,7 @@ function eliminateByColumn(f: SparseFactor): number {
     }
     if (scalePivot(lu, pivotInv, j, dp, c1, limit)) return j;
   }
+  pivotSpread(f);
   return -1;
 }
 

@@ -30,6 +30,6 @@ export {
   type FactorOptions,
   type SparseFactor,
 } from './factor.js';
-export { solve, solveConjTransposed } from './solve.js';
+export { solve, solveConjTransposed, solveRange, type SolveRange } from './solve.js';
 export { reciprocalCondition, inverseNorm1Estimate, matrixNorm1 } from './condition.js';
 export { approximateMinimumDegree } from './amd.js';

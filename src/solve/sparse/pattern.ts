@@ -23,6 +23,12 @@ export interface AnalyseOptions {
    * in their own order; or an explicit order (`order[k]` = unknown eliminated k-th).
    */
   ordering?: OrderingChoice;
+  /**
+   * Unknowns to eliminate last, in this order (with 'amd' or 'natural'; an explicit order is taken
+   * as it is). The ports of a circuit, say: then the solves for their voltages touch only the last
+   * few steps (see `solveRange`). The rest is ordered as if these unknowns were not there.
+   */
+  last?: ArrayLike<number>;
 }
 
 /**
@@ -93,13 +99,46 @@ export function analyse(n: number, slotRow: Int32Array, slotCol: Int32Array, opt
   const choice = options.ordering ?? 'amd';
   let order: Int32Array;
   let ordering: SparsePattern['ordering'];
+  // the unknowns held back to the end (duplicates and out-of-range entries ignored)
+  const held = new Int32Array(n).fill(-1);
+  const tail: number[] = [];
+  for (const u of Array.from(options.last ?? [])) {
+    if (u >= 0 && u < n && held[u] === -1) {
+      held[u] = tail.length;
+      tail.push(u);
+    }
+  }
   if (choice === 'natural') {
     order = new Int32Array(n);
-    for (let i = 0; i < n; i++) order[i] = i;
+    let k = 0;
+    for (let i = 0; i < n; i++) if (held[i] === -1) order[k++] = i;
+    for (const u of tail) order[k++] = u;
     ordering = 'natural';
   } else if (choice === 'amd') {
-    const { start, adj } = symmetricGraph(n, slotRow, slotCol);
-    order = approximateMinimumDegree(n, start, adj);
+    if (tail.length === 0) {
+      const { start, adj } = symmetricGraph(n, slotRow, slotCol);
+      order = approximateMinimumDegree(n, start, adj);
+    } else {
+      // order the others on their own graph (renumbered), then append the held unknowns
+      const sub = new Int32Array(n).fill(-1);
+      const back: number[] = [];
+      for (let i = 0; i < n; i++) if (held[i] === -1) sub[i] = back.push(i) - 1;
+      const rows: number[] = [];
+      const cols: number[] = [];
+      for (let s = 0; s < nSlots; s++) {
+        const r = sub[slotRow[s]!]!;
+        const c = sub[slotCol[s]!]!;
+        if (r >= 0 && c >= 0) {
+          rows.push(r);
+          cols.push(c);
+        }
+      }
+      const { start, adj } = symmetricGraph(back.length, Int32Array.from(rows), Int32Array.from(cols));
+      const inner = approximateMinimumDegree(back.length, start, adj);
+      order = new Int32Array(n);
+      for (let k = 0; k < inner.length; k++) order[k] = back[inner[k]!]!;
+      for (let k = 0; k < tail.length; k++) order[inner.length + k] = tail[k]!;
+    }
     ordering = 'amd';
   } else {
     order = Int32Array.from(choice);

@@ -19,33 +19,61 @@ import type { SparseFactor } from './factor.js';
 /**
  * Solves A·X = B for `nrhs` right-hand sides. `rhs` is n×nrhs, row-major, complex interleaved
  * (entry (i, c) at 2·(i·nrhs + c)), the layout of luSolve in network/complex.ts; X is written to `x`
- * in the same layout. `x` may be `rhs` (in-place solve).
+ * in the same layout. `x` may be `rhs` (in-place solve). With a `range` (see {@link solveRange}) only
+ * part of the sweeps runs, and only part of x is written.
  * Throws Error if `f` holds no successful factorisation (a programming error, not a numeric one).
  */
-export function solve(f: SparseFactor, rhs: Float64Array, x: Float64Array, nrhs: number): void {
+export function solve(f: SparseFactor, rhs: Float64Array, x: Float64Array, nrhs: number, range?: SolveRange): void {
   if (!f.valid) throw new Error('sparse solve: no successful factorisation to solve with');
   const n = f.n;
   if (rhs.length < 2 * n * nrhs || x.length < 2 * n * nrhs) throw new RangeError('sparse solve: arrays too short for n×nrhs');
+  const first = range ? Math.max(0, Math.min(n, range.firstStep | 0)) : 0;
+  const last = range ? Math.max(0, Math.min(n, range.lastStep | 0)) : 0;
   let c0 = 0;
   while (c0 < nrhs) {
     const left = nrhs - c0;
     if (left === 1) {
-      solveOne(f, rhs, x, nrhs, c0);
+      solveOne(f, rhs, x, nrhs, c0, first, last);
       c0 += 1;
     } else if (left === 2) {
-      solveTwo(f, rhs, x, nrhs, c0);
+      solveTwo(f, rhs, x, nrhs, c0, first, last);
       c0 += 2;
     } else {
       const nb = Math.min(f.rhsBlock, left);
       if (nb < 3) {
-        solveTwo(f, rhs, x, nrhs, c0);
+        solveTwo(f, rhs, x, nrhs, c0, first, last);
         c0 += 2;
       } else {
-        solveBlock(f, rhs, x, nrhs, c0, nb);
+        solveBlock(f, rhs, x, nrhs, c0, nb, first, last);
         c0 += nb;
       }
     }
   }
+}
+
+/**
+ * A partial solve (see {@link solveRange}): the right-hand sides are zero in every row pivoted
+ * before `firstStep`, and only the unknowns eliminated at `lastStep` or later are wanted.
+ */
+export interface SolveRange {
+  firstStep: number;
+  lastStep: number;
+}
+
+/**
+ * The partial solve that serves right-hand sides nonzero only in the rows `rows` and wants only the
+ * unknowns `cols` (both 0-based unknowns; GROUND = −1 entries are skipped): the forward sweep starts
+ * at the first step whose pivot row is one of `rows`, the backward sweep stops at the first step
+ * that eliminates one of `cols`. With those unknowns ordered last (see `last` in analyse), both
+ * sweeps shrink to a few steps. Depends on the pivot sequence: compute it after each factor.
+ * Entries of x outside `cols` are then left as they were.
+ */
+export function solveRange(f: SparseFactor, rows: ArrayLike<number>, cols: ArrayLike<number>): SolveRange {
+  let firstStep = f.n;
+  let lastStep = f.n;
+  for (let k = 0; k < rows.length; k++) if (rows[k]! >= 0) firstStep = Math.min(firstStep, f.rowStep[rows[k]!]!);
+  for (let k = 0; k < cols.length; k++) if (cols[k]! >= 0) lastStep = Math.min(lastStep, f.pattern.stepOf[cols[k]!]!);
+  return { firstStep, lastStep };
 }
 
 // Index arithmetic below uses `<<` and `| 0` so that it stays in 32-bit integers without overflow
@@ -53,21 +81,22 @@ export function solve(f: SparseFactor, rhs: Float64Array, x: Float64Array, nrhs:
 // one function holding both optimises worse (measured: about 20 % slower).
 
 /** One right-hand side: column c0 of the n×nrhs block. */
-function solveOne(f: SparseFactor, rhs: Float64Array, x: Float64Array, nrhs: number, c0: number): void {
-  forwardOne(f, rhs, (2 * nrhs) | 0, (2 * c0) | 0);
-  backwardOne(f, x, (2 * nrhs) | 0, (2 * c0) | 0);
+function solveOne(f: SparseFactor, rhs: Float64Array, x: Float64Array, nrhs: number, c0: number, first: number, last: number): void {
+  forwardOne(f, rhs, (2 * nrhs) | 0, (2 * c0) | 0, first | 0);
+  backwardOne(f, x, (2 * nrhs) | 0, (2 * c0) | 0, last | 0);
 }
 
 /** w ← L⁻¹·P·b, by rows of L, reading b from column `off/2` of `rhs` (row stride `stride`). */
-function forwardOne(f: SparseFactor, rhs: Float64Array, stride: number, off: number): void {
+function forwardOne(f: SparseFactor, rhs: Float64Array, stride: number, off: number, first: number): void {
   const n = f.n | 0;
   const w = f.work;
   const lu = f.lu;
   const pivotRow = f.pivotRow;
   const lRowPtr = f.lRowPtr;
   const lRowIdx = f.lRowIdx;
-  let t0 = lRowPtr[0]! << 1;
-  for (let i = 0; i < n; i = (i + 1) | 0) {
+  if (first > 0) w.fill(0, 0, first << 1);
+  let t0 = lRowPtr[first]! << 1;
+  for (let i = first; i < n; i = (i + 1) | 0) {
     const s = (Math.imul(pivotRow[i]!, stride) + off) | 0;
     let sr = rhs[s]!;
     let si = rhs[(s + 1) | 0]!;
@@ -90,7 +119,7 @@ function forwardOne(f: SparseFactor, rhs: Float64Array, stride: number, off: num
 }
 
 /** x ← Q·U⁻¹·w, by columns of U, writing column `off/2` of `x`. */
-function backwardOne(f: SparseFactor, x: Float64Array, stride: number, off: number): void {
+function backwardOne(f: SparseFactor, x: Float64Array, stride: number, off: number, last: number): void {
   const n = f.n | 0;
   const w = f.work;
   const lu = f.lu;
@@ -99,7 +128,7 @@ function backwardOne(f: SparseFactor, x: Float64Array, stride: number, off: numb
   const diagPos = f.diagPos;
   const rowIdx = f.rowIdx;
   const inv = f.pivotInv;
-  for (let j = (n - 1) | 0; j >= 0; j = (j - 1) | 0) {
+  for (let j = (n - 1) | 0; j >= last; j = (j - 1) | 0) {
     const j2 = j << 1;
     const ar = w[j2]!;
     const ai = w[j2 | 1]!;
@@ -123,20 +152,21 @@ function backwardOne(f: SparseFactor, x: Float64Array, stride: number, off: numb
 }
 
 /** Two right-hand sides: columns c0 and c0+1. */
-function solveTwo(f: SparseFactor, rhs: Float64Array, x: Float64Array, nrhs: number, c0: number): void {
-  forwardTwo(f, rhs, (2 * nrhs) | 0, (2 * c0) | 0);
-  backwardTwo(f, x, (2 * nrhs) | 0, (2 * c0) | 0);
+function solveTwo(f: SparseFactor, rhs: Float64Array, x: Float64Array, nrhs: number, c0: number, first: number, last: number): void {
+  forwardTwo(f, rhs, (2 * nrhs) | 0, (2 * c0) | 0, first | 0);
+  backwardTwo(f, x, (2 * nrhs) | 0, (2 * c0) | 0, last | 0);
 }
 
-function forwardTwo(f: SparseFactor, rhs: Float64Array, stride: number, off: number): void {
+function forwardTwo(f: SparseFactor, rhs: Float64Array, stride: number, off: number, first: number): void {
   const n = f.n | 0;
   const w = f.work;
   const lu = f.lu;
   const pivotRow = f.pivotRow;
   const lRowPtr = f.lRowPtr;
   const lRowIdx = f.lRowIdx;
-  let t0 = lRowPtr[0]! << 1;
-  for (let i = 0; i < n; i = (i + 1) | 0) {
+  if (first > 0) w.fill(0, 0, first << 2);
+  let t0 = lRowPtr[first]! << 1;
+  for (let i = first; i < n; i = (i + 1) | 0) {
     const s = (Math.imul(pivotRow[i]!, stride) + off) | 0;
     let ar = rhs[s]!;
     let ai = rhs[(s + 1) | 0]!;
@@ -166,7 +196,7 @@ function forwardTwo(f: SparseFactor, rhs: Float64Array, stride: number, off: num
   }
 }
 
-function backwardTwo(f: SparseFactor, x: Float64Array, stride: number, off: number): void {
+function backwardTwo(f: SparseFactor, x: Float64Array, stride: number, off: number, last: number): void {
   const n = f.n | 0;
   const w = f.work;
   const lu = f.lu;
@@ -175,7 +205,7 @@ function backwardTwo(f: SparseFactor, x: Float64Array, stride: number, off: numb
   const diagPos = f.diagPos;
   const rowIdx = f.rowIdx;
   const inv = f.pivotInv;
-  for (let j = (n - 1) | 0; j >= 0; j = (j - 1) | 0) {
+  for (let j = (n - 1) | 0; j >= last; j = (j - 1) | 0) {
     const j4 = j << 2;
     const j2 = j << 1;
     const ar = w[j4]!;
@@ -208,7 +238,7 @@ function backwardTwo(f: SparseFactor, x: Float64Array, stride: number, off: numb
 }
 
 /** nb ≥ 3 right-hand sides, columns c0 .. c0+nb−1, through the work block. */
-function solveBlock(f: SparseFactor, rhs: Float64Array, x: Float64Array, nrhs: number, c0: number, nb: number): void {
+function solveBlock(f: SparseFactor, rhs: Float64Array, x: Float64Array, nrhs: number, c0: number, nb: number, first: number, last: number): void {
   const n = f.n | 0;
   const w = f.work;
   const lu = f.lu;
@@ -223,7 +253,8 @@ function solveBlock(f: SparseFactor, rhs: Float64Array, x: Float64Array, nrhs: n
   const stride = (2 * nrhs) | 0;
   const off = (2 * c0) | 0;
   const wb = (2 * nb) | 0;
-  for (let i = 0; i < n; i = (i + 1) | 0) {
+  if (first > 0) w.fill(0, 0, Math.imul(first, wb));
+  for (let i = first | 0; i < n; i = (i + 1) | 0) {
     const s = (Math.imul(pivotRow[i]!, stride) + off) | 0;
     const is = Math.imul(i, wb);
     for (let c = 0; c < wb; c = (c + 1) | 0) w[(is + c) | 0] = rhs[(s + c) | 0]!;
@@ -241,7 +272,7 @@ function solveBlock(f: SparseFactor, rhs: Float64Array, x: Float64Array, nrhs: n
       }
     }
   }
-  for (let j = (n - 1) | 0; j >= 0; j = (j - 1) | 0) {
+  for (let j = (n - 1) | 0; j >= last; j = (j - 1) | 0) {
     const js = Math.imul(j, wb);
     const qr = inv[j << 1]!;
     const qi = inv[(j << 1) | 1]!;
