@@ -8,7 +8,7 @@ import { solveSweep } from './sweep.js';
 import { lowestOf } from '../plan/plan.js';
 
 export interface ParallelOptions {
-  /** Worker threads to use (default: the machine's available parallelism). 1 solves in this thread. */
+  /** Threads to use, this one included (default: the machine's available parallelism). 1 solves in this thread only. */
   jobs?: number;
   /** Frequencies in Hz (default: the circuit's sweep). */
   frequencies?: Float64Array;
@@ -45,46 +45,56 @@ export async function closeSweepPool(): Promise<void> {
 }
 
 /**
- * Solves the sweep on worker threads, the frequencies split into one contiguous share per
- * worker. Every frequency point is solved by the same code on the same data as in
- * {@link solveSweep}, so the result is identical to the single-thread run bit for bit.
+ * Solves the sweep on `jobs` threads: the frequencies are split into one contiguous share per
+ * thread; this thread solves the first share itself while the pool's `jobs − 1` workers solve the
+ * others. Every frequency point is solved by the same code on the same data as in
+ * {@link solveSweep} (the same pivot frequency and lowest frequency for every share), so the
+ * result is identical to the single-thread run bit for bit.
  */
 export async function solveSweepParallel(circuit: Circuit, options: ParallelOptions = {}): Promise<NetworkData> {
   const freqs = options.frequencies ?? circuit.frequencies;
   const jobs = Math.max(1, Math.min(options.jobs ?? availableParallelism(), freqs.length));
   if (jobs === 1) return solveSweep(circuit, { frequencies: freqs, onProgress: options.onProgress });
-  const pool = await poolFor(jobs);
+  const pool = await poolFor(jobs - 1);
   const lowest = lowestOf(freqs);
-  {
-    const shares: Float64Array[] = [];
-    let done = 0;
-    for (let w = 0; w < jobs; w++) {
-      const lo = Math.floor((w * freqs.length) / jobs);
-      const hi = Math.floor(((w + 1) * freqs.length) / jobs);
-      shares.push(freqs.slice(lo, hi));
-    }
-    // A worker's failure comes back as a plain error; solving that share here rethrows it with its
-    // own type and details (a singular system names its nodes and frequency).
-    const parts = (await Promise.all(
-      shares.map((f) =>
-        pool
-          .run({ circuit, frequencies: f, pivotFrequency: freqs[0]!, lowestFrequency: lowest })
-          .catch(() => solveSweep(circuit, { frequencies: f, pivotFrequency: freqs[0]!, lowestFrequency: lowest }).values)
-          .then((v: Float64Array) => {
-            done += f.length;
-            options.onProgress?.(done, freqs.length);
-            return v;
-          }),
-      ),
-    )) as Float64Array[];
-    const p = circuit.ports.length;
-    const values = new Float64Array(2 * p * p * freqs.length);
-    let offset = 0;
-    for (const part of parts) {
-      values.set(part, offset);
-      offset += part.length;
-    }
-    const first = solveSweep(circuit, { frequencies: freqs.subarray(0, 0) });
-    return { ...first, frequencies: Float64Array.from(freqs), values };
+  const common = { pivotFrequency: freqs[0]!, lowestFrequency: lowest };
+  const shares: Float64Array[] = [];
+  for (let w = 0; w < jobs; w++) {
+    const lo = Math.floor((w * freqs.length) / jobs);
+    const hi = Math.floor(((w + 1) * freqs.length) / jobs);
+    shares.push(freqs.slice(lo, hi));
   }
+  let done = 0;
+  const report = (count: number) => {
+    done += count;
+    options.onProgress?.(done, freqs.length);
+  };
+  // A worker's failure comes back as a plain error; solving that share here rethrows it with its
+  // own type and details (a singular system names its nodes and frequency).
+  const remote = shares.slice(1).map((f) =>
+    pool
+      .run({ circuit, frequencies: f, ...common })
+      .catch(() => solveSweep(circuit, { frequencies: f, ...common }).values)
+      .then((v: Float64Array) => {
+        report(f.length);
+        return v;
+      }),
+  );
+  let first: NetworkData;
+  try {
+    first = solveSweep(circuit, { frequencies: shares[0]!, ...common });
+  } catch (e) {
+    await Promise.allSettled(remote);
+    throw e;
+  }
+  report(shares[0]!.length);
+  const parts = [first.values, ...((await Promise.all(remote)) as Float64Array[])];
+  const p = circuit.ports.length;
+  const values = new Float64Array(2 * p * p * freqs.length);
+  let offset = 0;
+  for (const part of parts) {
+    values.set(part, offset);
+    offset += part.length;
+  }
+  return { ...first, frequencies: Float64Array.from(freqs), values };
 }
