@@ -147,6 +147,35 @@ async function mathjsBaseline(circuit) {
   return { usPerPoint: ((performance.now() - t0) * 1000) / points, rssMB: process.resourceUsage().maxRSS / 1024 };
 }
 
+/**
+ * What two threads give on this machine at all: a plain arithmetic loop on one worker, then on two
+ * at once (median of several rounds). On a shared machine the second core is not always free.
+ */
+async function calibrate() {
+  const { Worker } = await import('node:worker_threads');
+  const code = `const { parentPort } = require('node:worker_threads');
+    parentPort.on('message', () => { const a = new Float64Array(4096); let s = 0; const t = performance.now();
+      for (let r = 0; r < 8000; r++) for (let i = 0; i < 4096; i++) { a[i] = a[i] * 0.999 + i; s += a[i]; }
+      parentPort.postMessage(s > 0 ? performance.now() - t : 0); });`;
+  const w1 = new Worker(code, { eval: true });
+  const w2 = new Worker(code, { eval: true });
+  const run = (w) => new Promise((r) => { w.once('message', r); w.postMessage(0); });
+  await run(w1);
+  await run(w2);
+  const ratios = [];
+  for (let k = 0; k < 7; k++) {
+    let t = performance.now();
+    await run(w1);
+    const one = performance.now() - t;
+    t = performance.now();
+    await Promise.all([run(w1), run(w2)]);
+    ratios.push((2 * one) / (performance.now() - t));
+  }
+  await w1.terminate();
+  await w2.terminate();
+  return { speedup: median(ratios), low: Math.min(...ratios), high: Math.max(...ratios) };
+}
+
 const arg = process.argv.indexOf('--one');
 if (arg > 0) {
   const res = await one(process.argv[arg + 1], Number(process.argv[arg + 2]));
@@ -176,6 +205,7 @@ for (const [label, kind, size] of [
   process.stderr.write(`${label}: done\n`);
 }
 const base = child('mathjs', 100);
+const cal = await calibrate();
 const el = child('elaborate', 100000);
 const cpu = cpus()[0]?.model ?? 'unknown CPU';
 console.log(`scatterbox benchmark — Node ${process.version}, ${availableParallelism()} cores (${cpu}), ${(totalmem() / 2 ** 30).toFixed(0)} GiB`);
@@ -187,4 +217,5 @@ console.log('');
 const l100 = results.ladder100.usPerPoint;
 console.log(`dense mathjs baseline, ladder N = 100: ${fmt(base.usPerPoint)} µs/point — ${(base.usPerPoint / l100).toFixed(0)}× slower than scatterbox`);
 console.log(`parse and elaborate 100,000 elements: ${(el.ms / 1000).toFixed(2)} s (peak ${fmt(el.rssMB, 0)} MB)`);
+console.log(`two threads of plain arithmetic on this machine: ${cal.speedup.toFixed(2)}× one thread (median of 7; ${cal.low.toFixed(2)}× to ${cal.high.toFixed(2)}×)`);
 console.log(`ladder cost N = 10,000 / N = 1,000: ${(results.ladder10000.usPerPoint / results.ladder1000.usPerPoint).toFixed(1)}× for 10× the size`);

@@ -2,6 +2,7 @@ import type { CstNode, IToken, IRecognitionException } from 'chevrotain';
 import { parseLines, type ParsedLine } from '../parse/parser.js';
 import { DiagnosticBag, type SourceSpan } from '../diagnostics/diagnostic.js';
 import { joinSpans, type Arg, type Expr, type NetlistAst, type Statement } from './ast.js';
+import { BLANK, readSimpleLine } from './fast.js';
 
 type Children = Record<string, (CstNode | IToken)[] | undefined>;
 
@@ -204,8 +205,68 @@ function explain(e: IRecognitionException, line: IToken[]): { message: string; h
   return { message: `unexpected ${found}: expected ${want}`, at };
 }
 
-/** Parses a netlist text to its AST, reporting every lexical and grammar error into `bag`. */
-export function parseNetlist(text: string, file: string, bag: DiagnosticBag): NetlistAst {
+export interface ParseOptions {
+  /** Read every line with the grammar, none by the fast path of ast/fast.ts (for tests). */
+  grammarOnly?: boolean;
+}
+
+/**
+ * Parses a netlist text to its AST, reporting every lexical and grammar error into `bag`.
+ *
+ * Plain lines are read by the fast path (ast/fast.ts); the rest of the text — with the plain lines
+ * blanked, so that every position stays where it was — goes through the grammar, and the two sets
+ * of statements are merged back in line order.
+ */
+export function parseNetlist(text: string, file: string, bag: DiagnosticBag, options: ParseOptions = {}): NetlistAst {
+  if (options.grammarOnly) return parseWithGrammar(text, file, bag);
+  const fast: Statement[] = [];
+  const rest: string[] = [];
+  let left = 0; // lines left to the grammar
+  let lineNo = 1;
+  let continued = false; // the previous line ended in a backslash: this one belongs to it
+  const breaks = /\r\n|\n|\r/g;
+  let from = 0;
+  for (;;) {
+    const m = breaks.exec(text);
+    const to = m ? m.index : text.length;
+    const line = text.slice(from, to);
+    const read = continued ? undefined : readSimpleLine(line, lineNo, file);
+    if (read === undefined) {
+      rest.push(line);
+      left++;
+      continued = line.includes('\\');
+    } else {
+      rest.push('');
+      if (read !== BLANK) fast.push(read);
+    }
+    rest.push(m ? m[0] : '');
+    if (!m) break;
+    from = to + m[0].length;
+    lineNo++;
+  }
+  if (left === 0) return { file, statements: fast, failedKeywords: [] };
+  const slow = parseWithGrammar(rest.join(''), file, bag);
+  if (fast.length === 0) return slow;
+  // merge by line (each list is in line order already)
+  const statements: Statement[] = [];
+  let a = 0;
+  let b = 0;
+  while (a < fast.length || b < slow.statements.length) {
+    const fa = fast[a];
+    const sb = slow.statements[b];
+    if (sb === undefined || (fa !== undefined && fa.keywordSpan.line < sb.keywordSpan.line)) {
+      statements.push(fa!);
+      a++;
+    } else {
+      statements.push(sb);
+      b++;
+    }
+  }
+  return { file, statements, failedKeywords: slow.failedKeywords };
+}
+
+/** Parses with the grammar and its visitor alone. */
+function parseWithGrammar(text: string, file: string, bag: DiagnosticBag): NetlistAst {
   const builder = new AstBuilder(file);
   const statements: Statement[] = [];
   const failedKeywords: string[] = [];
