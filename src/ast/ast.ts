@@ -45,6 +45,11 @@ export interface NetlistAst {
   failedKeywords: string[];
 }
 
+/** The text of a quoted string token: the quotes dropped, backslash escapes resolved (`\n`, `\t`, or the character itself). */
+export function unquote(s: string): string {
+  return s.slice(1, -1).replace(/\\(.)/g, (_, ch: string) => (ch === 'n' ? '\n' : ch === 't' ? '\t' : ch));
+}
+
 /** Span covering `a` through `b` when both lie on one line; otherwise `a`. */
 export function joinSpans(a: SourceSpan, b: SourceSpan): SourceSpan {
   if (a.file !== b.file || a.line !== b.line) return a;

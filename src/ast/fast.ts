@@ -11,7 +11,7 @@
  * @module
  */
 import type { SourceSpan } from '../diagnostics/diagnostic.js';
-import { joinSpans, type Arg, type Expr, type Statement } from './ast.js';
+import { joinSpans, unquote, type Arg, type Expr, type Statement } from './ast.js';
 
 // the grammar's token patterns (parse/lexer.ts), sticky
 const NUMBER = /(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?/y;
@@ -89,9 +89,6 @@ function span(file: string, lineNo: number, t: number): SourceSpan {
   return { file, line: lineNo, column: starts[t]! + 1, length: Math.max(1, images[t]!.length) };
 }
 
-function unquote(s: string): string {
-  return s.slice(1, -1).replace(/\\(.)/g, (_, ch: string) => (ch === 'n' ? '\n' : ch === 't' ? '\t' : ch));
-}
 
 /**
  * Reads one physical line. Returns its statement, {@link BLANK} for a line with no statement (empty

@@ -1,7 +1,7 @@
 import type { CstNode, IToken, IRecognitionException } from 'chevrotain';
 import { parseLines, type ParsedLine } from '../parse/parser.js';
 import { DiagnosticBag, type SourceSpan } from '../diagnostics/diagnostic.js';
-import { joinSpans, type Arg, type Expr, type NetlistAst, type Statement } from './ast.js';
+import { joinSpans, unquote, type Arg, type Expr, type NetlistAst, type Statement } from './ast.js';
 import { BLANK, readSimpleLine } from './fast.js';
 
 type Children = Record<string, (CstNode | IToken)[] | undefined>;
@@ -146,9 +146,6 @@ class AstBuilder {
   }
 }
 
-function unquote(s: string): string {
-  return s.slice(1, -1).replace(/\\(.)/g, (_, ch: string) => (ch === 'n' ? '\n' : ch === 't' ? '\t' : ch));
-}
 
 const TOKEN_WORDS: Record<string, string> = {
   Identifier: 'a name',
