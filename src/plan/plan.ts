@@ -25,10 +25,12 @@ export interface StampPlan {
   slotRow: Int32Array;
   slotCol: Int32Array;
   /**
-   * Per-frequency stampers, run after the slot values are set to {@link StampPlan.baseValues}
-   * (see {@link stampAt}): one for all kernel-batched admittances, one per other element.
+   * Per-frequency stampers of the elements not batched by kernel, run after the slot values are
+   * set to {@link StampPlan.baseValues} and the batch is stamped (see {@link stampAt}).
    */
   stampers: Stamper[];
+  /** The kernel-batched admittances that vary with frequency (resistors, capacitors, inductors…). */
+  batch: AdmittanceBatch | undefined;
   /** The frequency-independent part of the slot values (resistors, port terminations). */
   baseValues: Float64Array;
   /** Per port: unknown of its plus and minus terminals (GROUND = -1) and its reference in ohms. */
@@ -148,8 +150,7 @@ export function buildPlan(circuit: Circuit, options: PlanOptions = {}): StampPla
   for (let i = 0; i < size; i++) builder.entry(i, i);
   const baseValues = new Float64Array(2 * rows.length);
   for (const t of terminations) addAdmittance(baseValues, t.s, t.gr, t.gi);
-  const batched = batchAdmittances(groups, baseValues);
-  if (batched) stampers.unshift(batched);
+  const batch = batchAdmittances(groups, baseValues);
   const unknownNode = new Int32Array(size).fill(-1);
   for (let i = 0; i < nodeUnknown.length; i++) if (nodeUnknown[i]! >= 0) unknownNode[nodeUnknown[i]!] = i;
   return {
@@ -160,6 +161,7 @@ export function buildPlan(circuit: Circuit, options: PlanOptions = {}): StampPla
     slotRow: Int32Array.from(rows),
     slotCol: Int32Array.from(cols),
     stampers,
+    batch,
     baseValues,
     portPlus,
     portMinus,
@@ -172,17 +174,68 @@ export function buildPlan(circuit: Circuit, options: PlanOptions = {}): StampPla
 /** Sets the slot values of the plan's matrix at angular frequency `omega` (no allocation). */
 export function stampAt(plan: StampPlan, omega: number, values: Float64Array): void {
   values.set(plan.baseValues);
+  plan.batch?.stamp(omega, values);
   const st = plan.stampers;
   for (let e = 0; e < st.length; e++) st[e]!(omega, values);
 }
 
+/** One kernel's share of the batched admittances. */
+interface KernelGroup {
+  kernel: AdmittanceKernel;
+  params: Float64Array;
+  count: number;
+  offset: number;
+}
+
 /**
- * One stamper for all kernel-batched admittances: per frequency each kernel runs over its
- * elements, then every admittance is added into its slots (+y on the diagonal slots, −y off it).
- * Constant kernels are evaluated here, once, into `base`. Undefined when nothing varies.
+ * All kernel-batched admittances of a plan: per frequency each kernel runs over its elements,
+ * then every admittance is added into its slots (+y on the diagonal slots, −y off it). A class,
+ * so that the sweep calls the same function for every plan (the JIT keeps it inlined).
  */
-function batchAdmittances(groups: Map<AdmittanceKernel, { params: number[]; plus: number[]; minus: number[] }>, base: Float64Array): Stamper | undefined {
-  const varying: { kernel: AdmittanceKernel; params: Float64Array; count: number; offset: number }[] = [];
+export class AdmittanceBatch {
+  private readonly y: Float64Array;
+  constructor(
+    private readonly groups: KernelGroup[],
+    /** (2·slot, 2·admittance index) pairs that receive +y, then those that receive −y. */
+    private readonly plus: Int32Array,
+    private readonly minus: Int32Array,
+    total: number,
+  ) {
+    this.y = new Float64Array(2 * total);
+  }
+
+  stamp(omega: number, v: Float64Array): void {
+    const y = this.y;
+    const groups = this.groups;
+    for (let g = 0; g < groups.length; g++) {
+      const k = groups[g]!;
+      k.kernel.run(omega, k.params, k.count, y, k.offset);
+    }
+    const pl = this.plus;
+    const np = pl.length;
+    for (let t = 0; t < np; t += 2) {
+      const s = pl[t]!;
+      const a = pl[t + 1]!;
+      v[s] += y[a]!;
+      v[s + 1] += y[a + 1]!;
+    }
+    const mi = this.minus;
+    const nm = mi.length;
+    for (let t = 0; t < nm; t += 2) {
+      const s = mi[t]!;
+      const a = mi[t + 1]!;
+      v[s] -= y[a]!;
+      v[s + 1] -= y[a + 1]!;
+    }
+  }
+}
+
+/**
+ * Gathers the kernel-batched admittances. Constant kernels are evaluated here, once, into `base`.
+ * Undefined when nothing varies with frequency.
+ */
+function batchAdmittances(groups: Map<AdmittanceKernel, { params: number[]; plus: number[]; minus: number[] }>, base: Float64Array): AdmittanceBatch | undefined {
+  const varying: KernelGroup[] = [];
   const plus: number[] = [];
   const minus: number[] = [];
   let total = 0;
@@ -203,33 +256,10 @@ function batchAdmittances(groups: Map<AdmittanceKernel, { params: number[]; plus
       continue;
     }
     varying.push({ kernel, params, count, offset: total });
-    // pairs as (2·slot, 2·admittance index) for the scatter below
     for (let t = 0; t < g.plus.length; t += 2) plus.push(2 * g.plus[t]!, 2 * (total + g.plus[t + 1]!));
     for (let t = 0; t < g.minus.length; t += 2) minus.push(2 * g.minus[t]!, 2 * (total + g.minus[t + 1]!));
     total += count;
   }
   if (varying.length === 0) return undefined;
-  const y = new Float64Array(2 * total);
-  const pl = Int32Array.from(plus);
-  const mi = Int32Array.from(minus);
-  const np = pl.length;
-  const nm = mi.length;
-  return (omega, v) => {
-    for (let g = 0; g < varying.length; g++) {
-      const k = varying[g]!;
-      k.kernel.run(omega, k.params, k.count, y, k.offset);
-    }
-    for (let t = 0; t < np; t += 2) {
-      const s = pl[t]!;
-      const a = pl[t + 1]!;
-      v[s] += y[a]!;
-      v[s + 1] += y[a + 1]!;
-    }
-    for (let t = 0; t < nm; t += 2) {
-      const s = mi[t]!;
-      const a = mi[t + 1]!;
-      v[s] -= y[a]!;
-      v[s + 1] -= y[a + 1]!;
-    }
-  };
+  return new AdmittanceBatch(varying, Int32Array.from(plus), Int32Array.from(minus), total);
 }

@@ -15,6 +15,8 @@ import {
   solve as sparseSolve,
   solveRange as sparseSolveRange,
   type SparsePattern,
+  type SparseFactor,
+  type SolveRange,
 } from './sparse/index.js';
 import type { NetworkData } from '../network/types.js';
 import { buildPlan, lowestOf, stampAt, type StampPlan } from '../plan/plan.js';
@@ -74,37 +76,46 @@ interface LinearEngine {
   nullDirection(): Float64Array | undefined;
 }
 
-function denseEngine(plan: StampPlan): LinearEngine {
-  const n = plan.size;
-  const nSlots = plan.slotRow.length;
-  const pos = new Int32Array(nSlots);
-  for (let s = 0; s < nSlots; s++) pos[s] = 2 * (plan.slotRow[s]! * n + plan.slotCol[s]!);
-  const a = new Float64Array(2 * n * n);
-  const lu = createLu(n);
-  return {
-    lastRcond: NaN,
-    factor(vals) {
-      a.fill(0);
-      for (let s = 0; s < nSlots; s++) {
-        const q = pos[s]!;
-        a[q] += vals[2 * s]!;
-        a[q + 1] += vals[2 * s + 1]!;
-      }
-      const status = luFactor(n, a, lu, 0);
-      if (status !== LU_OK) return status;
-      this.lastRcond = rcondEstimate(lu);
-      return this.lastRcond < SINGULAR_RCOND ? -2 : -1;
-    },
-    solve(rhs, x, nrhs) {
-      luSolve(lu, rhs, x, nrhs);
-    },
-    nullDirection() {
-      if (lu.status !== LU_OK) return undefined;
-      const b = new Float64Array(2 * n);
-      for (let i = 0; i < n; i++) b[2 * i] = 1 + i / n;
-      return luSolve(lu, b, new Float64Array(2 * n), 1);
-    },
-  };
+/** The dense engine (classes, not closures: one set of functions for every sweep, which the JIT keeps). */
+class DenseEngine implements LinearEngine {
+  lastRcond = NaN;
+  private readonly n: number;
+  private readonly pos: Int32Array;
+  private readonly a: Float64Array;
+  private readonly lu: ReturnType<typeof createLu>;
+  constructor(plan: StampPlan) {
+    const n = plan.size;
+    this.n = n;
+    const nSlots = plan.slotRow.length;
+    this.pos = new Int32Array(nSlots);
+    for (let s = 0; s < nSlots; s++) this.pos[s] = 2 * (plan.slotRow[s]! * n + plan.slotCol[s]!);
+    this.a = new Float64Array(2 * n * n);
+    this.lu = createLu(n);
+  }
+  factor(vals: Float64Array): number {
+    const a = this.a;
+    const pos = this.pos;
+    a.fill(0);
+    for (let s = 0; s < pos.length; s++) {
+      const q = pos[s]!;
+      a[q] += vals[2 * s]!;
+      a[q + 1] += vals[2 * s + 1]!;
+    }
+    const status = luFactor(this.n, a, this.lu, 0);
+    if (status !== LU_OK) return status;
+    this.lastRcond = rcondEstimate(this.lu);
+    return this.lastRcond < SINGULAR_RCOND ? -2 : -1;
+  }
+  solve(rhs: Float64Array, x: Float64Array, nrhs: number): void {
+    luSolve(this.lu, rhs, x, nrhs);
+  }
+  nullDirection(): Float64Array | undefined {
+    const n = this.n;
+    if (this.lu.status !== LU_OK) return undefined;
+    const b = new Float64Array(2 * n);
+    for (let i = 0; i < n; i++) b[2 * i] = 1 + i / n;
+    return luSolve(this.lu, b, new Float64Array(2 * n), 1);
+  }
 }
 
 /**
@@ -114,55 +125,67 @@ function denseEngine(plan: StampPlan): LinearEngine {
  * Each point's result therefore depends only on its own values and the reference — not on which
  * points were solved before it — which keeps parallel sweeps bit-identical to one thread.
  */
-function sparseEngine(plan: StampPlan, reference: Float64Array | undefined): LinearEngine {
-  const n = plan.size;
-  // Right-hand sides only in port rows, and only port voltages wanted: with the port unknowns
-  // ordered last the solves touch only the last few steps, but the factors may fill more (on a
-  // ladder, a dense row and column for the far port). The cheaper of the two orders is taken.
-  const ports = Int32Array.from([...plan.portPlus, ...plan.portMinus].filter((u) => u >= 0));
-  const nrhs = plan.portPlus.length;
-  let pattern = analyse(n, plan.slotRow, plan.slotCol);
-  if (ports.length > 0) {
-    const held = analyse(n, plan.slotRow, plan.slotCol, { last: ports });
-    if (pointCost(held, ports, nrhs) < pointCost(pattern, ports, nrhs)) pattern = held;
+class SparseEngine implements LinearEngine {
+  lastRcond = NaN;
+  private readonly n: number;
+  private readonly ports: Int32Array;
+  private readonly pattern: SparsePattern;
+  private readonly main: SparseFactor;
+  private scratch: SparseFactor | undefined;
+  private used: SparseFactor;
+  private readonly mainRange: SolveRange;
+  private range: SolveRange;
+  constructor(plan: StampPlan, reference: Float64Array | undefined) {
+    const n = plan.size;
+    // Right-hand sides only in port rows, and only port voltages wanted: with the port unknowns
+    // ordered last the solves touch only the last few steps, but the factors may fill more (on a
+    // ladder, a dense row and column for the far port). The cheaper of the two orders is taken.
+    const ports = Int32Array.from([...plan.portPlus, ...plan.portMinus].filter((u) => u >= 0));
+    const nrhs = plan.portPlus.length;
+    let pattern = analyse(n, plan.slotRow, plan.slotCol);
+    if (ports.length > 0) {
+      const held = analyse(n, plan.slotRow, plan.slotCol, { last: ports });
+      if (pointCost(held, ports, nrhs) < pointCost(pattern, ports, nrhs)) pattern = held;
+    }
+    this.n = n;
+    this.ports = ports;
+    this.pattern = pattern;
+    this.main = createFactor(pattern);
+    this.used = this.main;
+    if (reference) sparseFactor(this.main, reference);
+    this.mainRange = sparseSolveRange(this.main, ports, ports);
+    this.range = this.mainRange;
   }
-  const main = createFactor(pattern);
-  let scratch: ReturnType<typeof createFactor> | undefined;
-  let used = main;
-  if (reference) sparseFactor(main, reference);
-  const mainRange = sparseSolveRange(main, ports, ports);
-  let range = mainRange;
-  return {
-    lastRcond: NaN,
-    factor(vals) {
-      used = main;
-      range = mainRange;
-      this.lastRcond = NaN;
-      let status = sparseRefactor(main, vals);
-      if (status === NEEDS_PIVOTING) {
-        scratch ??= createFactor(pattern);
-        used = scratch;
-        status = sparseFactor(scratch, vals);
-        range = sparseSolveRange(scratch, ports, ports);
-      }
-      if (status !== SPARSE_OK) return used.failColumn >= 0 ? used.failColumn : n;
-      // the condition estimate only where the pivots spread wide
-      if (used.pivotMin >= PIVOT_SPREAD_CHECK * used.pivotMax) return -1;
-      this.lastRcond = reciprocalCondition(used);
-      return this.lastRcond < SINGULAR_RCOND ? -2 : -1;
-    },
-    solve(rhs, x, nrhs) {
-      // right-hand sides only in port rows, and only port voltages wanted
-      sparseSolve(used, rhs, x, nrhs, range);
-    },
-    nullDirection() {
-      const b = new Float64Array(2 * n);
-      for (let i = 0; i < n; i++) b[2 * i] = 1 + i / n;
-      const x = new Float64Array(2 * n);
-      sparseSolve(used, b, x, 1);
-      return x;
-    },
-  };
+  factor(vals: Float64Array): number {
+    this.used = this.main;
+    this.range = this.mainRange;
+    this.lastRcond = NaN;
+    let status = sparseRefactor(this.main, vals);
+    if (status === NEEDS_PIVOTING) {
+      const scratch = (this.scratch ??= createFactor(this.pattern));
+      this.used = scratch;
+      status = sparseFactor(scratch, vals);
+      this.range = sparseSolveRange(scratch, this.ports, this.ports);
+    }
+    const used = this.used;
+    if (status !== SPARSE_OK) return used.failColumn >= 0 ? used.failColumn : this.n;
+    // the condition estimate only where the pivots spread wide
+    if (used.pivotMin >= PIVOT_SPREAD_CHECK * used.pivotMax) return -1;
+    this.lastRcond = reciprocalCondition(used);
+    return this.lastRcond < SINGULAR_RCOND ? -2 : -1;
+  }
+  solve(rhs: Float64Array, x: Float64Array, nrhs: number): void {
+    // right-hand sides only in port rows, and only port voltages wanted
+    sparseSolve(this.used, rhs, x, nrhs, this.range);
+  }
+  nullDirection(): Float64Array | undefined {
+    const n = this.n;
+    const b = new Float64Array(2 * n);
+    for (let i = 0; i < n; i++) b[2 * i] = 1 + i / n;
+    const x = new Float64Array(2 * n);
+    sparseSolve(this.used, b, x, 1);
+    return x;
+  }
 }
 
 /**
@@ -231,7 +254,7 @@ export function solveSweep(circuit: Circuit, options: SweepOptions = {}): Networ
   const nSlots = plan.slotRow.length;
   const vals = new Float64Array(2 * nSlots);
   let engine: LinearEngine;
-  if (chooseSolver(plan, options.solver) === 'dense') engine = denseEngine(plan);
+  if (chooseSolver(plan, options.solver) === 'dense') engine = new DenseEngine(plan);
   else {
     const f0 = options.pivotFrequency ?? freqs[0];
     let reference: Float64Array | undefined;
@@ -239,7 +262,7 @@ export function solveSweep(circuit: Circuit, options: SweepOptions = {}): Networ
       reference = new Float64Array(2 * nSlots);
       stampAt(plan, 2 * Math.PI * f0, reference);
     }
-    engine = sparseEngine(plan, reference);
+    engine = new SparseEngine(plan, reference);
   }
   const rhs = new Float64Array(2 * n * p);
   const x = new Float64Array(2 * n * p);
