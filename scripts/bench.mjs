@@ -14,8 +14,10 @@ import { fileURLToPath } from 'node:url';
 const here = fileURLToPath(import.meta.url);
 const lib = new URL('../dist/src/index.js', import.meta.url).href;
 const parallelLib = new URL('../dist/src/solve/parallel.js', import.meta.url).href;
-// Parallel runs reuse one pool (as a long-running caller would); the first run of each workload
-// is not counted for either mode, so both are measured warm.
+// Parallel runs reuse one pool (as a long-running caller would); the first WARM_RUNS runs of each
+// workload are not counted for either mode, so both are measured warm (a worker's JIT takes a few
+// sweeps to settle, as the main thread's does).
+const WARM_RUNS = 3;
 
 function ladder(n, sweep) {
   const l = ['let l = 12 nH', 'let c = 4.7 pF'];
@@ -95,12 +97,14 @@ async function one(kind, size) {
   writeFileSync(file, text);
   const { circuit } = loadNetlist(text, file);
   if (kind === 'mathjs') return mathjsBaseline(circuit, size);
-  const reps = size >= 100000 ? 1 : 4;
+  const reps = size >= 100000 ? 1 : 5;
   const times = [];
   const timesAll = [];
   if (size < 100000) {
-    solve(circuit);
-    await solveSweepParallel(circuit, { jobs: availableParallelism() });
+    for (let w = 0; w < WARM_RUNS; w++) {
+      solve(circuit);
+      await solveSweepParallel(circuit, { jobs: availableParallelism() });
+    }
   }
   for (let r = 0; r < reps; r++) {
     const t0 = performance.now();

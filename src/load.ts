@@ -94,7 +94,7 @@ export function loadNetlist(text: string, file: string, options: LoadOptions = {
     if (segments.length === 0) bag.error('bad-sweep', '`--sweep` is empty', { file: SWEEP_FILE, line: 1, column: 1, length: 1 });
   }
 
-  const circuit = elaborate(ast, bag, { overrides, sweep, readNetwork });
+  const circuit = elaborate(ast, bag, { overrides, sweep, readNetwork, consume: true });
   if (bag.hasErrors) throw new InputError(bag.items, sources);
   return { circuit, warnings: bag.items.filter((d) => d.severity === 'warning'), sources };
 }

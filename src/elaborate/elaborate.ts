@@ -2,7 +2,7 @@ import type { Arg, Expr, KeyArg, NetlistAst, Statement } from '../ast/ast.js';
 import { DiagnosticBag, type Diagnostic, type SourceSpan } from '../diagnostics/diagnostic.js';
 import { closest, didYouMean } from '../diagnostics/suggest.js';
 import { ELEMENTS, joinedNodes, outsideRange } from '../elements/registry.js';
-import { GROUND, GROUND_NAME, type ElementInstance, type PropertySpec, type TerminalSpec } from '../elements/types.js';
+import { GROUND, GROUND_NAME, type ElementInstance, type ElementType, type PropertySpec, type TerminalSpec } from '../elements/types.js';
 import type { NetworkData } from '../network/types.js';
 import type { Circuit, ParameterValue, Port } from './circuit.js';
 import { describeUnit, evaluate, literalToSI, math, toSI, toSICached, type EvalScope, type Quantity } from './evaluate.js';
@@ -42,6 +42,12 @@ export interface ElaborateOptions {
   overrides?: Override[];
   /** Replace the netlist's sweep statements by these. */
   sweep?: Statement[];
+  /**
+   * The AST is the elaborator's to use up: its statement list is emptied and each top-level
+   * statement let go once it is elaborated, so that a large netlist's AST can be collected while
+   * its circuit is built (loadNetlist does this with the AST it parsed itself).
+   */
+  consume?: boolean;
 }
 
 /** Statement keywords that are not elements. */
@@ -108,6 +114,24 @@ function laterOf(statements: readonly Statement[]): Map<string, SourceSpan> {
 
 const DEFAULT_REFERENCE = 50;
 
+/** What defineElement needs of an element type, worked out once per type. */
+interface TypeFacts {
+  what: string;
+  textKeys: readonly string[];
+  /** Every key the type takes (for types whose terminals do not depend on their data). */
+  allowed: string[];
+}
+const typeFactsCache = new Map<ElementType, TypeFacts>();
+function typeFacts(type: ElementType): TypeFacts {
+  let f = typeFactsCache.get(type);
+  if (!f) {
+    const textKeys = (type.textProperties ?? []).map((p) => p.key);
+    f = { what: `\`${type.keyword}\``, textKeys, allowed: [...type.terminals.map((t) => t.key), ...type.properties.map((p) => p.key), ...textKeys] };
+    typeFactsCache.set(type, f);
+  }
+  return f;
+}
+
 /**
  * Elaborates a parsed netlist: evaluates parameters (units carried through), checks every
  * statement against its schema, resolves nodes and builds the sweep. Errors and warnings go into
@@ -124,6 +148,8 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
   const definitions = new Map<string, { name: string; span: SourceSpan; failed: boolean; what: string }>();
 
   const { top: topStatements, blocks } = splitBlocks(ast.statements, bag);
+  if (options.consume) ast.statements.length = 0;
+  let sawPort = false;
   const globals = new ParamScope();
   const topContext: Context = { scope: globals, prefix: '', terminals: null, chain: [], later: laterOf(topStatements) };
 
@@ -175,8 +201,12 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
 
   run(topStatements, topContext);
 
-  function run(statements: readonly Statement[], ctx: Context) {
-    for (const st of statements) {
+  function run(statements: (Statement | undefined)[], ctx: Context) {
+    const release = options.consume && ctx === topContext;
+    for (let i = 0; i < statements.length; i++) {
+      const st = statements[i]!;
+      // a consumed top-level statement is let go once read (what it made keeps only its spans)
+      if (release) statements[i] = undefined;
       if (ctx.terminals && TOP_LEVEL_ONLY.has(st.keyword)) {
         bag.error('not-in-block', `\`${st.keyword}\` cannot be used inside a block`, st.keywordSpan, st.keyword === 'block' ? 'define blocks at the top level and use them inside others' : 'put it at the top level of the netlist');
         continue;
@@ -195,6 +225,7 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
           defineParameters(st, ctx);
           break;
         case 'port':
+          if (ctx === topContext) sawPort = true;
           definePort(st, ctx);
           break;
         case 'sweep':
@@ -363,7 +394,7 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
 
   function keyArgs(st: Statement, allowed: string[], what: string, textKeys: readonly string[] = []): Map<string, KeyArg> {
     const m = new Map<string, KeyArg>();
-    suggestedKeys = new Set<string>();
+    if (suggestedKeys.size > 0) suggestedKeys = new Set<string>();
     for (const a of st.args) {
       if (a.kind !== 'key') {
         bag.error('unexpected-text', `a quoted string is not an argument of ${what}`, a.span);
@@ -434,9 +465,14 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
 
   function atArg(a: KeyArg, ctx: Context): number | undefined {
     if (!a.at) return undefined;
-    const q = evaluate(a.at, evalScope(ctx), bag);
-    if (q === undefined) return undefined;
-    const r = toSI(q, 'Hz');
+    const e = a.at;
+    // plain literals (`at 433 MHz`) through the cached unit factors, like numberArg
+    let r = e.kind === 'number' && Number.isFinite(e.value) ? literalToSI(e.value, e.unit, 'Hz') : undefined;
+    if (!r) {
+      const q = evaluate(e, evalScope(ctx), bag);
+      if (q === undefined) return undefined;
+      r = toSICached(q, 'Hz');
+    }
     if ('error' in r) {
       bag.error('wrong-unit', `the value after \`at\` must be a frequency (Hz), but ${r.error}`, a.at.span, unitHelp('Hz'));
       return undefined;
@@ -445,14 +481,13 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
   }
 
   function defineElement(st: Statement, type: NonNullable<ReturnType<typeof ELEMENTS.get>>, ctx: Context) {
-    const what = `\`${type.keyword}\``;
+    const { what, textKeys, allowed: fixedAllowed } = typeFacts(type);
     if (!st.label || st.label.isNumber) {
       bag.error('missing-name', `${what} needs a name after the keyword`, st.label?.span ?? st.keywordSpan, `e.g. \`${type.example}\``);
       return;
     }
     const name = claimName(st.label, ctx);
     if (name === undefined) return;
-    const textKeys = (type.textProperties ?? []).map((p) => p.key);
     // Terminals may depend on the text properties (a data file's ports): allow any key that looks
     // like one until they are known.
     let terminals: readonly TerminalSpec[] = type.terminals;
@@ -469,7 +504,7 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
       if (!resolved) return;
       terminals = resolved;
     }
-    const allowed = [...terminals.map((t) => t.key), ...type.properties.map((p) => p.key), ...textKeys];
+    const allowed = type.resolve ? [...terminals.map((t) => t.key), ...type.properties.map((p) => p.key), ...textKeys] : fixedAllowed;
     const args = keyArgs(st, allowed, what, textKeys);
     if (!type.resolve && !readText(args)) return;
 
@@ -626,7 +661,7 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
 
   // Ports: numbered 1..N without gaps.
   const portList = [...ports.values()].sort((a, b) => a.number - b.number);
-  if (!topStatements.some((st) => st.keyword === 'port') && !ast.failedKeywords.includes('port')) {
+  if (!sawPort && !ast.failedKeywords.includes('port')) {
     bag.error('no-ports', 'the netlist has no `port`', { file: ast.file, line: 1, column: 1, length: 1 }, 'add e.g. `port 1 plus=in`');
   }
   const missingPorts: number[] = [];
