@@ -1,7 +1,7 @@
 import type { Circuit } from '../elaborate/circuit.js';
 import { ELEMENTS } from '../elements/registry.js';
 import { addAdmittance, admittanceSlots } from '../elements/stamp.js';
-import { GROUND, type AdmittanceKernel, type StampBuilder, type Stamper } from '../elements/types.js';
+import { GROUND, type AdmittanceKernel, type ElementInstance, type StampBuilder, type Stamper } from '../elements/types.js';
 
 /**
  * The stamp plan of a circuit: the unknowns, the fixed sparsity pattern (one slot per distinct
@@ -58,6 +58,55 @@ export function lowestOf(freqs: ArrayLike<number>): number {
   return lo === Infinity ? 0 : Math.max(0, lo);
 }
 
+/** Slot numbers by (row, col): open addressing over typed arrays, for plans of many elements. */
+class SlotTable {
+  private rows: Int32Array;
+  private cols: Int32Array;
+  private values: Int32Array;
+  private mask: number;
+  private count = 0;
+  constructor(expected: number) {
+    let cap = 64;
+    while (cap < 2 * expected) cap *= 2;
+    this.mask = cap - 1;
+    this.rows = new Int32Array(cap).fill(-1);
+    this.cols = new Int32Array(cap);
+    this.values = new Int32Array(cap);
+  }
+  private slot(row: number, col: number): number {
+    let h = (Math.imul(row, 0x9e3779b1) ^ Math.imul(col, 0x85ebca6b)) & this.mask;
+    while (this.rows[h] !== -1 && (this.rows[h] !== row || this.cols[h] !== col)) h = (h + 1) & this.mask;
+    return h;
+  }
+  get(row: number, col: number): number {
+    const h = this.slot(row, col);
+    return this.rows[h] === -1 ? -1 : this.values[h]!;
+  }
+  set(row: number, col: number, value: number): void {
+    if (2 * (this.count + 1) > this.mask + 1) this.grow();
+    const h = this.slot(row, col);
+    if (this.rows[h] === -1) this.count++;
+    this.rows[h] = row;
+    this.cols[h] = col;
+    this.values[h] = value;
+  }
+  private grow(): void {
+    const { rows, cols, values } = this;
+    const cap = 2 * (this.mask + 1);
+    this.mask = cap - 1;
+    this.rows = new Int32Array(cap).fill(-1);
+    this.cols = new Int32Array(cap);
+    this.values = new Int32Array(cap);
+    for (let h = 0; h < rows.length; h++) {
+      if (rows[h] === -1) continue;
+      const t = this.slot(rows[h]!, cols[h]!);
+      this.rows[t] = rows[h]!;
+      this.cols[t] = cols[h]!;
+      this.values[t] = values[h]!;
+    }
+  }
+}
+
 /** Builds the stamp plan: assigns unknowns, fixes the pattern and compiles every element. */
 export function buildPlan(circuit: Circuit, options: PlanOptions = {}): StampPlan {
   const lowestFrequency = Math.max(0, options.lowestFrequency ?? lowestOf(circuit.frequencies));
@@ -77,8 +126,10 @@ export function buildPlan(circuit: Circuit, options: PlanOptions = {}): StampPla
   // Kernel-batched admittances: per kernel, the parameters and the (slot, element) pairs that
   // receive +y and −y.
   const groups = new Map<AdmittanceKernel, { params: number[]; plus: number[]; minus: number[] }>();
+  let lastKernel: AdmittanceKernel | undefined;
+  let lastGroup: { params: number[]; plus: number[]; minus: number[] } | undefined;
   // Slots are handed out in order of first use; entries touching ground get no slot.
-  const slotIndex = new Map<number, number>();
+  const slots = new SlotTable(4 * circuit.elements.length + 64);
   const rows: number[] = [];
   const cols: number[] = [];
   // Branches are numbered after the nodes; their final index is known only at the end,
@@ -92,12 +143,10 @@ export function buildPlan(circuit: Circuit, options: PlanOptions = {}): StampPla
     },
     entry(row, col) {
       if (row < 0 || col < 0) return -1;
-      // key on (row, col); sizes stay far below 2^26 unknowns
-      const key = row * 67108864 + col;
-      let s = slotIndex.get(key);
-      if (s === undefined) {
+      let s = slots.get(row, col);
+      if (s < 0) {
         s = rows.length;
-        slotIndex.set(key, s);
+        slots.set(row, col, s);
         rows.push(row);
         cols.push(col);
       }
@@ -105,11 +154,13 @@ export function buildPlan(circuit: Circuit, options: PlanOptions = {}): StampPla
     },
     lowestOmega: 2 * Math.PI * lowestFrequency,
     admittance(a, c, kernel, params) {
-      let g = groups.get(kernel);
+      let g = kernel === lastKernel ? lastGroup : groups.get(kernel);
       if (!g) groups.set(kernel, (g = { params: [], plus: [], minus: [] }));
+      lastKernel = kernel;
+      lastGroup = g;
       if (params.length !== kernel.stride) throw new Error(`stamp plan: ${params.length} parameters for a kernel of stride ${kernel.stride}`);
       const k = g.params.length / kernel.stride;
-      g.params.push(...params);
+      for (let q = 0; q < params.length; q++) g.params.push(params[q]!);
       const saa = this.entry(a, a);
       const sab = this.entry(a, c);
       const sba = this.entry(c, a);
@@ -124,7 +175,10 @@ export function buildPlan(circuit: Circuit, options: PlanOptions = {}): StampPla
   const stampers: Stamper[] = [];
   for (const el of circuit.elements) {
     const type = ELEMENTS.get(el.type)!;
-    const mapped = { ...el, nodes: el.nodes.map(toUnknown) };
+    // the element with its nodes as unknowns (written out: faster than a spread for many elements)
+    const nodes = new Array<number>(el.nodes.length);
+    for (let t = 0; t < nodes.length; t++) nodes[t] = toUnknown(el.nodes[t]!);
+    const mapped: ElementInstance = { type: el.type, name: el.name, nodes, nodeNames: el.nodeNames, props: el.props, at: el.at, span: el.span, propSpans: el.propSpans, text: el.text, data: el.data };
     const st = type.compile(mapped, builder);
     if (st) stampers.push(st);
   }
@@ -204,6 +258,19 @@ export class AdmittanceBatch {
     this.y = new Float64Array(2 * total);
   }
 
+  /**
+   * The same batch adding into another array: each slot's place 2·s becomes `target[s]` (e.g. a
+   * sparse factor's `slotTarget`, so that the values go straight into its storage).
+   */
+  retargeted(target: Int32Array): AdmittanceBatch {
+    const map = (pairs: Int32Array) => {
+      const out = Int32Array.from(pairs);
+      for (let t = 0; t < out.length; t += 2) out[t] = target[out[t]! >> 1]!;
+      return out;
+    };
+    return new AdmittanceBatch(this.groups, map(this.plus), map(this.minus), this.y.length / 2);
+  }
+
   stamp(omega: number, v: Float64Array): void {
     const y = this.y;
     const groups = this.groups;
@@ -236,8 +303,18 @@ export class AdmittanceBatch {
  */
 function batchAdmittances(groups: Map<AdmittanceKernel, { params: number[]; plus: number[]; minus: number[] }>, base: Float64Array): AdmittanceBatch | undefined {
   const varying: KernelGroup[] = [];
-  const plus: number[] = [];
-  const minus: number[] = [];
+  let nPlus = 0;
+  let nMinus = 0;
+  for (const [kernel, g] of groups) {
+    if (kernel.constant) continue;
+    nPlus += g.plus.length;
+    nMinus += g.minus.length;
+  }
+  // pairs as (2·slot, 2·admittance index) for the scatter of AdmittanceBatch.stamp
+  const plus = new Int32Array(nPlus);
+  const minus = new Int32Array(nMinus);
+  let ip = 0;
+  let im = 0;
   let total = 0;
   for (const [kernel, g] of groups) {
     const count = g.params.length / kernel.stride;
@@ -256,10 +333,16 @@ function batchAdmittances(groups: Map<AdmittanceKernel, { params: number[]; plus
       continue;
     }
     varying.push({ kernel, params, count, offset: total });
-    for (let t = 0; t < g.plus.length; t += 2) plus.push(2 * g.plus[t]!, 2 * (total + g.plus[t + 1]!));
-    for (let t = 0; t < g.minus.length; t += 2) minus.push(2 * g.minus[t]!, 2 * (total + g.minus[t + 1]!));
+    for (let t = 0; t < g.plus.length; t += 2) {
+      plus[ip++] = 2 * g.plus[t]!;
+      plus[ip++] = 2 * (total + g.plus[t + 1]!);
+    }
+    for (let t = 0; t < g.minus.length; t += 2) {
+      minus[im++] = 2 * g.minus[t]!;
+      minus[im++] = 2 * (total + g.minus[t + 1]!);
+    }
     total += count;
   }
   if (varying.length === 0) return undefined;
-  return new AdmittanceBatch(varying, Int32Array.from(plus), Int32Array.from(minus), total);
+  return new AdmittanceBatch(varying, plus, minus, total);
 }

@@ -12,6 +12,7 @@ import {
   OK as SPARSE_OK,
   reciprocalCondition,
   refactor as sparseRefactor,
+  refactorPlaced as sparseRefactorPlaced,
   solve as sparseSolve,
   solveRange as sparseSolveRange,
   type SparsePattern,
@@ -19,7 +20,7 @@ import {
   type SolveRange,
 } from './sparse/index.js';
 import type { NetworkData } from '../network/types.js';
-import { buildPlan, lowestOf, stampAt, type StampPlan } from '../plan/plan.js';
+import { buildPlan, lowestOf, stampAt, type AdmittanceBatch, type StampPlan } from '../plan/plan.js';
 
 /** Reciprocal condition number below which a system counts as singular to working precision. */
 export const SINGULAR_RCOND = 1e-15;
@@ -67,8 +68,11 @@ export function chooseSolver(plan: StampPlan, choice: SolverChoice = 'auto'): 'd
 
 /** One factor-and-solve engine over the slot values of a plan; allocated once per sweep. */
 interface LinearEngine {
-  /** Factors the matrix held in the slot values; returns -1 on success, else the unknown to blame (or -2: ill-conditioned). */
-  factor(vals: Float64Array): number;
+  /**
+   * Stamps the plan at angular frequency omega (into `vals`, or straight into the factor storage)
+   * and factors; returns -1 on success, else the unknown to blame (or -2: ill-conditioned).
+   */
+  stampFactor(omega: number, vals: Float64Array): number;
   /** The condition estimate of the last factorisation, where it was computed (else NaN). */
   lastRcond: number;
   solve(rhs: Float64Array, x: Float64Array, nrhs: number): void;
@@ -83,7 +87,7 @@ class DenseEngine implements LinearEngine {
   private readonly pos: Int32Array;
   private readonly a: Float64Array;
   private readonly lu: ReturnType<typeof createLu>;
-  constructor(plan: StampPlan) {
+  constructor(private readonly plan: StampPlan) {
     const n = plan.size;
     this.n = n;
     const nSlots = plan.slotRow.length;
@@ -92,7 +96,8 @@ class DenseEngine implements LinearEngine {
     this.a = new Float64Array(2 * n * n);
     this.lu = createLu(n);
   }
-  factor(vals: Float64Array): number {
+  stampFactor(omega: number, vals: Float64Array): number {
+    stampAt(this.plan, omega, vals);
     const a = this.a;
     const pos = this.pos;
     a.fill(0);
@@ -135,7 +140,16 @@ class SparseEngine implements LinearEngine {
   private used: SparseFactor;
   private readonly mainRange: SolveRange;
   private range: SolveRange;
-  constructor(plan: StampPlan, reference: Float64Array | undefined) {
+  /**
+   * Where every stamp is a kernel-batched admittance or frequency-independent (no per-element
+   * stampers): the image of the constant part in the factor storage, and the batch retargeted
+   * to add straight into it. The slot values are then only built where a fallback needs them.
+   */
+  private readonly direct: { image: Float64Array; batch: AdmittanceBatch | undefined } | undefined;
+  constructor(
+    private readonly plan: StampPlan,
+    reference: Float64Array | undefined,
+  ) {
     const n = plan.size;
     // Right-hand sides only in port rows, and only port voltages wanted: with the port unknowns
     // ordered last the solves touch only the last few steps, but the factors may fill more (on a
@@ -155,12 +169,37 @@ class SparseEngine implements LinearEngine {
     if (reference) sparseFactor(this.main, reference);
     this.mainRange = sparseSolveRange(this.main, ports, ports);
     this.range = this.mainRange;
+    if (plan.stampers.length === 0) {
+      const target = this.main.slotTarget;
+      const image = new Float64Array(2 * this.main.entries);
+      const base = plan.baseValues;
+      for (let k = 0; k < target.length; k++) {
+        image[target[k]!] += base[2 * k]!;
+        image[target[k]! + 1] += base[2 * k + 1]!;
+      }
+      this.direct = { image, batch: plan.batch?.retargeted(target) };
+    }
   }
-  factor(vals: Float64Array): number {
+  stampFactor(omega: number, vals: Float64Array): number {
     this.used = this.main;
     this.range = this.mainRange;
     this.lastRcond = NaN;
-    let status = sparseRefactor(this.main, vals);
+    const direct = this.direct;
+    let status;
+    if (direct) {
+      const lu = this.main.lu;
+      lu.set(direct.image);
+      direct.batch?.stamp(omega, lu);
+      status = sparseRefactorPlaced(this.main);
+      // the slot values, for a fallback or a condition estimate below
+      if (status !== SPARSE_OK || this.main.pivotMin < PIVOT_SPREAD_CHECK * this.main.pivotMax) {
+        stampAt(this.plan, omega, vals);
+        this.main.lastValues = vals;
+      }
+    } else {
+      stampAt(this.plan, omega, vals);
+      status = sparseRefactor(this.main, vals);
+    }
     if (status === NEEDS_PIVOTING) {
       const scratch = (this.scratch ??= createFactor(this.pattern));
       this.used = scratch;
@@ -302,26 +341,101 @@ export function solveSweep(circuit: Circuit, options: SweepOptions = {}): Networ
     }
   }
 
-  let worstRcond = WARN_RCOND;
-  let worstAt = NaN;
-  for (let k = 0; k < freqs.length; k++) {
-    const omega = 2 * Math.PI * freqs[k]!;
-    stampAt(plan, omega, vals);
-    const status = engine.factor(vals);
-    if (status !== -1) throw explainSingular(circuit, plan, freqs[k]!, status >= 0 ? status : -1, engine);
-    if (engine.lastRcond < worstRcond) {
-      worstRcond = engine.lastRcond;
-      worstAt = freqs[k]!;
+  const loop: PointLoop = {
+    engine,
+    freqs,
+    vals,
+    rhs,
+    x,
+    out,
+    p,
+    portPlus: plan.portPlus,
+    portMinus: plan.portMinus,
+    invSqrtRef: Float64Array.from(sqrtRef, (r) => 1 / r),
+    complexRefs,
+    kr,
+    ki,
+    dr,
+    di,
+    onProgress: options.onProgress,
+    worstRcond: WARN_RCOND,
+    worstAt: NaN,
+    failStatus: -1,
+  };
+  const failed = runPoints(loop);
+  if (failed >= 0) throw explainSingular(circuit, plan, freqs[failed]!, loop.failStatus >= 0 ? loop.failStatus : -1, engine);
+  const worstAt = loop.worstAt;
+  const worstRcond = loop.worstRcond;
+  if (!Number.isNaN(worstAt)) {
+    options.onWarning?.(`the nodal system is nearly singular at ${formatFrequency(worstAt)} (reciprocal condition ${worstRcond.toExponential(1)}): the results there may have lost digits`, worstAt, worstRcond);
+  }
+  return {
+    parameter: 'S',
+    ports: p,
+    frequencies: Float64Array.from(freqs),
+    references: Float64Array.from(plan.portReference),
+    ...(complexRefs ? { referenceReactances: Float64Array.from(plan.portReactance) } : {}),
+    values: out,
+    title: circuit.title,
+  };
+}
+
+/** Everything the per-point loop reads and what it reports back (one plain object per sweep). */
+interface PointLoop {
+  engine: LinearEngine;
+  freqs: Float64Array;
+  vals: Float64Array;
+  rhs: Float64Array;
+  x: Float64Array;
+  out: Float64Array;
+  p: number;
+  portPlus: Int32Array;
+  portMinus: Int32Array;
+  invSqrtRef: Float64Array;
+  complexRefs: boolean;
+  kr: Float64Array;
+  ki: Float64Array;
+  dr: Float64Array;
+  di: Float64Array;
+  onProgress: ((done: number, total: number) => void) | undefined;
+  /** Out: the smallest condition estimate below WARN_RCOND and its frequency (NaN: none). */
+  worstRcond: number;
+  worstAt: number;
+  /** Out: the engine's status at the point that failed. */
+  failStatus: number;
+}
+
+/**
+ * The per-frequency loop: stamp, factor, solve, and S from the port voltages. A function of its
+ * own (not the body of solveSweep), so that the JIT optimises it once and keeps it over sweeps.
+ * Returns −1, or the index of the point whose system could not be solved.
+ */
+function runPoints(L: PointLoop): number {
+  const { engine, freqs, vals, rhs, x, out, p, portPlus, portMinus, invSqrtRef, complexRefs, kr, ki, dr, di } = L;
+  const total = freqs.length;
+  for (let k = 0; k < total; k++) {
+    const status = engine.stampFactor(2 * Math.PI * freqs[k]!, vals);
+    if (status !== -1) {
+      L.failStatus = status;
+      return k;
+    }
+    if (engine.lastRcond < L.worstRcond) {
+      L.worstRcond = engine.lastRcond;
+      L.worstAt = freqs[k]!;
     }
     engine.solve(rhs, x, p);
     const base = 2 * p * p * k;
     for (let i = 0; i < p; i++) {
-      const pl = plan.portPlus[i]!;
-      const mi = plan.portMinus[i]!;
-      const inv = 1 / sqrtRef[i]!;
+      const pl = portPlus[i]!;
+      const mi = portMinus[i]!;
+      const inv = invSqrtRef[i]!;
       for (let j = 0; j < p; j++) {
-        let vr = pl !== GROUND ? x[2 * (pl * p + j)]! : 0;
-        let vi = pl !== GROUND ? x[2 * (pl * p + j) + 1]! : 0;
+        let vr = 0;
+        let vi = 0;
+        if (pl !== GROUND) {
+          vr = x[2 * (pl * p + j)]!;
+          vi = x[2 * (pl * p + j) + 1]!;
+        }
         if (mi !== GROUND) {
           vr -= x[2 * (mi * p + j)]!;
           vi -= x[2 * (mi * p + j) + 1]!;
@@ -336,20 +450,9 @@ export function solveSweep(circuit: Circuit, options: SweepOptions = {}): Networ
         }
       }
     }
-    options.onProgress?.(k + 1, freqs.length);
+    if (L.onProgress) L.onProgress(k + 1, total);
   }
-  if (!Number.isNaN(worstAt)) {
-    options.onWarning?.(`the nodal system is nearly singular at ${formatFrequency(worstAt)} (reciprocal condition ${worstRcond.toExponential(1)}): the results there may have lost digits`, worstAt, worstRcond);
-  }
-  return {
-    parameter: 'S',
-    ports: p,
-    frequencies: Float64Array.from(freqs),
-    references: Float64Array.from(plan.portReference),
-    ...(complexRefs ? { referenceReactances: Float64Array.from(plan.portReactance) } : {}),
-    values: out,
-    title: circuit.title,
-  };
+  return -1;
 }
 
 /** Elements with data over a limited band (measured files) must cover every frequency asked for. */

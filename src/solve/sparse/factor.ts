@@ -644,6 +644,32 @@ export function refactor(f: SparseFactor, values: Float64Array): FactorStatus {
   return failAt(f, j);
 }
 
+/**
+ * {@link refactor} of a matrix whose values the caller has already written into `f.lu` in place:
+ * every entry `slotTarget[s]` holding the sum of its slots' values, every other entry (fill-in)
+ * zero — e.g. by copying a prepared image of the frequency-independent part over `lu` and adding
+ * the rest at `slotTarget` positions. Saves the pass that places slot values. `lastValues` is not
+ * set (the caller sets it before a condition estimate). The sequence must not change between
+ * preparing the positions and this call (it changes only in {@link factor}).
+ */
+export function refactorPlaced(f: SparseFactor): FactorStatus {
+  f.valid = false;
+  if (!f.hasSequence) {
+    f.status = NEEDS_PIVOTING;
+    f.failColumn = -1;
+    return NEEDS_PIVOTING;
+  }
+  f.refactorCount++;
+  const j = f.useUpdateList ? eliminateByList(f) : eliminateByColumn(f);
+  if (j < 0) {
+    f.status = OK;
+    f.failColumn = -1;
+    f.valid = true;
+    return OK;
+  }
+  return failAt(f, j);
+}
+
 /** Writes the slot values into their entries and zeroes the fill-in (every entry holds at most one slot). */
 function placeValues(f: SparseFactor, values: Float64Array): void {
   const lu = f.lu;

@@ -22,6 +22,7 @@ export {
   factor,
   refactor,
   refactorOrFactor,
+  refactorPlaced,
   factorNonzeros,
   OK,
   NEEDS_PIVOTING,
