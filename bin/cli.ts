@@ -271,12 +271,17 @@ const PARALLEL_MIN_WORK = 2_000_000;
 /** Sweeps long enough to show progress for (on a terminal, without --quiet). */
 const PROGRESS_MIN_POINTS = 2000;
 
-async function solveWith(circuit: Circuit, jobs: number, quiet = false) {
+/**
+ * Solves the sweep, on worker threads where it is big enough. `quiet`: no progress bar; `warnIo`:
+ * where to print a warning that the system came close to singular (none when undefined).
+ */
+async function solveWith(circuit: Circuit, jobs: number, quiet = false, warnIo?: Io) {
   const bar = !quiet && process.stderr.isTTY && circuit.frequencies.length >= PROGRESS_MIN_POINTS ? progressBar('sweep', circuit.frequencies.length) : undefined;
+  const onWarning = warnIo ? (message: string) => warnIo.err(`warning: ${message}\n`) : undefined;
   try {
     const work = circuit.frequencies.length * (circuit.nodeNames.length + circuit.elements.length);
-    if (jobs > 1 && circuit.frequencies.length >= 2 * jobs && work >= PARALLEL_MIN_WORK) return await solveSweepParallel(circuit, { jobs, onProgress: bar?.update });
-    return solveSweep(circuit, { onProgress: bar?.update });
+    if (jobs > 1 && circuit.frequencies.length >= 2 * jobs && work >= PARALLEL_MIN_WORK) return await solveSweepParallel(circuit, { jobs, onProgress: bar?.update, onWarning });
+    return solveSweep(circuit, { onProgress: bar?.update, onWarning });
   } finally {
     bar?.stop();
   }
@@ -326,7 +331,7 @@ async function runSolve(a: SolveArgs, io: Io): Promise<number> {
       batchBar?.start(files.length, 0);
       for (const file of files) {
         try {
-          const net = await solveWith(load(a, file, io).circuit, a.jobs, true);
+          const net = await solveWith(load(a, file, io).circuit, a.jobs, true, a.quiet ? undefined : io);
           batchBar?.increment();
           const format = (a.format as OutputFormat | undefined) ?? 'touchstone';
           const ext = format === 'touchstone' ? touchstoneExtension(net.ports) : `.${format}`;
@@ -342,7 +347,7 @@ async function runSolve(a: SolveArgs, io: Io): Promise<number> {
       if (failed > 0) io.err(`${failed} of ${files.length} netlists failed; their files were not written\n`);
       return failed > 0 ? EXIT_INPUT : EXIT_OK;
     }
-    const net = await solveWith(load(a, files[0]!, io).circuit, a.jobs, a.quiet);
+    const net = await solveWith(load(a, files[0]!, io).circuit, a.jobs, a.quiet, a.quiet ? undefined : io);
     if (a.figures !== undefined) {
       if (a.out || batch) throw new OutputError('--figures prints to the terminal', 'leave out -o (use --format csv for CSV on stdout)');
       const columns = splitFigures(a.figures).map((text) => {
@@ -401,7 +406,7 @@ async function networkOf(a: { input: string; set?: string[]; sweep?: string; job
     return { net: readNetworkFile(a.input), circuit: undefined, specs: undefined };
   }
   const { circuit } = load(a, a.input, io);
-  const net = await solveWith(circuit, a.jobs, a.quiet);
+  const net = await solveWith(circuit, a.jobs, a.quiet, a.quiet ? undefined : io);
   return { net, circuit, specs: evaluateSpecs(circuit.specs, net) };
 }
 
@@ -560,7 +565,7 @@ async function runCheck(a: CheckArgs, io: Io): Promise<number> {
   try {
     if (a.update && !a.against) throw new OutputError('--update rewrites the golden file named by --against, but none was given', 'add --against FILE');
     const { circuit } = load(a, a.netlist, io);
-    const net = await solveWith(circuit, a.jobs, a.quiet);
+    const net = await solveWith(circuit, a.jobs, a.quiet, a.quiet ? undefined : io);
     const results = evaluateSpecs(circuit.specs, net);
     let golden: { file: string; comparison: Comparison } | undefined;
     if (a.against && a.update) {

@@ -132,4 +132,17 @@ describe('usage', () => {
     expect(sub.out).toMatch(/--set/);
     expect(sub.out).toMatch(/Examples:/);
   });
+
+  it('warns on stderr when the nodal system is nearly singular, and not with --quiet', () => {
+    // a node on two 1e13 ohm resistors: reciprocal condition near 5e-12 (see test/singular.test.ts)
+    const f = join(dir, 'near.sbx');
+    writeFileSync(f, 'resistor r1 a=in b=ground value=50 ohm\nresistor rx a=in b=mid value=1e13 ohm\nresistor rl a=mid b=ground value=1e13 ohm\nport 1 plus=in\nsweep list freqs=1 MHz\n');
+    const loud = run(['solve', f, '-o', join(dir, 'near.s1p')]);
+    expect(loud.code).toBe(0);
+    expect(loud.err).toMatch(/warning: the nodal system is nearly singular at 1 MHz/);
+    const quiet = run(['solve', f, '-o', join(dir, 'near.s1p'), '--quiet']);
+    expect(quiet.code).toBe(0);
+    expect(quiet.err).not.toMatch(/nearly singular/);
+  });
 });
+

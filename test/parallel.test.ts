@@ -31,4 +31,27 @@ describe('solveSweepParallel', () => {
     await expect(solveSweepParallel(circuit, { jobs: 2 })).rejects.toBeInstanceOf(SingularSystemError);
     await expect(solveSweepParallel(circuit, { jobs: 2 })).rejects.toMatchObject({ frequency: 0, culprits: ['mid'] });
   });
+
+  it('is bit-identical however the chunks fall: three threads, a long sweep, progress up to the total', async () => {
+    const { circuit } = loadNetlist(ladder(25).replace('points=401', 'points=3001'), 'ladder.sbx');
+    const one = solveSweep(circuit);
+    const seen: number[] = [];
+    const three = await solveSweepParallel(circuit, { jobs: 3, onProgress: (done, total) => seen.push(done / total) });
+    expect(Buffer.from(three.values.buffer).equals(Buffer.from(one.values.buffer))).toBe(true);
+    expect(seen[seen.length - 1]).toBe(1);
+    for (let i = 1; i < seen.length; i++) expect(seen[i]!).toBeGreaterThanOrEqual(seen[i - 1]!);
+  });
+
+  it('reports the lowest-indexed singular point, as the single-thread sweep does', async () => {
+    // a capacitor-only node is floating at 0 Hz: two such points in a long list
+    const freqs = Array.from({ length: 400 }, (_, k) => (k === 150 || k === 390 ? '0 Hz' : `${k + 1} MHz`)).join(', ');
+    const { circuit } = loadNetlist(`port 1 plus=in\ncapacitor c1 a=in b=mid value=1 pF\ncapacitor c2 a=mid b=ground value=1 pF\nsweep list freqs=${freqs}\n`, 'sing.sbx');
+    let single: unknown;
+    try {
+      solveSweep(circuit);
+    } catch (e) {
+      single = e;
+    }
+    await expect(solveSweepParallel(circuit, { jobs: 2 })).rejects.toMatchObject({ frequency: (single as SingularSystemError).frequency, culprits: ['mid'] });
+  });
 });

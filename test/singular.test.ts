@@ -50,3 +50,21 @@ describe('singular systems name what is undetermined', () => {
     expect(e.message).toMatch(/node `t`/);
   });
 });
+
+describe('nearly singular systems warn with their condition estimate', () => {
+  // Node `mid` hangs on 1e13 ohm resistors: its conductance (2e-13 S) against the 50 ohm terminations
+  // (0.04 S on `in`) gives a reciprocal condition near 5e-12, below the warning level (1e-11) and
+  // above the singular one (1e-15) — the ratio of the conductances, common practice.
+  const text = 'resistor r1 a=in b=ground value=50 ohm\nresistor rx a=in b=mid value=1e13 ohm\nresistor rl a=mid b=ground value=1e13 ohm\nport 1 plus=in\nsweep list freqs=1 MHz, 2 MHz\n';
+
+  it('solveSweep calls onWarning once, with the frequency and an estimate in the warning band', () => {
+    const seen: { message: string; f: number; rcond: number }[] = [];
+    const net = solveSweep(loadNetlist(text, 'near.sbx').circuit, { solver: 'sparse', onWarning: (message, f, rcond) => seen.push({ message, f, rcond }) });
+    expect(seen.length).toBe(1);
+    expect(seen[0]!.rcond).toBeLessThan(1e-11);
+    expect(seen[0]!.rcond).toBeGreaterThan(1e-15);
+    expect(seen[0]!.message).toMatch(/nearly singular/);
+    // S11 of 50 ohm || (2e13 ohm) against 50 ohm: (Z − 50)/(Z + 50) ≈ −1.25e-12 (closed form)
+    expect(net.values[0]).toBeCloseTo(-1.25e-12, 15);
+  });
+});

@@ -4,7 +4,8 @@ import { existsSync } from 'node:fs';
 import Tinypool from 'tinypool';
 import type { Circuit } from '../elaborate/circuit.js';
 import type { NetworkData } from '../network/types.js';
-import { solveSweep } from './sweep.js';
+import { solveSweep, SweepRunner, type SweepOptions } from './sweep.js';
+import { solveChunks, type ShareResult } from './worker.js';
 import { lowestOf } from '../plan/plan.js';
 
 export interface ParallelOptions {
@@ -12,8 +13,10 @@ export interface ParallelOptions {
   jobs?: number;
   /** Frequencies in Hz (default: the circuit's sweep). */
   frequencies?: Float64Array;
-  /** Called as shares complete, with the number of points done and the total. */
+  /** Called as chunks complete, with the number of points done and the total. */
   onProgress?: (done: number, total: number) => void;
+  /** Called once at the end of a sweep whose system came close to singular (as in solveSweep). */
+  onWarning?: SweepOptions['onWarning'];
 }
 
 /** The compiled worker; the pool runs compiled JavaScript even when this module runs from source. */
@@ -45,56 +48,54 @@ export async function closeSweepPool(): Promise<void> {
 }
 
 /**
- * Solves the sweep on `jobs` threads: the frequencies are split into one contiguous share per
- * thread; this thread solves the first share itself while the pool's `jobs − 1` workers solve the
- * others. Every frequency point is solved by the same code on the same data as in
- * {@link solveSweep} (the same pivot frequency and lowest frequency for every share), so the
- * result is identical to the single-thread run bit for bit.
+ * Solves the sweep on `jobs` threads: this one and the pool's `jobs − 1` workers. The points are
+ * cut into chunks that the threads claim one at a time from a shared counter (so a thread that
+ * starts late or runs slower simply takes fewer), and every thread writes its points straight into
+ * one shared output. Every point is solved by the same code on the same data as in
+ * {@link solveSweep} (the whole sweep's pivot frequency and lowest frequency in every thread), so
+ * the result is identical to the single-thread run bit for bit, however the chunks fall.
  */
 export async function solveSweepParallel(circuit: Circuit, options: ParallelOptions = {}): Promise<NetworkData> {
   const freqs = options.frequencies ?? circuit.frequencies;
   const jobs = Math.max(1, Math.min(options.jobs ?? availableParallelism(), freqs.length));
-  if (jobs === 1) return solveSweep(circuit, { frequencies: freqs, onProgress: options.onProgress });
+  if (jobs === 1) return solveSweep(circuit, { frequencies: freqs, onProgress: options.onProgress, onWarning: options.onWarning });
   const pool = await poolFor(jobs - 1);
-  const lowest = lowestOf(freqs);
-  const common = { pivotFrequency: freqs[0]!, lowestFrequency: lowest };
-  const shares: Float64Array[] = [];
-  for (let w = 0; w < jobs; w++) {
-    const lo = Math.floor((w * freqs.length) / jobs);
-    const hi = Math.floor(((w + 1) * freqs.length) / jobs);
-    shares.push(freqs.slice(lo, hi));
-  }
-  let done = 0;
-  const report = (count: number) => {
-    done += count;
-    options.onProgress?.(done, freqs.length);
+  const total = freqs.length;
+  const p = circuit.ports.length;
+  // about 64 chunks a thread: fine enough to even out, coarse enough that claiming costs nothing
+  const chunk = Math.max(8, Math.ceil(total / (64 * jobs)));
+  const shared = {
+    out: new SharedArrayBuffer(8 * 2 * p * p * total),
+    counter: new SharedArrayBuffer(8),
+    chunksDone: new SharedArrayBuffer(Math.ceil(total / chunk)),
+    chunk,
   };
-  // A worker's failure comes back as a plain error; solving that share here rethrows it with its
-  // own type and details (a singular system names its nodes and frequency).
-  const remote = shares.slice(1).map((f) =>
-    pool
-      .run({ circuit, frequencies: f, ...common })
-      .catch(() => solveSweep(circuit, { frequencies: f, ...common }).values)
-      .then((v: Float64Array) => {
-        report(f.length);
-        return v;
-      }),
-  );
-  let first: NetworkData;
+  const common = { frequencies: freqs, pivotFrequency: freqs[0]!, lowestFrequency: lowestOf(freqs) };
+  const remote: Promise<ShareResult | undefined>[] = [];
+  for (let w = 1; w < jobs; w++) {
+    remote.push(
+      (pool.run({ circuit, ...common, ...shared }) as Promise<ShareResult>).catch(() => undefined), // a lost worker: its chunks are redone below
+    );
+  }
+  const runner = new SweepRunner(circuit, common, new Float64Array(shared.out));
+  const counter = new Int32Array(shared.counter);
   try {
-    first = solveSweep(circuit, { frequencies: shares[0]!, ...common });
+    solveChunks(runner, shared, options.onProgress ? () => options.onProgress!(Atomics.load(counter, 1), total) : undefined, true);
   } catch (e) {
     await Promise.allSettled(remote);
     throw e;
   }
-  report(shares[0]!.length);
-  const parts = [first.values, ...((await Promise.all(remote)) as Float64Array[])];
-  const p = circuit.ports.length;
-  const values = new Float64Array(2 * p * p * freqs.length);
-  let offset = 0;
-  for (const part of parts) {
-    values.set(part, offset);
-    offset += part.length;
+  const results = await Promise.all(remote);
+  // chunks a worker failed on or never finished: solved here, which reports a singular system
+  // with its own type and details
+  const done = new Uint8Array(shared.chunksDone);
+  for (let c = 0; c < done.length; c++) {
+    if (done[c]) continue;
+    runner.run(c * chunk, Math.min(total, (c + 1) * chunk));
   }
-  return { ...first, frequencies: Float64Array.from(freqs), values };
+  let worst = runner.worst;
+  for (const r of results) if (r && !Number.isNaN(r.frequency) && (Number.isNaN(worst.frequency) || r.rcond < worst.rcond)) worst = { rcond: r.rcond, frequency: r.frequency };
+  options.onProgress?.(total, total);
+  const net = runner.finish(worst);
+  return { ...net, values: Float64Array.from(net.values) };
 }

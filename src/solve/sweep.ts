@@ -282,102 +282,150 @@ export interface SweepOptions {
  * allocated once.
  */
 export function solveSweep(circuit: Circuit, options: SweepOptions = {}): NetworkData {
-  const freqs = options.frequencies ?? circuit.frequencies;
-  const plan = options.plan ?? buildPlan(circuit, { lowestFrequency: options.lowestFrequency ?? lowestOf(freqs) });
-  checkRanges(circuit, freqs);
-  if (freqs.length > 0 && lowestOf(freqs) < plan.lowestFrequency) {
-    throw new RangeError(`the sweep reaches down to ${formatFrequency(lowestOf(freqs))}, below the ${formatFrequency(plan.lowestFrequency)} its stamp plan was built for`);
-  }
-  const n = plan.size;
-  const p = plan.portPlus.length;
-  const nSlots = plan.slotRow.length;
-  const vals = new Float64Array(2 * nSlots);
-  let engine: LinearEngine;
-  if (chooseSolver(plan, options.solver) === 'dense') engine = new DenseEngine(plan);
-  else {
-    const f0 = options.pivotFrequency ?? freqs[0];
-    let reference: Float64Array | undefined;
-    if (f0 !== undefined) {
-      reference = new Float64Array(2 * nSlots);
-      stampAt(plan, 2 * Math.PI * f0, reference);
-    }
-    engine = new SparseEngine(plan, reference);
-  }
-  const rhs = new Float64Array(2 * n * p);
-  const x = new Float64Array(2 * n * p);
-  const sqrtRef = plan.portReference.map(Math.sqrt);
-  // Power waves for Zref = R + jX (Kurokawa, 1965): a = (v + Zref·i)/(2√R), b = (v − Zref*·i)/(2√R).
-  // The Norton drive 2√R/Zref across 1/Zref makes a_j = 1; then b_i = v_i·√R_i/Zref_i − δij·Zref_i*/Zref_i.
-  const complexRefs = plan.portReactance.some((x) => x !== 0);
-  const kr = new Float64Array(p); // √R/Zref
-  const ki = new Float64Array(p);
-  const dr = new Float64Array(p); // Zref*/Zref
-  const di = new Float64Array(p);
-  for (let i = 0; i < p; i++) {
-    const r = plan.portReference[i]!;
-    const x = plan.portReactance[i]!;
-    const m = r * r + x * x;
-    kr[i] = (sqrtRef[i]! * r) / m;
-    ki[i] = (-sqrtRef[i]! * x) / m;
-    dr[i] = (r * r - x * x) / m;
-    di[i] = (-2 * r * x) / m;
-  }
-  const out = new Float64Array(2 * p * p * freqs.length);
+  const runner = new SweepRunner(circuit, options);
+  runner.run(0, runner.frequencies.length);
+  return runner.finish();
+}
 
-  // Right-hand sides are the same at every frequency.
-  for (let j = 0; j < p; j++) {
-    // 2√R/Zref = 2R/(√R·Zref) = 2·conj(kr + j·ki)… written out: 2√R·(R − jX)/(R² + X²) = 2·(kr + j·ki)
-    const driveR = 2 * kr[j]!;
-    const driveI = 2 * ki[j]!;
-    const pl = plan.portPlus[j]!;
-    const mi = plan.portMinus[j]!;
-    if (pl !== GROUND) {
-      rhs[2 * (pl * p + j)] += driveR;
-      rhs[2 * (pl * p + j) + 1] += driveI;
+/**
+ * A sweep set up once (plan, ordering, reference factorisation, right-hand sides) whose points
+ * can be solved in any order and in pieces — by {@link solveSweep} in one go, or chunk by chunk
+ * by the threads of a parallel sweep, each writing its points into one shared output array. A
+ * point's result depends only on its own values and the reference, never on which points were
+ * solved before it by the same runner.
+ */
+export class SweepRunner {
+  readonly frequencies: Float64Array;
+  /** S values, 2·p·p per point (complex interleaved), in the layout of NetworkData.values. */
+  readonly values: Float64Array;
+  readonly plan: StampPlan;
+  private readonly loop: PointLoop;
+  private readonly engine: LinearEngine;
+  private readonly circuit: Circuit;
+  private readonly onWarning: SweepOptions['onWarning'];
+  private readonly complexRefs: boolean;
+
+  /** `into`: the output array to write (shared between threads), 2·p·p·points long. */
+  constructor(circuit: Circuit, options: SweepOptions = {}, into?: Float64Array) {
+    this.circuit = circuit;
+    this.onWarning = options.onWarning;
+    const freqs = options.frequencies ?? circuit.frequencies;
+    const plan = options.plan ?? buildPlan(circuit, { lowestFrequency: options.lowestFrequency ?? lowestOf(freqs) });
+    checkRanges(circuit, freqs);
+    if (freqs.length > 0 && lowestOf(freqs) < plan.lowestFrequency) {
+      throw new RangeError(`the sweep reaches down to ${formatFrequency(lowestOf(freqs))}, below the ${formatFrequency(plan.lowestFrequency)} its stamp plan was built for`);
     }
-    if (mi !== GROUND) {
-      rhs[2 * (mi * p + j)] -= driveR;
-      rhs[2 * (mi * p + j) + 1] -= driveI;
+    const n = plan.size;
+    const p = plan.portPlus.length;
+    const nSlots = plan.slotRow.length;
+    const vals = new Float64Array(2 * nSlots);
+    let engine: LinearEngine;
+    if (chooseSolver(plan, options.solver) === 'dense') engine = new DenseEngine(plan);
+    else {
+      const f0 = options.pivotFrequency ?? freqs[0];
+      let reference: Float64Array | undefined;
+      if (f0 !== undefined) {
+        reference = new Float64Array(2 * nSlots);
+        stampAt(plan, 2 * Math.PI * f0, reference);
+      }
+      engine = new SparseEngine(plan, reference);
     }
+    const rhs = new Float64Array(2 * n * p);
+    const x = new Float64Array(2 * n * p);
+    const sqrtRef = plan.portReference.map(Math.sqrt);
+    // Power waves for Zref = R + jX (Kurokawa, 1965): a = (v + Zref·i)/(2√R), b = (v − Zref*·i)/(2√R).
+    // The Norton drive 2√R/Zref across 1/Zref makes a_j = 1; then b_i = v_i·√R_i/Zref_i − δij·Zref_i*/Zref_i.
+    const complexRefs = plan.portReactance.some((x) => x !== 0);
+    const kr = new Float64Array(p); // √R/Zref
+    const ki = new Float64Array(p);
+    const dr = new Float64Array(p); // Zref*/Zref
+    const di = new Float64Array(p);
+    for (let i = 0; i < p; i++) {
+      const r = plan.portReference[i]!;
+      const x = plan.portReactance[i]!;
+      const m = r * r + x * x;
+      kr[i] = (sqrtRef[i]! * r) / m;
+      ki[i] = (-sqrtRef[i]! * x) / m;
+      dr[i] = (r * r - x * x) / m;
+      di[i] = (-2 * r * x) / m;
+    }
+    const out = into ?? new Float64Array(2 * p * p * freqs.length);
+    if (out.length < 2 * p * p * freqs.length) throw new RangeError('sweep: the output array is too short for the sweep');
+
+    // Right-hand sides are the same at every frequency.
+    for (let j = 0; j < p; j++) {
+      // 2√R/Zref = 2R/(√R·Zref) = 2·conj(kr + j·ki)… written out: 2√R·(R − jX)/(R² + X²) = 2·(kr + j·ki)
+      const driveR = 2 * kr[j]!;
+      const driveI = 2 * ki[j]!;
+      const pl = plan.portPlus[j]!;
+      const mi = plan.portMinus[j]!;
+      if (pl !== GROUND) {
+        rhs[2 * (pl * p + j)] += driveR;
+        rhs[2 * (pl * p + j) + 1] += driveI;
+      }
+      if (mi !== GROUND) {
+        rhs[2 * (mi * p + j)] -= driveR;
+        rhs[2 * (mi * p + j) + 1] -= driveI;
+      }
+    }
+
+    this.loop = {
+      engine,
+      freqs,
+      vals,
+      rhs,
+      x,
+      out,
+      p,
+      portPlus: plan.portPlus,
+      portMinus: plan.portMinus,
+      invSqrtRef: Float64Array.from(sqrtRef, (r) => 1 / r),
+      complexRefs,
+      kr,
+      ki,
+      dr,
+      di,
+      onProgress: options.onProgress,
+      worstRcond: WARN_RCOND,
+      worstAt: NaN,
+      failStatus: -1,
+    };
+    this.frequencies = freqs;
+    this.values = out;
+    this.plan = plan;
+    this.engine = engine;
+    this.complexRefs = complexRefs;
   }
 
-  const loop: PointLoop = {
-    engine,
-    freqs,
-    vals,
-    rhs,
-    x,
-    out,
-    p,
-    portPlus: plan.portPlus,
-    portMinus: plan.portMinus,
-    invSqrtRef: Float64Array.from(sqrtRef, (r) => 1 / r),
-    complexRefs,
-    kr,
-    ki,
-    dr,
-    di,
-    onProgress: options.onProgress,
-    worstRcond: WARN_RCOND,
-    worstAt: NaN,
-    failStatus: -1,
-  };
-  const failed = runPoints(loop);
-  if (failed >= 0) throw explainSingular(circuit, plan, freqs[failed]!, loop.failStatus >= 0 ? loop.failStatus : -1, engine);
-  const worstAt = loop.worstAt;
-  const worstRcond = loop.worstRcond;
-  if (!Number.isNaN(worstAt)) {
-    options.onWarning?.(`the nodal system is nearly singular at ${formatFrequency(worstAt)} (reciprocal condition ${worstRcond.toExponential(1)}): the results there may have lost digits`, worstAt, worstRcond);
+  /** Solves the points k0 ≤ k < k1; throws {@link SingularSystemError} where the system is singular. */
+  run(k0: number, k1: number): void {
+    const failed = runPoints(this.loop, k0, k1);
+    if (failed >= 0) throw explainSingular(this.circuit, this.plan, this.frequencies[failed]!, this.loop.failStatus >= 0 ? this.loop.failStatus : -1, this.engine);
   }
-  return {
-    parameter: 'S',
-    ports: p,
-    frequencies: Float64Array.from(freqs),
-    references: Float64Array.from(plan.portReference),
-    ...(complexRefs ? { referenceReactances: Float64Array.from(plan.portReactance) } : {}),
-    values: out,
-    title: circuit.title,
-  };
+
+  /** The smallest condition estimate seen below {@link WARN_RCOND}, and where (NaN: none). */
+  get worst(): { rcond: number; frequency: number } {
+    return { rcond: this.loop.worstRcond, frequency: this.loop.worstAt };
+  }
+
+  /** The network data once every point is solved; gives the near-singularity warning if due. */
+  finish(worst = this.worst): NetworkData {
+    if (!Number.isNaN(worst.frequency)) nearSingularWarning(this.onWarning, worst.rcond, worst.frequency);
+    const plan = this.plan;
+    return {
+      parameter: 'S',
+      ports: plan.portPlus.length,
+      frequencies: Float64Array.from(this.frequencies),
+      references: Float64Array.from(plan.portReference),
+      ...(this.complexRefs ? { referenceReactances: Float64Array.from(plan.portReactance) } : {}),
+      values: this.values,
+      title: this.circuit.title,
+    };
+  }
+}
+
+function nearSingularWarning(onWarning: SweepOptions['onWarning'], rcond: number, at: number): void {
+  onWarning?.(`the nodal system is nearly singular at ${formatFrequency(at)} (reciprocal condition ${rcond.toExponential(1)}): the results there may have lost digits`, at, rcond);
 }
 
 /** Everything the per-point loop reads and what it reports back (one plain object per sweep). */
@@ -408,12 +456,13 @@ interface PointLoop {
 /**
  * The per-frequency loop: stamp, factor, solve, and S from the port voltages. A function of its
  * own (not the body of solveSweep), so that the JIT optimises it once and keeps it over sweeps.
- * Returns −1, or the index of the point whose system could not be solved.
+ * Solves the points k0 ≤ k < k1. Returns −1, or the index of the point whose system could not be
+ * solved.
  */
-function runPoints(L: PointLoop): number {
+function runPoints(L: PointLoop, k0: number, k1: number): number {
   const { engine, freqs, vals, rhs, x, out, p, portPlus, portMinus, invSqrtRef, complexRefs, kr, ki, dr, di } = L;
   const total = freqs.length;
-  for (let k = 0; k < total; k++) {
+  for (let k = k0; k < k1; k++) {
     const status = engine.stampFactor(2 * Math.PI * freqs[k]!, vals);
     if (status !== -1) {
       L.failStatus = status;
