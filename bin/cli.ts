@@ -264,9 +264,14 @@ interface SolveArgs {
 /**
  * Sweeps big enough to be worth starting worker threads for: points × (nodes + elements), a
  * rough measure of the work (starting and warming the workers costs about as much as a few
- * hundred thousand of those).
+ * hundred thousand of those)…
  */
 const PARALLEL_MIN_WORK = 2_000_000;
+/**
+ * …and long enough: each thread copies the circuit and builds its own plan and ordering, which
+ * costs about as much as solving a few hundred of its points whatever its size.
+ */
+const PARALLEL_MIN_POINTS_PER_JOB = 1000;
 
 /** Sweeps long enough to show progress for (on a terminal, without --quiet). */
 const PROGRESS_MIN_POINTS = 2000;
@@ -280,7 +285,7 @@ async function solveWith(circuit: Circuit, jobs: number, quiet = false, warnIo?:
   const onWarning = warnIo ? (message: string) => warnIo.err(`warning: ${message}\n`) : undefined;
   try {
     const work = circuit.frequencies.length * (circuit.nodeNames.length + circuit.elements.length);
-    if (jobs > 1 && circuit.frequencies.length >= 2 * jobs && work >= PARALLEL_MIN_WORK) return await solveSweepParallel(circuit, { jobs, onProgress: bar?.update, onWarning });
+    if (jobs > 1 && circuit.frequencies.length >= PARALLEL_MIN_POINTS_PER_JOB * jobs && work >= PARALLEL_MIN_WORK) return await solveSweepParallel(circuit, { jobs, onProgress: bar?.update, onWarning });
     return solveSweep(circuit, { onProgress: bar?.update, onWarning });
   } finally {
     bar?.stop();

@@ -75,7 +75,8 @@ function tokenize(line: string): number {
     }
     kinds[n] = kind;
     starts[n] = i;
-    images[n] = line.slice(i, end);
+    // punctuation needs no text of its own
+    images[n] = kind === T_EQUALS ? '=' : kind === T_COMMA ? ',' : line.slice(i, end);
     n++;
     i = end;
   }

@@ -72,15 +72,19 @@ export async function solveSweepParallel(circuit: Circuit, options: ParallelOpti
   };
   const common = { frequencies: freqs, pivotFrequency: freqs[0]!, lowestFrequency: lowestOf(freqs) };
   const remote: Promise<ShareResult | undefined>[] = [];
+  const lean = solvingPart(circuit);
   for (let w = 1; w < jobs; w++) {
     remote.push(
-      (pool.run({ circuit, ...common, ...shared }) as Promise<ShareResult>).catch(() => undefined), // a lost worker: its chunks are redone below
+      (pool.run({ circuit: lean, ...common, ...shared }) as Promise<ShareResult>).catch(() => undefined), // a lost worker: its chunks are redone below
     );
   }
-  const runner = new SweepRunner(circuit, common, new Float64Array(shared.out));
+  // This thread writes into an ordinary array of its own (the per-point code then sees the same
+  // kind of array as in a single-thread sweep, and stays optimised for it); the workers' chunks
+  // are copied over from the shared output at the end.
+  const runner = new SweepRunner(circuit, common);
   const counter = new Int32Array(shared.counter);
   try {
-    solveChunks(runner, shared, options.onProgress ? () => options.onProgress!(Atomics.load(counter, 1), total) : undefined, true);
+    solveChunks(runner, shared, 1, options.onProgress ? () => options.onProgress!(Atomics.load(counter, 1), total) : undefined, true);
   } catch (e) {
     await Promise.allSettled(remote);
     throw e;
@@ -89,13 +93,38 @@ export async function solveSweepParallel(circuit: Circuit, options: ParallelOpti
   // chunks a worker failed on or never finished: solved here, which reports a singular system
   // with its own type and details
   const done = new Uint8Array(shared.chunksDone);
+  const fromWorkers = new Float64Array(shared.out);
+  const width = 2 * p * p;
   for (let c = 0; c < done.length; c++) {
-    if (done[c]) continue;
-    runner.run(c * chunk, Math.min(total, (c + 1) * chunk));
+    const k0 = c * chunk;
+    const k1 = Math.min(total, (c + 1) * chunk);
+    if (done[c] === 2) runner.values.set(fromWorkers.subarray(k0 * width, k1 * width), k0 * width);
+    else if (done[c] !== 1) runner.run(k0, k1);
   }
   let worst = runner.worst;
   for (const r of results) if (r && !Number.isNaN(r.frequency) && (Number.isNaN(worst.frequency) || r.rcond < worst.rcond)) worst = { rcond: r.rcond, frequency: r.frequency };
   options.onProgress?.(total, total);
-  const net = runner.finish(worst);
-  return { ...net, values: Float64Array.from(net.values) };
+  return runner.finish(worst);
+}
+
+const NO_SPAN = { file: '', line: 1, column: 1, length: 1 };
+
+/**
+ * What a worker needs of a circuit to solve it (and to name the nodes of a singular system): the
+ * elements without their source positions, no specs, parameters or warnings. Copying a circuit
+ * to a thread costs in proportion to its objects; this is about a third of them.
+ */
+function solvingPart(circuit: Circuit): Circuit {
+  return {
+    file: circuit.file,
+    title: circuit.title,
+    nodeNames: circuit.nodeNames,
+    elements: circuit.elements.map((el) => ({ type: el.type, name: el.name, nodes: el.nodes, nodeNames: [], props: el.props, at: el.at, span: NO_SPAN, propSpans: {}, text: el.text, data: el.data })),
+    ports: circuit.ports.map((p) => ({ ...p, span: NO_SPAN })),
+    specs: [],
+    localReferences: circuit.localReferences,
+    frequencies: new Float64Array(0),
+    parameters: [],
+    warnings: [],
+  };
 }

@@ -18,7 +18,7 @@ export interface SweepTask {
   out: SharedArrayBuffer;
   /** Int32Array over it: [next point to claim, points done]. */
   counter: SharedArrayBuffer;
-  /** Uint8Array over it: 1 for each chunk that is solved. */
+  /** Uint8Array over it, per chunk: 0 not solved, 1 solved by the calling thread (in its own output), 2 by a worker (in `out`). */
   chunksDone: SharedArrayBuffer;
   chunk: number;
 }
@@ -36,7 +36,7 @@ export interface ShareResult {
  * Returns −1, or the first point of a chunk that failed (then the other threads are stopped);
  * with `rethrow` (the calling thread) the failure is thrown instead. `onChunk` runs after each chunk.
  */
-export function solveChunks(runner: SweepRunner, task: Pick<SweepTask, 'counter' | 'chunksDone' | 'chunk'>, onChunk?: () => void, rethrow = false): number {
+export function solveChunks(runner: SweepRunner, task: Pick<SweepTask, 'counter' | 'chunksDone' | 'chunk'>, mark: 1 | 2, onChunk?: () => void, rethrow = false): number {
   const counter = new Int32Array(task.counter);
   const done = new Uint8Array(task.chunksDone);
   const total = runner.frequencies.length;
@@ -52,7 +52,7 @@ export function solveChunks(runner: SweepRunner, task: Pick<SweepTask, 'counter'
       if (rethrow) throw e;
       return k0;
     }
-    Atomics.store(done, Math.floor(k0 / task.chunk), 1);
+    Atomics.store(done, Math.floor(k0 / task.chunk), mark);
     Atomics.add(counter, 1, k1 - k0);
     onChunk?.();
   }
@@ -60,7 +60,7 @@ export function solveChunks(runner: SweepRunner, task: Pick<SweepTask, 'counter'
 
 export default function solveShare(task: SweepTask): ShareResult {
   const runner = new SweepRunner(task.circuit, { frequencies: task.frequencies, pivotFrequency: task.pivotFrequency, lowestFrequency: task.lowestFrequency }, new Float64Array(task.out));
-  const failedAt = solveChunks(runner, task);
+  const failedAt = solveChunks(runner, task, 2);
   const w = runner.worst;
   return { rcond: w.rcond, frequency: w.frequency, failedAt };
 }
