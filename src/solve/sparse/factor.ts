@@ -623,25 +623,13 @@ export function factor(f: SparseFactor, values: Float64Array): FactorStatus {
  * column of A depends on the columns eliminated before it) or holds non-finite values.
  */
 export function refactor(f: SparseFactor, values: Float64Array): FactorStatus {
-  f.valid = false;
-  if (!f.hasSequence) {
-    f.status = NEEDS_PIVOTING;
-    f.failColumn = -1;
-    return NEEDS_PIVOTING;
-  }
   if (values.length < 2 * f.pattern.slotCount) throw new RangeError(`sparse LU: ${values.length} values given, the pattern needs ${2 * f.pattern.slotCount} (2 per slot)`);
-  f.lastValues = values;
-  f.refactorCount++;
-  if (f.slotsUnique) placeValues(f, values);
-  else addValues(f, values);
-  const j = f.useUpdateList ? eliminateByList(f) : eliminateByColumn(f);
-  if (j < 0) {
-    f.status = OK;
-    f.failColumn = -1;
-    f.valid = true;
-    return OK;
+  if (f.hasSequence) {
+    f.lastValues = values;
+    if (f.slotsUnique) placeValues(f, values);
+    else addValues(f, values);
   }
-  return failAt(f, j);
+  return refactorPlaced(f);
 }
 
 /**
