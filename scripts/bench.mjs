@@ -151,32 +151,41 @@ async function mathjsBaseline(circuit) {
 }
 
 /**
- * What two threads give on this machine at all: a plain arithmetic loop on one worker, then on two
- * at once (median of several rounds). On a shared machine the second core is not always free.
+ * What two threads give on this machine at all, for two kinds of plain arithmetic loop: one bound
+ * by the latency of a dependent chain, one by the throughput of independent multiply-adds (as a
+ * sparse solve is). On one worker, then on two at once; medians of several rounds. Where the two
+ * cores share their execution units (hyperthreads, a shared host), the second kind gains less.
  */
 async function calibrate() {
   const { Worker } = await import('node:worker_threads');
   const code = `const { parentPort } = require('node:worker_threads');
-    parentPort.on('message', () => { const a = new Float64Array(4096); let s = 0; const t = performance.now();
-      for (let r = 0; r < 8000; r++) for (let i = 0; i < 4096; i++) { a[i] = a[i] * 0.999 + i; s += a[i]; }
-      parentPort.postMessage(s > 0 ? performance.now() - t : 0); });`;
+    parentPort.on('message', (kind) => { const n = 4096; const a = new Float64Array(n), b = new Float64Array(n), c = new Float64Array(n);
+      for (let i = 0; i < n; i++) { a[i] = i; b[i] = 1 / (i + 1); }
+      let s = 0; const t = performance.now();
+      if (kind === 'latency') { for (let r = 0; r < 8000; r++) for (let i = 0; i < n; i++) { a[i] = a[i] * 0.999 + i; s += a[i]; } }
+      else { for (let r = 0; r < 8000; r++) for (let i = 0; i < n; i++) c[i] = a[i] * b[i] + c[i] * 0.5 - b[i] * 0.25; s = c[7]; }
+      parentPort.postMessage(s !== 12345 ? performance.now() - t : 0); });`;
   const w1 = new Worker(code, { eval: true });
   const w2 = new Worker(code, { eval: true });
-  const run = (w) => new Promise((r) => { w.once('message', r); w.postMessage(0); });
-  await run(w1);
-  await run(w2);
-  const ratios = [];
-  for (let k = 0; k < 7; k++) {
-    let t = performance.now();
-    await run(w1);
-    const one = performance.now() - t;
-    t = performance.now();
-    await Promise.all([run(w1), run(w2)]);
-    ratios.push((2 * one) / (performance.now() - t));
+  const run = (w, kind) => new Promise((r) => { w.once('message', r); w.postMessage(kind); });
+  const out = {};
+  for (const kind of ['latency', 'throughput']) {
+    await run(w1, kind);
+    await run(w2, kind);
+    const ratios = [];
+    for (let k = 0; k < 7; k++) {
+      let t = performance.now();
+      await run(w1, kind);
+      const one = performance.now() - t;
+      t = performance.now();
+      await Promise.all([run(w1, kind), run(w2, kind)]);
+      ratios.push((2 * one) / (performance.now() - t));
+    }
+    out[kind] = median(ratios);
   }
   await w1.terminate();
   await w2.terminate();
-  return { speedup: median(ratios), low: Math.min(...ratios), high: Math.max(...ratios) };
+  return out;
 }
 
 const arg = process.argv.indexOf('--one');
@@ -220,5 +229,5 @@ console.log('');
 const l100 = results.ladder100.usPerPoint;
 console.log(`dense mathjs baseline, ladder N = 100: ${fmt(base.usPerPoint)} µs/point — ${(base.usPerPoint / l100).toFixed(0)}× slower than scatterbox`);
 console.log(`parse and elaborate 100,000 elements: ${(el.ms / 1000).toFixed(2)} s (peak ${fmt(el.rssMB, 0)} MB)`);
-console.log(`two threads of plain arithmetic on this machine: ${cal.speedup.toFixed(2)}× one thread (median of 7; ${cal.low.toFixed(2)}× to ${cal.high.toFixed(2)}×)`);
+console.log(`two threads of plain arithmetic on this machine: ${cal.latency.toFixed(2)}× one thread latency-bound, ${cal.throughput.toFixed(2)}× throughput-bound (medians of 7)`);
 console.log(`ladder cost N = 10,000 / N = 1,000: ${(results.ladder10000.usPerPoint / results.ladder1000.usPerPoint).toFixed(1)}× for 10× the size`);

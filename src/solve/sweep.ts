@@ -424,7 +424,8 @@ export class SweepRunner {
   }
 }
 
-function nearSingularWarning(onWarning: SweepOptions['onWarning'], rcond: number, at: number): void {
+/** Gives the warning that the nodal system came close to singular at `at` (Hz). */
+export function nearSingularWarning(onWarning: SweepOptions['onWarning'], rcond: number, at: number): void {
   onWarning?.(`the nodal system is nearly singular at ${formatFrequency(at)} (reciprocal condition ${rcond.toExponential(1)}): the results there may have lost digits`, at, rcond);
 }
 

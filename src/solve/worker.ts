@@ -1,6 +1,6 @@
 /**
  * A sweep worker: solves chunks of a sweep, claimed one at a time from a counter shared with the
- * other threads, straight into the shared output. Run by the pool of `parallel.ts` from the
+ * other workers, straight into the shared output. Run by the pool of `parallel.ts` from the
  * compiled `dist/` tree.
  */
 import type { Circuit } from '../elaborate/circuit.js';
@@ -18,7 +18,7 @@ export interface SweepTask {
   out: SharedArrayBuffer;
   /** Int32Array over it: [next point to claim, points done]. */
   counter: SharedArrayBuffer;
-  /** Uint8Array over it, per chunk: 0 not solved, 1 solved by the calling thread (in its own output), 2 by a worker (in `out`). */
+  /** Uint8Array over it, per chunk: 1 once solved. */
   chunksDone: SharedArrayBuffer;
   chunk: number;
 }
@@ -32,11 +32,10 @@ export interface ShareResult {
 }
 
 /**
- * Claims and solves chunks until none are left; shared by the workers and the calling thread.
- * Returns −1, or the first point of a chunk that failed (then the other threads are stopped);
- * with `rethrow` (the calling thread) the failure is thrown instead. `onChunk` runs after each chunk.
+ * Claims and solves chunks until none are left. Returns −1, or the first point of a chunk that
+ * failed (then the other workers are stopped too; the caller re-solves what is left to report why).
  */
-export function solveChunks(runner: SweepRunner, task: Pick<SweepTask, 'counter' | 'chunksDone' | 'chunk'>, mark: 1 | 2, onChunk?: () => void, rethrow = false): number {
+function solveChunks(runner: SweepRunner, task: Pick<SweepTask, 'counter' | 'chunksDone' | 'chunk'>): number {
   const counter = new Int32Array(task.counter);
   const done = new Uint8Array(task.chunksDone);
   const total = runner.frequencies.length;
@@ -46,21 +45,19 @@ export function solveChunks(runner: SweepRunner, task: Pick<SweepTask, 'counter'
     const k1 = Math.min(total, k0 + task.chunk);
     try {
       runner.run(k0, k1);
-    } catch (e) {
+    } catch {
       // stop the others; the caller finds out why
       Atomics.store(counter, 0, total);
-      if (rethrow) throw e;
       return k0;
     }
-    Atomics.store(done, Math.floor(k0 / task.chunk), mark);
+    Atomics.store(done, Math.floor(k0 / task.chunk), 1);
     Atomics.add(counter, 1, k1 - k0);
-    onChunk?.();
   }
 }
 
 export default function solveShare(task: SweepTask): ShareResult {
   const runner = new SweepRunner(task.circuit, { frequencies: task.frequencies, pivotFrequency: task.pivotFrequency, lowestFrequency: task.lowestFrequency }, new Float64Array(task.out));
-  const failedAt = solveChunks(runner, task, 2);
+  const failedAt = solveChunks(runner, task);
   const w = runner.worst;
   return { rcond: w.rcond, frequency: w.frequency, failedAt };
 }
