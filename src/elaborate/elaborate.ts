@@ -5,7 +5,7 @@ import { ELEMENTS, joinedNodes, outsideRange } from '../elements/registry.js';
 import { GROUND, GROUND_NAME, type ElementInstance, type ElementType, type PropertySpec, type TerminalSpec } from '../elements/types.js';
 import type { NetworkData } from '../network/types.js';
 import type { Circuit, ParameterValue, Port } from './circuit.js';
-import { describeUnit, evaluate, literalToSI, math, toSI, toSICached, type EvalScope, type Quantity } from './evaluate.js';
+import { describeUnit, evaluate, literalToSI, math, toSICached, type EvalScope, type Quantity } from './evaluate.js';
 import { dirname, isAbsolute, join } from 'node:path';
 import { formatFrequency } from '../format/frequency.js';
 import { floatingGroups } from './islands.js';

@@ -310,10 +310,11 @@ export class SweepRunner {
     this.circuit = circuit;
     this.onWarning = options.onWarning;
     const freqs = options.frequencies ?? circuit.frequencies;
-    const plan = options.plan ?? buildPlan(circuit, { lowestFrequency: options.lowestFrequency ?? lowestOf(freqs) });
+    const lowest = lowestOf(freqs);
+    const plan = options.plan ?? buildPlan(circuit, { lowestFrequency: options.lowestFrequency ?? lowest });
     checkRanges(circuit, freqs);
-    if (freqs.length > 0 && lowestOf(freqs) < plan.lowestFrequency) {
-      throw new RangeError(`the sweep reaches down to ${formatFrequency(lowestOf(freqs))}, below the ${formatFrequency(plan.lowestFrequency)} its stamp plan was built for`);
+    if (freqs.length > 0 && lowest < plan.lowestFrequency) {
+      throw new RangeError(`the sweep reaches down to ${formatFrequency(lowest)}, below the ${formatFrequency(plan.lowestFrequency)} its stamp plan was built for`);
     }
     const n = plan.size;
     const p = plan.portPlus.length;
