@@ -1,7 +1,8 @@
 import { readFileSync } from 'node:fs';
 import { dirname, extname, isAbsolute, join, resolve } from 'node:path';
-import type { NetlistAst, Statement } from './ast/ast.js';
-import { parseNetlist } from './ast/visitor.js';
+import type { NetlistAst, NetlistItems, Statement, StatementItem } from './ast/ast.js';
+import { statementOf } from './ast/fast.js';
+import { parseNetlist, parseNetlistItems } from './ast/visitor.js';
 import { DiagnosticBag, InputError, type Diagnostic } from './diagnostics/diagnostic.js';
 import type { Circuit } from './elaborate/circuit.js';
 import { DataFileError, elaborate, type Override } from './elaborate/elaborate.js';
@@ -44,7 +45,7 @@ export function loadNetlist(text: string, file: string, options: LoadOptions = {
   const bag = new DiagnosticBag();
   const sources = new Map<string, string>([[file, text]]);
   const read = options.readFile ?? ((p: string) => readFileSync(p, 'utf8'));
-  const ast = expandIncludes(parseNetlist(text, file, bag), [file], bag, sources, read);
+  const ast = expandIncludes(parseNetlistItems(text, file, bag), [file], bag, sources, read);
   const dataCache = new Map<string, NetworkData>();
   const readNetwork = (path: string): NetworkData => {
     const cached = dataCache.get(path);
@@ -104,17 +105,18 @@ export function loadNetlist(text: string, file: string, options: LoadOptions = {
  * the including file), recursively. A file that includes itself, directly or through others, is
  * an error showing the chain.
  */
-function expandIncludes(ast: NetlistAst, chain: string[], bag: DiagnosticBag, sources: Map<string, string>, read: (path: string) => string): NetlistAst {
-  const statements: Statement[] = [];
+function expandIncludes(ast: NetlistItems, chain: string[], bag: DiagnosticBag, sources: Map<string, string>, read: (path: string) => string): NetlistItems {
+  const statements: StatementItem[] = [];
   const failedKeywords = [...ast.failedKeywords];
   let inBlock = false;
-  for (const st of ast.statements) {
-    if (st.keyword === 'block') inBlock = true;
-    if (st.keyword === 'end') inBlock = false;
-    if (st.keyword !== 'include') {
-      statements.push(st);
+  for (const item of ast.items) {
+    if (item.keyword === 'block') inBlock = true;
+    if (item.keyword === 'end') inBlock = false;
+    if (item.keyword !== 'include') {
+      statements.push(item);
       continue;
     }
+    const st = statementOf(item);
     if (inBlock) {
       bag.error('not-in-block', '`include` cannot be used inside a block', st.keywordSpan, 'include the file at the top level; its blocks can then be used inside others');
       continue;
@@ -141,11 +143,11 @@ function expandIncludes(ast: NetlistAst, chain: string[], bag: DiagnosticBag, so
       continue;
     }
     sources.set(path, text);
-    const inner = expandIncludes(parseNetlist(text, path, bag), [...chain, path], bag, sources, read);
-    statements.push(...inner.statements);
+    const inner = expandIncludes(parseNetlistItems(text, path, bag), [...chain, path], bag, sources, read);
+    for (const it of inner.items) statements.push(it);
     failedKeywords.push(...inner.failedKeywords);
   }
-  return { file: ast.file, statements, failedKeywords };
+  return { file: ast.file, items: statements, failedKeywords };
 }
 
 /**

@@ -1,5 +1,7 @@
 // The speed work of the pipeline must not change what it computes:
 // - the AST fast path (src/ast/fast.ts) gives the same AST as the grammar and its visitor;
+// - plain lines left pending until elaboration give the same circuit and diagnostics as lines
+//   read at once;
 // - an inductor stamped as an admittance gives the same S as one stamped with a branch current;
 // - the batched admittance kernels give the same S as a closed form;
 // - partial sparse solves (ports ordered last) give the same port voltages as full solves.
@@ -7,7 +9,9 @@ import { readdirSync, readFileSync, statSync } from 'node:fs';
 import { join } from 'node:path';
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { parseNetlist } from '../src/ast/visitor.js';
+import { parseNetlist, parseNetlistItems } from '../src/ast/visitor.js';
+import { elaborate } from '../src/elaborate/elaborate.js';
+import { readNetworkFile } from '../src/io/read.js';
 import { DiagnosticBag } from '../src/diagnostics/diagnostic.js';
 import { loadNetlist } from '../src/load.js';
 import { solveSweep } from '../src/solve/sweep.js';
@@ -70,6 +74,54 @@ describe('AST fast path', () => {
     expect(fast).toEqual(slow);
     expect(fastBag.items).toEqual(slowBag.items);
     expect(slowBag.items.length).toBe(1); // the open parenthesis
+  });
+});
+
+describe('pending plain lines', () => {
+  // elaborated from pending lines (as loadNetlist does) and from a fully read AST
+  function bothElaborations(text: string, file: string) {
+    const lazyBag = new DiagnosticBag();
+    const eagerBag = new DiagnosticBag();
+    const items = parseNetlistItems(text, file, lazyBag);
+    expect(items.items.some((it) => 'pending' in it) || items.items.length === 0).toBe(true);
+    const lazy = elaborate(items, lazyBag, { readNetwork: readNetworkFile, consume: true });
+    const eager = elaborate(parseNetlist(text, file, eagerBag), eagerBag, { readNetwork: readNetworkFile });
+    return { lazy, eager, lazyBag, eagerBag };
+  }
+
+  it('give the same circuit and diagnostics as read statements on every demo netlist', () => {
+    for (const f of netlists(join(import.meta.dirname, '..', 'circuits'))) {
+      const text = readFileSync(f, 'utf8');
+      if (/^\s*include\b/m.test(text)) continue; // includes are resolved by loadNetlist (tested there)
+      const { lazy, eager, lazyBag, eagerBag } = bothElaborations(text, f);
+      expect(lazy).toEqual(eager);
+      expect(lazyBag.items).toEqual(eagerBag.items);
+    }
+  });
+
+  it('keep blocks, later parameters and errors as read statements do', () => {
+    const text = [
+      'let z = 2*r0', // uses a parameter defined later: an error naming its line
+      'let r0 = 25 ohm',
+      'block tee a b level=1',
+      '  resistor ra a=a b=m value=r0',
+      '  resistor rb a=m b=b value=r0',
+      '  capacitor c a=m b=ground value=level pF',
+      'end tee',
+      'tee t1 a=in b=out level=2',
+      'resistor r1 a=in b=ground valu=50 ohm', // misspelt key
+      'capacitor c1 a=out b=ground value=3 nH', // wrong unit
+      'frobnicate x1 a=in',
+      'resistor r1 a=in b=out value=1 ohm', // duplicate name
+      'port 1 plus=in',
+      'port 2 plus=out',
+      'sweep linear start=1 MHz stop=1 GHz points=11',
+      'end',
+    ].join('\n');
+    const { lazy, eager, lazyBag, eagerBag } = bothElaborations(text, 'blocks.sbx');
+    expect(lazyBag.items.length).toBeGreaterThan(4);
+    expect(lazyBag.items).toEqual(eagerBag.items);
+    expect(lazy).toEqual(eager);
   });
 });
 

@@ -45,6 +45,30 @@ export interface NetlistAst {
   failedKeywords: string[];
 }
 
+/**
+ * A plain line (one the fast path of ast/fast.ts reads) whose statement is built only when it is
+ * used: a large netlist then never holds the AST of all its lines at once, and each statement's
+ * objects are collected young, right after elaboration has read them.
+ */
+export interface PendingLine {
+  /** The statement's keyword (known without reading the rest). */
+  keyword: string;
+  /** The line's text. */
+  pending: string;
+  line: number;
+  file: string;
+}
+
+/** A statement, or a plain line to be read into one when it is used. */
+export type StatementItem = Statement | PendingLine;
+
+/** The netlist as the elaborator reads it: statements and pending plain lines, in line order. */
+export interface NetlistItems {
+  file: string;
+  items: StatementItem[];
+  failedKeywords: string[];
+}
+
 /** The text of a quoted string token: the quotes dropped, backslash escapes resolved (`\n`, `\t`, or the character itself). */
 export function unquote(s: string): string {
   return s.slice(1, -1).replace(/\\(.)/g, (_, ch: string) => (ch === 'n' ? '\n' : ch === 't' ? '\t' : ch));

@@ -11,7 +11,7 @@
  * @module
  */
 import type { SourceSpan } from '../diagnostics/diagnostic.js';
-import { joinSpans, unquote, type Arg, type Expr, type Statement } from './ast.js';
+import { joinSpans, unquote, type Arg, type Expr, type Statement, type StatementItem } from './ast.js';
 
 // the grammar's token patterns (parse/lexer.ts), sticky
 const NUMBER = /(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?/y;
@@ -90,6 +90,38 @@ function span(file: string, lineNo: number, t: number): SourceSpan {
   return { file, line: lineNo, column: starts[t]! + 1, length: Math.max(1, images[t]!.length) };
 }
 
+/** The value read last by {@link readValue}. */
+let value: Expr | undefined;
+
+/**
+ * Reads one value at token t: a number with an optional unit, or a name. Returns the token after
+ * it, or −1 when it is not that simple. (A function of its own, not a closure over the line's
+ * state: the reader's position then stays in a register.)
+ */
+function readValue(t: number, n: number, file: string, lineNo: number): number {
+  const kind = kinds[t];
+  if (kind === T_NUMBER) {
+    const text = images[t]!;
+    const at0 = t;
+    t++;
+    // a unit is a name right after the number that is not a key (`=`) or a call (`(`, never here)
+    if (t < n && kinds[t] === T_IDENT && kinds[t + 1] !== T_EQUALS) {
+      const unitSpan = span(file, lineNo, t);
+      // the span from the number to the end of its unit (joinSpans of the two, without the first)
+      const column = starts[at0]! + 1;
+      const end = Math.max(column + Math.max(1, text.length), unitSpan.column + unitSpan.length);
+      value = { kind: 'number', value: Number(text), text, unit: images[t]!, unitSpan, span: { file, line: lineNo, column, length: end - column } };
+      return t + 1;
+    }
+    value = { kind: 'number', value: Number(text), text, unit: undefined, unitSpan: undefined, span: span(file, lineNo, at0) };
+    return t;
+  }
+  if (kind === T_IDENT) {
+    value = { kind: 'name', name: images[t]!, span: span(file, lineNo, t) };
+    return t + 1;
+  }
+  return -1;
+}
 
 /**
  * Reads one physical line. Returns its statement, {@link BLANK} for a line with no statement (empty
@@ -108,33 +140,6 @@ export function readSimpleLine(line: string, lineNo: number, file: string): Stat
     t++;
   }
   const args: Arg[] = [];
-  // one value: a number with an optional unit, or a name; -1 when it is not that simple
-  let value: Expr | undefined;
-  const readValue = (): number => {
-    if (kinds[t] === T_NUMBER) {
-      const text = images[t]!;
-      const at0 = t;
-      t++;
-      // a unit is a name right after the number that is not a key (`=`) or a call (`(`, never here)
-      if (t < n && kinds[t] === T_IDENT && kinds[t + 1] !== T_EQUALS) {
-        const unitSpan = span(file, lineNo, t);
-        // the span from the number to the end of its unit (joinSpans of the two, without the first)
-        const column = starts[at0]! + 1;
-        const end = Math.max(column + Math.max(1, text.length), unitSpan.column + unitSpan.length);
-        value = { kind: 'number', value: Number(text), text, unit: images[t]!, unitSpan, span: { file, line: lineNo, column, length: end - column } };
-        t++;
-      } else {
-        value = { kind: 'number', value: Number(text), text, unit: undefined, unitSpan: undefined, span: span(file, lineNo, at0) };
-      }
-      return 0;
-    }
-    if (kinds[t] === T_IDENT) {
-      value = { kind: 'name', name: images[t]!, span: span(file, lineNo, t) };
-      t++;
-      return 0;
-    }
-    return -1;
-  };
   while (t < n) {
     if (kinds[t] === T_STRING) {
       args.push({ kind: 'text', value: unquote(images[t]!), span: span(file, lineNo, t) });
@@ -152,18 +157,22 @@ export function readSimpleLine(line: string, lineNo: number, file: string): Stat
       t++;
       continue;
     }
-    const values: Expr[] = [];
-    if (readValue() < 0) return undefined;
-    values.push(value!);
+    t = readValue(t, n, file, lineNo);
+    if (t < 0) return undefined;
+    const values: Expr[] = [value!];
     while (t < n && kinds[t] === T_COMMA) {
       t++;
-      if (t >= n || readValue() < 0) return undefined;
+      if (t >= n) return undefined;
+      t = readValue(t, n, file, lineNo);
+      if (t < 0) return undefined;
       values.push(value!);
     }
     let at: Expr | undefined;
     if (t < n && kinds[t] === T_AT) {
       t++;
-      if (t >= n || readValue() < 0) return undefined;
+      if (t >= n) return undefined;
+      t = readValue(t, n, file, lineNo);
+      if (t < 0) return undefined;
       at = value!;
     }
     // what follows a value must start the next argument (or end the line)
@@ -171,8 +180,29 @@ export function readSimpleLine(line: string, lineNo: number, file: string): Stat
     const lastExpr = at ?? values[values.length - 1]!;
     args.push({ kind: 'key', key: images[keyTok]!, keySpan, values, at, span: joinSpans(keySpan, lastExpr.span) });
   }
+  value = undefined;
   let stSpan = keywordSpan;
   const last = args[args.length - 1];
   if (last) stSpan = joinSpans(stSpan, last.span);
   return { keyword: images[0]!, keywordSpan, label, args, span: stSpan };
+}
+
+/** The statement of an item: a pending line is read now (it was found plain when parsed). */
+export function statementOf(item: StatementItem): Statement {
+  if (!('pending' in item)) return item;
+  const st = readSimpleLine(item.pending, item.line, item.file);
+  if (st === undefined || st === BLANK) throw new Error(`internal: line ${item.line} of ${item.file} no longer reads as a plain statement`);
+  return st;
+}
+
+const keywords = new Map<string, string>();
+/** One string per distinct keyword, so that pending lines share theirs. */
+export function internKeyword(k: string): string {
+  let s = keywords.get(k);
+  if (s === undefined) {
+    if (keywords.size > 1000) keywords.clear();
+    keywords.set(k, k);
+    s = k;
+  }
+  return s;
 }

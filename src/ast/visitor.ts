@@ -1,8 +1,8 @@
 import type { CstNode, IToken, IRecognitionException } from 'chevrotain';
 import { parseLines, type ParsedLine } from '../parse/parser.js';
 import { DiagnosticBag, type SourceSpan } from '../diagnostics/diagnostic.js';
-import { joinSpans, unquote, type Arg, type Expr, type NetlistAst, type Statement } from './ast.js';
-import { BLANK, readSimpleLine } from './fast.js';
+import { joinSpans, unquote, type Arg, type Expr, type NetlistAst, type NetlistItems, type Statement, type StatementItem } from './ast.js';
+import { BLANK, internKeyword, readSimpleLine, statementOf } from './fast.js';
 
 type Children = Record<string, (CstNode | IToken)[] | undefined>;
 
@@ -216,7 +216,17 @@ export interface ParseOptions {
  */
 export function parseNetlist(text: string, file: string, bag: DiagnosticBag, options: ParseOptions = {}): NetlistAst {
   if (options.grammarOnly) return parseWithGrammar(text, file, bag);
-  const fast: Statement[] = [];
+  const { items, failedKeywords } = parseNetlistItems(text, file, bag);
+  return { file, statements: items.map(statementOf), failedKeywords };
+}
+
+/**
+ * Parses a netlist as {@link parseNetlist} does, but leaves each plain line pending: its statement
+ * is read when it is used ({@link statementOf}). Every problem of the text is found and reported
+ * here all the same (a plain line has none).
+ */
+export function parseNetlistItems(text: string, file: string, bag: DiagnosticBag): NetlistItems {
+  const fast: StatementItem[] = [];
   const rest: string[] = [];
   let left = 0; // lines left to the grammar
   let lineNo = 1;
@@ -227,6 +237,7 @@ export function parseNetlist(text: string, file: string, bag: DiagnosticBag, opt
     const m = breaks.exec(text);
     const to = m ? m.index : text.length;
     const line = text.slice(from, to);
+    // read once to know the line is plain (its objects die young); kept as text until used
     const read = continued ? undefined : readSimpleLine(line, lineNo, file);
     if (read === undefined) {
       rest.push(line);
@@ -234,32 +245,32 @@ export function parseNetlist(text: string, file: string, bag: DiagnosticBag, opt
       continued = line.includes('\\');
     } else {
       rest.push('');
-      if (read !== BLANK) fast.push(read);
+      if (read !== BLANK) fast.push({ keyword: internKeyword(read.keyword), pending: line, line: lineNo, file });
     }
     rest.push(m ? m[0] : '');
     if (!m) break;
     from = to + m[0].length;
     lineNo++;
   }
-  if (left === 0) return { file, statements: fast, failedKeywords: [] };
+  if (left === 0) return { file, items: fast, failedKeywords: [] };
   const slow = parseWithGrammar(rest.join(''), file, bag);
-  if (fast.length === 0) return slow;
+  if (fast.length === 0) return { file, items: slow.statements, failedKeywords: slow.failedKeywords };
   // merge by line (each list is in line order already)
-  const statements: Statement[] = [];
+  const items: StatementItem[] = [];
   let a = 0;
   let b = 0;
   while (a < fast.length || b < slow.statements.length) {
-    const fa = fast[a];
+    const fa = fast[a] as { line: number } | undefined;
     const sb = slow.statements[b];
-    if (sb === undefined || (fa !== undefined && fa.keywordSpan.line < sb.keywordSpan.line)) {
-      statements.push(fa!);
+    if (sb === undefined || (fa !== undefined && fa.line < sb.keywordSpan.line)) {
+      items.push(fast[a]!);
       a++;
     } else {
-      statements.push(sb);
+      items.push(sb);
       b++;
     }
   }
-  return { file, statements, failedKeywords: slow.failedKeywords };
+  return { file, items, failedKeywords: slow.failedKeywords };
 }
 
 /** Parses with the grammar and its visitor alone. */

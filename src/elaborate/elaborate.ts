@@ -1,4 +1,5 @@
-import type { Arg, Expr, KeyArg, NetlistAst, Statement } from '../ast/ast.js';
+import type { Arg, Expr, KeyArg, NetlistAst, NetlistItems, Statement, StatementItem } from '../ast/ast.js';
+import { statementOf } from '../ast/fast.js';
 import { DiagnosticBag, type Diagnostic, type SourceSpan } from '../diagnostics/diagnostic.js';
 import { closest, didYouMean } from '../diagnostics/suggest.js';
 import { ELEMENTS, joinedNodes, outsideRange } from '../elements/registry.js';
@@ -103,16 +104,22 @@ function spanKey(s: SourceSpan): string {
   return `${s.file}:${s.line}:${s.column}`;
 }
 
-function laterOf(statements: readonly Statement[]): Map<string, SourceSpan> {
+/** The `let` names of a statement list and where they are defined (pending `let` lines are read and kept). */
+function laterOf(statements: StatementItem[]): Map<string, SourceSpan> {
   const m = new Map<string, SourceSpan>();
-  for (const st of statements) {
-    if (st.keyword !== 'let') continue;
+  for (let i = 0; i < statements.length; i++) {
+    if (statements[i]!.keyword !== 'let') continue;
+    const st = (statements[i] = statementOf(statements[i]!));
     for (const a of st.args) if (a.kind === 'key' && !m.has(a.key)) m.set(a.key, a.keySpan);
   }
   return m;
 }
 
 const DEFAULT_REFERENCE = 50;
+
+/** Shared by the elements with no `at` frequencies or no text properties (most of them). */
+const NONE_AT: Record<string, number> = Object.freeze({}) as Record<string, number>;
+const NONE_TEXT: Record<string, string> = Object.freeze({}) as Record<string, string>;
 
 /** What defineElement needs of an element type, worked out once per type. */
 interface TypeFacts {
@@ -137,7 +144,7 @@ function typeFacts(type: ElementType): TypeFacts {
  * statement against its schema, resolves nodes and builds the sweep. Errors and warnings go into
  * `bag`; the returned circuit is only meaningful when the bag has no errors.
  */
-export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: ElaborateOptions = {}): Circuit {
+export function elaborate(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, options: ElaborateOptions = {}): Circuit {
   const overrides = new Map<string, Override>();
   for (const o of options.overrides ?? []) overrides.set(o.name, o);
   /** Parameters referenced before their definition (already an error there; not "unused" too). */
@@ -147,8 +154,9 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
   /** Every parameter definition, for "never used" warnings (once per definition, not per instance). */
   const definitions = new Map<string, { name: string; span: SourceSpan; failed: boolean; what: string }>();
 
-  const { top: topStatements, blocks } = splitBlocks(ast.statements, bag);
-  if (options.consume) ast.statements.length = 0;
+  const given: StatementItem[] = 'items' in ast ? ast.items : ast.statements;
+  const { top: topStatements, blocks } = splitBlocks(given, bag);
+  if (options.consume) given.length = 0;
   let sawPort = false;
   const globals = new ParamScope();
   const topContext: Context = { scope: globals, prefix: '', terminals: null, chain: [], later: laterOf(topStatements) };
@@ -201,10 +209,10 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
 
   run(topStatements, topContext);
 
-  function run(statements: (Statement | undefined)[], ctx: Context) {
+  function run(statements: (StatementItem | undefined)[], ctx: Context) {
     const release = options.consume && ctx === topContext;
     for (let i = 0; i < statements.length; i++) {
-      const st = statements[i]!;
+      const st = statementOf(statements[i]!);
       // a consumed top-level statement is let go once read (what it made keeps only its spans)
       if (release) statements[i] = undefined;
       if (ctx.terminals && TOP_LEVEL_ONLY.has(st.keyword)) {
@@ -491,7 +499,7 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
     // Terminals may depend on the text properties (a data file's ports): allow any key that looks
     // like one until they are known.
     let terminals: readonly TerminalSpec[] = type.terminals;
-    const el: ElementInstance = { type: type.keyword, name, nodes: [], nodeNames: [], props: {}, at: {}, span: st.span, propSpans: {}, text: {} };
+    const el: ElementInstance = { type: type.keyword, name, nodes: [], nodeNames: [], props: {}, at: NONE_AT, span: st.span, text: NONE_TEXT };
     let ok = true;
     if (type.resolve) {
       // the text properties alone, read quietly: the full check of every key follows
@@ -516,7 +524,7 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
             if (!suggestedKeys.has(p.key)) bag.error('missing-property', `${what} \`${name}\` needs \`${p.key}\` (${p.doc})`, st.label!.span, p.choices ? `one of: ${p.choices.join(', ')}` : `add \`${p.key}="…"\``);
             return false;
           }
-          if (p.defaultValue !== undefined) el.text[p.key] = p.defaultValue;
+          if (p.defaultValue !== undefined) (el.text === NONE_TEXT ? (el.text = {}) : el.text)[p.key] = p.defaultValue;
           continue;
         }
         const word = a.text?.value ?? (a.values.length === 1 && a.values[0]!.kind === 'name' && !a.at ? (a.values[0] as { name: string }).name : undefined);
@@ -528,8 +536,7 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
           bag.error('bad-value', `\`${p.key}\` is one of: ${p.choices.join(', ')}`, a.text?.span ?? a.values[0]!.span, didYouMean(word, p.choices));
           return false;
         }
-        el.text[p.key] = word;
-        el.propSpans[p.key] = a.span;
+        (el.text === NONE_TEXT ? (el.text = {}) : el.text)[p.key] = word;
       }
       return true;
     }
@@ -564,7 +571,6 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
         } else if (p.defaultValue !== undefined) el.props[p.key] = p.defaultValue;
         continue;
       }
-      el.propSpans[p.key] = a.span;
       if (a.at && !p.takesAt) {
         bag.error('unexpected-at', `\`${p.key}\` does not take \`at\``, a.at.span);
         ok = false;
@@ -586,10 +592,13 @@ export function elaborate(ast: NetlistAst, bag: DiagnosticBag, options: Elaborat
       if (p.takesAt && a.at) {
         const f = atArg(a, ctx);
         if (f === undefined) ok = false;
-        else el.at[p.key] = f;
+        else (el.at === NONE_AT ? (el.at = {}) : el.at)[p.key] = f;
       }
     }
     if (!ok) return;
+    // exact-length arrays (an array grown by push keeps room for 16): a large netlist keeps them all
+    el.nodes = el.nodes.slice();
+    el.nodeNames = el.nodeNames.slice();
     type.validate?.(el, (message, key, help) => bag.error('bad-element', message, (key && args.get(key)?.span) || st.label!.span, help));
     if (el.nodes.length === 2 && el.nodes[0] === el.nodes[1]) {
       const node = el.nodes[0] === GROUND ? GROUND_NAME : nodeNames[el.nodes[0]!]!;
@@ -756,11 +765,17 @@ class ReportedError extends Error {}
  * Separates block definitions (`block NAME terminals=… [param=default …]` … `end`) from the
  * top-level statements.
  */
-function splitBlocks(statements: readonly Statement[], bag: DiagnosticBag): { top: Statement[]; blocks: Map<string, BlockDefinition> } {
-  const top: Statement[] = [];
+function splitBlocks(statements: readonly StatementItem[], bag: DiagnosticBag): { top: StatementItem[]; blocks: Map<string, BlockDefinition> } {
+  const top: StatementItem[] = [];
   const blocks = new Map<string, BlockDefinition>();
   let open: BlockDefinition | undefined;
-  for (const st of statements) {
+  for (const item of statements) {
+    // top-level lines stay pending until they are elaborated; block bodies are read now (kept)
+    if (!open && item.keyword !== 'end' && item.keyword !== 'block') {
+      top.push(item);
+      continue;
+    }
+    const st = statementOf(item);
     if (st.keyword === 'end') {
       if (!open) {
         bag.error('bad-block', '`end` without a `block` to close', st.keywordSpan);
@@ -789,8 +804,7 @@ function splitBlocks(statements: readonly Statement[], bag: DiagnosticBag): { to
       open = def;
       continue;
     }
-    if (open) open.body.push(st);
-    else top.push(st);
+    open!.body.push(st);
   }
   if (open) bag.error('bad-block', `block \`${open.name}\` has no \`end\``, open.header.keywordSpan, 'close it with `end`');
   return { top, blocks };

@@ -61,8 +61,6 @@ export interface ElementInstance {
   /** For properties given with `at f`: that frequency in Hz. */
   at: Record<string, number>;
   span: SourceSpan;
-  /** Where each property was written, for messages. */
-  propSpans: Record<string, SourceSpan>;
   /** Text properties (see {@link TextPropertySpec}). */
   text: Record<string, string>;
   /** Whatever the type's `resolve` prepared (a data element's network data, say). */

@@ -178,7 +178,7 @@ export function buildPlan(circuit: Circuit, options: PlanOptions = {}): StampPla
     // the element with its nodes as unknowns (written out: faster than a spread for many elements)
     const nodes = new Array<number>(el.nodes.length);
     for (let t = 0; t < nodes.length; t++) nodes[t] = toUnknown(el.nodes[t]!);
-    const mapped: ElementInstance = { type: el.type, name: el.name, nodes, nodeNames: el.nodeNames, props: el.props, at: el.at, span: el.span, propSpans: el.propSpans, text: el.text, data: el.data };
+    const mapped: ElementInstance = { type: el.type, name: el.name, nodes, nodeNames: el.nodeNames, props: el.props, at: el.at, span: el.span, text: el.text, data: el.data };
     const st = type.compile(mapped, builder);
     if (st) stampers.push(st);
   }

@@ -126,7 +126,7 @@ function solvingPart(circuit: Circuit): Circuit {
     file: circuit.file,
     title: circuit.title,
     nodeNames: circuit.nodeNames,
-    elements: circuit.elements.map((el) => ({ type: el.type, name: el.name, nodes: el.nodes, nodeNames: [], props: el.props, at: el.at, span: NO_SPAN, propSpans: {}, text: el.text, data: el.data })),
+    elements: circuit.elements.map((el) => ({ type: el.type, name: el.name, nodes: el.nodes, nodeNames: [], props: el.props, at: el.at, span: NO_SPAN, text: el.text, data: el.data })),
     ports: circuit.ports.map((p) => ({ ...p, span: NO_SPAN })),
     specs: [],
     localReferences: circuit.localReferences,
