@@ -14,6 +14,7 @@ import { fileURLToPath } from 'node:url';
 const here = fileURLToPath(import.meta.url);
 const lib = new URL('../dist/src/index.js', import.meta.url).href;
 const parallelLib = new URL('../dist/src/solve/parallel.js', import.meta.url).href;
+const sweepLib = new URL('../dist/src/solve/sweep.js', import.meta.url).href;
 // Parallel runs reuse one pool (as a long-running caller would); the first WARM_RUNS runs of each
 // workload are not counted for either mode, so both are measured warm (a worker's JIT takes a few
 // sweeps to settle, as the main thread's does).
@@ -74,9 +75,11 @@ function median(xs) {
 async function one(kind, size) {
   const { loadNetlist, solve } = await import(lib);
   const { solveSweepParallel, closeSweepPool } = await import(parallelLib);
+  const { SweepRunner } = await import(sweepLib);
   const dir = mkdtempSync(join(tmpdir(), 'sbx-bench-'));
-  // sweeps long enough that the one-off work (plan, ordering, first factorisation) counts little
-  const points = kind === 'ladder' ? (size >= 100000 ? 101 : size >= 10000 ? 401 : size >= 1000 ? 4001 : 20001) : 2001;
+  // sweeps long enough that the one-off work (plan, ordering, first factorisation) counts little;
+  // the 1,000- and 10,000-section ladders share one sweep, so that their ratio is per point alone
+  const points = kind === 'ladder' ? (size >= 100000 ? 101 : size >= 1000 ? 4001 : 20001) : 2001;
   const sweep = kind === 'data16' ? `sweep linear start=100 MHz stop=4 GHz points=${points}` : `sweep linear start=1 MHz stop=3 GHz points=${points}`;
   let text;
   if (kind === 'ladder' || kind === 'mathjs') text = ladder(size, sweep);
@@ -97,7 +100,7 @@ async function one(kind, size) {
   writeFileSync(file, text);
   const { circuit } = loadNetlist(text, file);
   if (kind === 'mathjs') return mathjsBaseline(circuit, size);
-  const reps = size >= 100000 ? 1 : 5;
+  const reps = size >= 100000 ? 1 : 7;
   const times = [];
   const timesAll = [];
   if (size < 100000) {
@@ -117,9 +120,17 @@ async function one(kind, size) {
     }
   }
   await closeSweepPool();
+  // the one-off part alone: plan, ordering and the reference factorisation (not for the largest
+  // ladder, whose peak memory is that of one sweep)
+  const setups = [];
+  for (let r = 0; r < (size >= 100000 ? 0 : 5); r++) {
+    const t0 = performance.now();
+    new SweepRunner(circuit, {});
+    setups.push(performance.now() - t0);
+  }
   const single = (median(times) * 1000) / points;
   const all = timesAll.length ? { usPerPoint: (median(timesAll) * 1000) / points, speedup: median(times) / median(timesAll), points } : undefined;
-  return { usPerPoint: single, all, rssMB: process.resourceUsage().maxRSS / 1024, unknowns: circuit.nodeNames.length };
+  return { usPerPoint: single, all, setupMs: setups.length ? median(setups) : undefined, rssMB: process.resourceUsage().maxRSS / 1024, unknowns: circuit.nodeNames.length };
 }
 
 /** The plain dense baseline: each point assembled as a mathjs complex matrix and solved with lusolve. */
@@ -213,7 +224,7 @@ for (const [label, kind, size] of [
 ]) {
   const r = child(kind, size);
   results[`${kind}${size}`] = r;
-  rows.push([label, fmt(r.usPerPoint), r.all ? fmt(r.all.usPerPoint) : '—', r.all ? `${r.all.speedup.toFixed(2)}×` : '—', fmt(r.rssMB, 0)]);
+  rows.push([label, fmt(r.usPerPoint), r.all ? fmt(r.all.usPerPoint) : '—', r.all ? `${r.all.speedup.toFixed(2)}×` : '—', fmt(r.setupMs), fmt(r.rssMB, 0)]);
   process.stderr.write(`${label}: done\n`);
 }
 const base = child('mathjs', 100);
@@ -222,8 +233,8 @@ const el = child('elaborate', 100000);
 const cpu = cpus()[0]?.model ?? 'unknown CPU';
 console.log(`scatterbox benchmark — Node ${process.version}, ${availableParallelism()} cores (${cpu}), ${(totalmem() / 2 ** 30).toFixed(0)} GiB`);
 console.log('');
-console.log('| workload | µs/point, 1 thread | µs/point, all cores | speed-up | peak memory (MB) |');
-console.log('|---|---:|---:|---:|---:|');
+console.log('| workload | µs/point, 1 thread | µs/point, all cores | speed-up | set-up (ms) | peak memory (MB) |');
+console.log('|---|---:|---:|---:|---:|---:|');
 for (const r of rows) console.log(`| ${r.join(' | ')} |`);
 console.log('');
 const l100 = results.ladder100.usPerPoint;

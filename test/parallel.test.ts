@@ -1,6 +1,9 @@
 // Parallel sweeps: the same numbers as the single-thread run, bit for bit.
+import { readdirSync } from 'node:fs';
+import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
-import { loadNetlist } from '../src/load.js';
+import { loadNetlist, loadNetlistFile } from '../src/load.js';
+import { packCircuit, unpackCircuit } from '../src/solve/transfer.js';
 import { closeSweepPool, solveSweepParallel } from '../src/solve/parallel.js';
 import { SingularSystemError, solveSweep } from '../src/solve/sweep.js';
 
@@ -15,6 +18,23 @@ function ladder(sections: number): string {
 }
 
 afterAll(closeSweepPool);
+
+describe('circuits packed for a worker', () => {
+  it('solve bit-identically to the original on every demo netlist (data blocks, lines and blocks included)', () => {
+    const dir = join(import.meta.dirname, '..', 'circuits');
+    const files = readdirSync(dir).filter((f) => f.endsWith('.sbx'));
+    expect(files.length).toBeGreaterThan(10);
+    for (const f of files) {
+      const { circuit } = loadNetlistFile(join(dir, f));
+      const packed = structuredClone(packCircuit(circuit));
+      const again = unpackCircuit(packed);
+      expect(again.elements.map((e) => [e.type, e.name, e.nodes, e.props, e.at])).toEqual(circuit.elements.map((e) => [e.type, e.name, e.nodes, e.props, e.at]));
+      const one = solveSweep(circuit);
+      const other = solveSweep(again, { frequencies: circuit.frequencies });
+      expect(Buffer.from(other.values.buffer).equals(Buffer.from(one.values.buffer)), f).toBe(true);
+    }
+  });
+});
 
 describe('solveSweepParallel', () => {
   it('gives bit-identical results to the single-thread sweep', async () => {

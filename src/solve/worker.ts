@@ -3,12 +3,12 @@
  * other workers, straight into the shared output. Run by the pool of `parallel.ts` from the
  * compiled `dist/` tree.
  */
-import type { Circuit } from '../elaborate/circuit.js';
 import { SweepRunner } from './sweep.js';
+import { unpackCircuit, type PackedCircuit } from './transfer.js';
 
 export interface SweepTask {
-  circuit: Circuit;
-  /** The whole sweep. */
+  circuit: PackedCircuit;
+  /** The whole sweep (over a SharedArrayBuffer, so that it is not copied to every worker). */
   frequencies: Float64Array;
   /** The whole sweep's first frequency: fixes the sparse pivot order the same in every thread. */
   pivotFrequency: number;
@@ -56,7 +56,7 @@ function solveChunks(runner: SweepRunner, task: Pick<SweepTask, 'counter' | 'chu
 }
 
 export default function solveShare(task: SweepTask): ShareResult {
-  const runner = new SweepRunner(task.circuit, { frequencies: task.frequencies, pivotFrequency: task.pivotFrequency, lowestFrequency: task.lowestFrequency }, new Float64Array(task.out));
+  const runner = new SweepRunner(unpackCircuit(task.circuit), { frequencies: task.frequencies, pivotFrequency: task.pivotFrequency, lowestFrequency: task.lowestFrequency }, new Float64Array(task.out));
   const failedAt = solveChunks(runner, task);
   const w = runner.worst;
   return { rcond: w.rcond, frequency: w.frequency, failedAt };
