@@ -71,7 +71,7 @@ const toleranceOptions = (y: Argv) =>
 
 const solveOptions = (y: Argv) =>
   y
-    .option('jobs', { alias: 'j', type: 'number', default: availableParallelism(), describe: 'worker threads for long sweeps (1: solve in one thread)' })
+    .option('jobs', { alias: 'j', type: 'number', default: availableParallelism(), describe: 'threads for long sweeps, this one included (1: solve in one thread)' })
     .option('set', { type: 'string', array: true, describe: 'override a parameter: name=value, with units (repeatable)' })
     .option('sweep', { type: 'string', describe: 'replace the netlist sweep: segments as after `sweep`, joined by `;`' })
     .option('quiet', { alias: 'q', type: 'boolean', default: false, describe: 'do not print warnings' });

@@ -62,6 +62,15 @@ describe('solveSweepParallel', () => {
     for (let i = 1; i < seen.length; i++) expect(seen[i]!).toBeGreaterThanOrEqual(seen[i - 1]!);
   });
 
+  it('is bit-identical with the caller left free (two workers, this thread waiting), progress included', async () => {
+    const { circuit } = loadNetlist(ladder(30).replace('points=401', 'points=2001'), 'ladder.sbx');
+    const one = solveSweep(circuit);
+    const seen: number[] = [];
+    const two = await solveSweepParallel(circuit, { jobs: 2, keepCallerFree: true, onProgress: (done, total) => seen.push(done / total) });
+    expect(Buffer.from(two.values.buffer).equals(Buffer.from(one.values.buffer))).toBe(true);
+    expect(seen[seen.length - 1]).toBe(1);
+  });
+
   it('reports the lowest-indexed singular point, as the single-thread sweep does', async () => {
     // a capacitor-only node is floating at 0 Hz: two such points in a long list
     const freqs = Array.from({ length: 400 }, (_, k) => (k === 150 || k === 390 ? '0 Hz' : `${k + 1} MHz`)).join(', ');

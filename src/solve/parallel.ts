@@ -5,13 +5,22 @@ import Tinypool from 'tinypool';
 import type { Circuit } from '../elaborate/circuit.js';
 import type { NetworkData } from '../network/types.js';
 import { nearSingularWarning, solveSweep, SweepRunner, type SweepOptions } from './sweep.js';
-import type { ShareResult, SweepTask } from './worker.js';
+import { solveChunks, type ShareResult, type SweepTask } from './worker.js';
 import { lowestOf } from '../plan/plan.js';
 import { packCircuit } from './transfer.js';
 
 export interface ParallelOptions {
-  /** Worker threads to use (default: the machine's available parallelism). 1 solves in this thread. */
+  /**
+   * Threads to solve on, this one included (default: the machine's available parallelism): this
+   * thread and jobs − 1 workers share the points. 1 solves in this thread alone.
+   */
   jobs?: number;
+  /**
+   * Leave this thread free while the workers solve (jobs workers, this thread waiting on them), so
+   * that its event loop keeps running; by default this thread takes its share of the points and
+   * is busy until the sweep is done, as with solveSweep.
+   */
+  keepCallerFree?: boolean;
   /** Frequencies in Hz (default: the circuit's sweep). */
   frequencies?: Float64Array;
   /** Called as chunks complete, with the number of points done and the total. */
@@ -49,25 +58,28 @@ export async function closeSweepPool(): Promise<void> {
 }
 
 /**
- * Solves the sweep on `jobs` worker threads while this thread waits. The points are cut into
- * chunks that the workers claim one at a time from a shared counter (so a worker that starts late
- * or runs on a busier core simply takes fewer), and every worker writes its points straight into
- * one shared output. Every point is solved by the same code on the same data as in
+ * Solves the sweep on `jobs` threads: this one and jobs − 1 workers (or jobs workers while this
+ * thread waits, with `keepCallerFree`). The points are cut into chunks that the threads claim one
+ * at a time from a shared counter (so a thread that starts late or runs on a busier core simply
+ * takes fewer), and every thread writes its points straight into one shared output. Every point is solved by the same code on the same data as in
  * {@link solveSweep} (the whole sweep's pivot frequency and lowest frequency in every worker), so
  * the result is identical to the single-thread run bit for bit, however the chunks fall. Its
  * `values` are a Float64Array over a SharedArrayBuffer (the one the workers wrote).
  *
- * (Measured on the reference machine: two workers with this thread idle beat this thread and one
- * worker sharing the chunks, 1.7–2.0× against 1.4–1.7× on long ladder sweeps.)
+ * (Measured on the reference machine, interleaved in one process: this thread and one worker
+ * gain 1.55–1.8× on long ladder sweeps, two workers with this thread waiting 1.4–1.6×; only one
+ * thread has to be woken, and this one is already running.)
  */
 export async function solveSweepParallel(circuit: Circuit, options: ParallelOptions = {}): Promise<NetworkData> {
   const freqs = options.frequencies ?? circuit.frequencies;
   const jobs = Math.max(1, Math.min(options.jobs ?? availableParallelism(), freqs.length));
   if (jobs === 1) return solveSweep(circuit, { frequencies: freqs, onProgress: options.onProgress, onWarning: options.onWarning });
-  const pool = await poolFor(jobs);
+  const callerWorks = !options.keepCallerFree;
+  const workers = callerWorks ? jobs - 1 : jobs;
+  const pool = await poolFor(workers);
   const total = freqs.length;
   const p = circuit.ports.length;
-  // about 64 chunks a worker: fine enough to even out, coarse enough that claiming costs nothing
+  // about 64 chunks a thread: fine enough to even out, coarse enough that claiming costs nothing
   const chunk = Math.max(8, Math.ceil(total / (64 * jobs)));
   const shared = {
     out: new SharedArrayBuffer(8 * 2 * p * p * total),
@@ -81,26 +93,48 @@ export async function solveSweepParallel(circuit: Circuit, options: ParallelOpti
   sharedFreqs.set(freqs);
   const task: SweepTask = { circuit: packCircuit(circuit), ...common, frequencies: sharedFreqs, ...shared };
   const remote: Promise<ShareResult | undefined>[] = [];
-  for (let w = 0; w < jobs; w++) {
+  for (let w = 0; w < workers; w++) {
     // a lost worker gives undefined: its chunks are redone below
     remote.push((pool.run(task) as Promise<ShareResult>).catch(() => undefined));
   }
   const counter = new Int32Array(shared.counter);
-  const ticker = options.onProgress ? setInterval(() => options.onProgress!(Atomics.load(counter, 1), total), 100) : undefined;
+  // the result stays in the shared buffer the threads wrote: a copy would touch as many fresh
+  // pages again, and a first touch of a page costs a fault (about 16 µs a 4 KB page on the
+  // reference machine, as much as the solving of a large output)
+  const values = new Float64Array(shared.out);
+  let local: SweepRunner | undefined;
+  const progress = options.onProgress;
+  if (callerWorks) {
+    // this thread's share, reporting progress between its chunks (its event loop is busy)
+    let last = performance.now();
+    const onChunk = progress
+      ? () => {
+          const now = performance.now();
+          if (now - last < 100) return;
+          last = now;
+          progress(Atomics.load(counter, 1), total);
+        }
+      : undefined;
+    try {
+      local = new SweepRunner(circuit, common, values);
+    } catch (e) {
+      // nothing to solve here: stop the workers before reporting why
+      Atomics.store(counter, 0, total);
+      await Promise.all(remote);
+      throw e;
+    }
+    solveChunks(local, shared, onChunk);
+  }
+  const ticker = progress ? setInterval(() => progress(Atomics.load(counter, 1), total), 100) : undefined;
   let results: (ShareResult | undefined)[];
   try {
     results = await Promise.all(remote);
   } finally {
     if (ticker) clearInterval(ticker);
   }
-  // the result stays in the shared buffer the workers wrote: a copy would touch as many fresh
-  // pages again, and a first touch of a page costs a fault (about 16 µs a 4 KB page on the
-  // reference machine, as much as the solving of a large output)
-  const values = new Float64Array(shared.out);
-  // chunks a worker failed on or never finished: solved here, which reports a singular system
+  // chunks a thread failed on or never finished: solved here, which reports a singular system
   // (or a sweep outside a data block's range) with its own type and details
   const done = new Uint8Array(shared.chunksDone);
-  let local: SweepRunner | undefined;
   let worst = { rcond: Infinity, frequency: NaN };
   for (let c = 0; c < done.length; c++) {
     if (done[c]) continue;

@@ -32,10 +32,12 @@ export interface ShareResult {
 }
 
 /**
- * Claims and solves chunks until none are left. Returns −1, or the first point of a chunk that
- * failed (then the other workers are stopped too; the caller re-solves what is left to report why).
+ * Claims and solves chunks until none are left (in a worker, or on the calling thread, which
+ * passes `onChunk` to hear of each chunk it finished). Returns −1, or the first point of a chunk
+ * that failed (then the other threads are stopped too; the caller re-solves what is left to report
+ * why).
  */
-function solveChunks(runner: SweepRunner, task: Pick<SweepTask, 'counter' | 'chunksDone' | 'chunk'>): number {
+export function solveChunks(runner: SweepRunner, task: Pick<SweepTask, 'counter' | 'chunksDone' | 'chunk'>, onChunk?: () => void): number {
   const counter = new Int32Array(task.counter);
   const done = new Uint8Array(task.chunksDone);
   const total = runner.frequencies.length;
@@ -52,6 +54,7 @@ function solveChunks(runner: SweepRunner, task: Pick<SweepTask, 'counter' | 'chu
     }
     Atomics.store(done, Math.floor(k0 / task.chunk), 1);
     Atomics.add(counter, 1, k1 - k0);
+    onChunk?.();
   }
 }
 
