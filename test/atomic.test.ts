@@ -166,3 +166,39 @@ it('concurrent async writers: the result is one complete payload, no temp files'
   expect(payloads).toContain(readFileSync(p, 'utf8'));
   expect(list()).toEqual(['race.json']);
 });
+
+describe('streamed writes', () => {
+  it('pieces are written in turn: the file is their concatenation, no temp file left', () => {
+    const p = join(dir, 'pieces.txt');
+    const parts = ['header\n', new TextEncoder().encode('bytes ü\n'), ...Array.from({ length: 300 }, (_, i) => `row ${i}\n`)];
+    writeFileAtomicSync(p, parts);
+    expect(readFileSync(p, 'utf8')).toBe(parts.map((x) => (typeof x === 'string' ? x : new TextDecoder().decode(x))).join(''));
+    expect(list()).toEqual(['pieces.txt']);
+  });
+
+  it('a piece that fails to come (the sequence throws half-way): old file intact, no temp file', () => {
+    const p = join(dir, 'out.s2p');
+    writeFileSync(p, 'old content');
+    function* failing(): Generator<string> {
+      yield 'first half\n';
+      throw new Error('the producer failed');
+    }
+    expect(() => writeFileAtomicSync(p, failing())).toThrow(/the producer failed/);
+    expect(readFileSync(p, 'utf8')).toBe('old content');
+    expect(list()).toEqual(['out.s2p']);
+  });
+
+  it('writeNetwork streams a long 4-port Touchstone and CSV to the same bytes as rendering them whole', async () => {
+    const { renderNetwork, writeNetwork } = await import('../src/io/output.js');
+    const nf = 1500; // several pieces of 512 lines (a 4-port point takes 4 lines)
+    const values = new Float64Array(2 * 16 * nf);
+    for (let i = 0; i < values.length; i++) values[i] = Math.sin(i * 0.37) * 0.9;
+    const net = { parameter: 'S' as const, ports: 4, frequencies: Float64Array.from({ length: nf }, (_, k) => 1e6 * (k + 1)), references: Float64Array.from([50, 50, 50, 50]), values };
+    for (const name of ['long.s4p', 'long.csv']) {
+      const p = join(dir, name);
+      writeNetwork(net, p);
+      expect(readFileSync(p, 'utf8')).toBe(renderNetwork(net, {}, p));
+    }
+    expect(readFileSync(join(dir, 'long.s4p'), 'utf8')).toBe(formatTouchstone(net));
+  });
+});

@@ -25,6 +25,13 @@ function toBytes(data: string | Uint8Array): Uint8Array {
   return typeof data === 'string' ? Buffer.from(data, 'utf8') : data;
 }
 
+/** What can be written: text (as UTF-8), bytes, or a sequence of either, written in turn. */
+export type AtomicData = string | Uint8Array | Iterable<string | Uint8Array>;
+
+function pieces(data: AtomicData): Iterable<string | Uint8Array> {
+  return typeof data === 'string' || data instanceof Uint8Array ? [data] : data;
+}
+
 /** Permission bits of an existing target, or undefined when there is none. */
 async function existingMode(path: string): Promise<number | undefined> {
   try {
@@ -68,9 +75,11 @@ export async function writeFileAtomic(path: string, data: string | Uint8Array): 
   await syncDirectory(dirname(path));
 }
 
-/** Synchronous twin of {@link writeFileAtomic}. */
-export function writeFileAtomicSync(path: string, data: string | Uint8Array): void {
-  const bytes = toBytes(data);
+/**
+ * Synchronous twin of {@link writeFileAtomic}; `data` may also be a sequence of pieces (written one
+ * after another; if producing one throws, the temporary file is removed and the target is untouched).
+ */
+export function writeFileAtomicSync(path: string, data: AtomicData): void {
   const tmp = tempPathFor(path);
   const mode = existingModeSync(path);
   let fd: number | undefined;
@@ -79,8 +88,11 @@ export function writeFileAtomicSync(path: string, data: string | Uint8Array): vo
     fd = fs.openSync(tmp, 'wx', 0o666);
     created = true;
     if (mode !== undefined) fs.fchmodSync(fd, mode);
-    let off = 0;
-    while (off < bytes.length) off += fs.writeSync(fd, bytes, off, bytes.length - off);
+    for (const piece of pieces(data)) {
+      const bytes = toBytes(piece);
+      let off = 0;
+      while (off < bytes.length) off += fs.writeSync(fd, bytes, off, bytes.length - off);
+    }
     fs.fsyncSync(fd);
     const f = fd;
     fd = undefined;

@@ -52,23 +52,43 @@ export function csvHeader(parameter: string, ports: number, format: ComplexForma
 
 /** Formats network data as CSV (schema in the module comment). */
 export function formatCsv(net: NetworkData, opts: CsvWriteOptions = {}): string {
+  return Array.from(csvChunks(net, opts)).join('');
+}
+
+/** Rows a chunk of {@link csvChunks} holds at most. */
+const CHUNK_ROWS = 512;
+
+/**
+ * The text of {@link formatCsv} in pieces (the header row first), for writing a large file
+ * without holding all of it; every check is made before the first piece.
+ */
+export function csvChunks(net: NetworkData, opts: CsvWriteOptions = {}): Iterable<string> {
   const format = opts.format ?? 'RI';
   if (SUFFIX[format] === undefined) throw new Error(`CSV: unknown format ${String(format)}`);
   const digits = opts.digits === undefined ? undefined : checkDigits(opts.digits, 17);
   checkNetworkData(net, 'CSV');
-  const n = net.ports;
-  const out: string[] = [csvHeader(net.parameter, n, format).join(',')];
-  const pair = new Float64Array(2);
-  const row: string[] = [];
-  for (let k = 0; k < net.frequencies.length; k++) {
-    row.length = 0;
-    row.push(formatShortest(net.frequencies[k]!)); // always in full, so close points never merge
-    const base = 2 * k * n * n;
-    for (let q = 0; q < n * n; q++) {
-      encodeComplex(format, net.values[base + 2 * q]!, net.values[base + 2 * q + 1]!, pair);
-      row.push(formatShortest(pair[0]!, digits), formatShortest(pair[1]!, digits));
+  return rows(csvHeader(net.parameter, net.ports, format).join(',') + '\n');
+
+  function* rows(header: string): Generator<string> {
+    yield header;
+    const n = net.ports;
+    const pair = new Float64Array(2);
+    const row: string[] = [];
+    const block: string[] = [];
+    for (let k = 0; k < net.frequencies.length; k++) {
+      row.length = 0;
+      row.push(formatShortest(net.frequencies[k]!)); // always in full, so close points never merge
+      const base = 2 * k * n * n;
+      for (let q = 0; q < n * n; q++) {
+        encodeComplex(format, net.values[base + 2 * q]!, net.values[base + 2 * q + 1]!, pair);
+        row.push(formatShortest(pair[0]!, digits), formatShortest(pair[1]!, digits));
+      }
+      block.push(row.join(','));
+      if (block.length >= CHUNK_ROWS) {
+        yield block.join('\n') + '\n';
+        block.length = 0;
+      }
     }
-    out.push(row.join(','));
+    if (block.length > 0) yield block.join('\n') + '\n';
   }
-  return out.join('\n') + '\n';
 }

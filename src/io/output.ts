@@ -2,9 +2,9 @@ import { extname } from 'node:path';
 import { convertNetwork } from '../network/convert.js';
 import type { NetworkData, ParameterKind } from '../network/types.js';
 import { writeFileAtomicSync } from './atomic.js';
-import { formatCsv } from './csv.js';
+import { csvChunks } from './csv.js';
 import { formatJson } from './json.js';
-import { formatTouchstone, touchstoneExtension, type ComplexFormat, type FrequencyUnit, type TouchstoneVersion } from './touchstone.js';
+import { touchstoneChunks, touchstoneExtension, type ComplexFormat, type FrequencyUnit, type TouchstoneVersion } from './touchstone.js';
 
 export type OutputFormat = 'touchstone' | 'csv' | 'json';
 
@@ -44,6 +44,15 @@ export function formatFromPath(path: string): OutputFormat | undefined {
 
 /** Renders network data in the chosen format (the file name, if given, decides the default format). */
 export function renderNetwork(net: NetworkData, options: OutputOptions = {}, path?: string): string {
+  return Array.from(renderNetworkChunks(net, options, path)).join('');
+}
+
+/**
+ * The text of {@link renderNetwork} in pieces (Touchstone and CSV a few hundred points at a time),
+ * for writing a large file without holding all of it. Every check and conversion is made before
+ * the first piece is handed out.
+ */
+export function renderNetworkChunks(net: NetworkData, options: OutputOptions = {}, path?: string): Iterable<string> {
   const format = options.format ?? (path ? formatFromPath(path) : undefined);
   if (!format) {
     throw new OutputError(
@@ -69,7 +78,7 @@ export function renderNetwork(net: NetworkData, options: OutputOptions = {}, pat
       if (version === '1.1' && !sameRefs) {
         throw new OutputError('Touchstone 1.1 has one reference impedance for all ports, but the ports differ', 'write version 2.0 (--touchstone 2.0), which has per-port references');
       }
-      return formatTouchstone(data, {
+      return touchstoneChunks(data, {
         version,
         format: options.data ?? 'RI',
         frequencyUnit: options.frequencyUnit ?? 'GHz',
@@ -78,18 +87,18 @@ export function renderNetwork(net: NetworkData, options: OutputOptions = {}, pat
       });
     }
     case 'csv':
-      return formatCsv(data, { format: options.data ?? 'RI', digits: options.digits });
+      return csvChunks(data, { format: options.data ?? 'RI', digits: options.digits });
     case 'json':
-      return formatJson(data);
+      return [formatJson(data)];
   }
 }
 
 /**
  * Writes network data to `path` atomically (a temporary file renamed over the target), so a
- * failed run never leaves a partial file and never clobbers an existing one. Everything that
- * can fail (conversion, formatting) happens before the file is touched.
+ * failed run never leaves a partial file and never clobbers an existing one. Every check and
+ * conversion happens before the file is touched; the text then streams into the temporary file a
+ * few hundred points at a time, so a long many-port sweep is never held as one string.
  */
 export function writeNetwork(net: NetworkData, path: string, options: OutputOptions = {}): void {
-  const text = renderNetwork(net, options, path);
-  writeFileAtomicSync(path, text);
+  writeFileAtomicSync(path, renderNetworkChunks(net, options, path));
 }

@@ -235,6 +235,18 @@ function commentLines(lines: readonly string[]): string[] {
  * one reference impedance.
  */
 export function formatTouchstone(net: NetworkData, opts: TouchstoneWriteOptions = {}): string {
+  return Array.from(touchstoneChunks(net, opts)).join('');
+}
+
+/** Lines a chunk of {@link touchstoneChunks} holds at most. */
+const CHUNK_LINES = 512;
+
+/**
+ * The text of {@link formatTouchstone} in pieces, for writing a large file without holding all
+ * of it: every check is made here, before the first piece (which holds the header), so a
+ * consumer that has started writing meets no error of the data's.
+ */
+export function touchstoneChunks(net: NetworkData, opts: TouchstoneWriteOptions = {}): Iterable<string> {
   const version = opts.version ?? '1.1';
   const format = opts.format ?? 'RI';
   const unit = opts.frequencyUnit ?? 'GHz';
@@ -286,43 +298,55 @@ export function formatTouchstone(net: NetworkData, opts: TouchstoneWriteOptions 
     lines.push(optionLine);
   }
 
-  const order = pairOrder(n);
-  const pair = new Float64Array(2);
-  const num = (x: number): string => {
-    const s = formatExp(x, digits);
-    return s[0] === '-' ? s : ' ' + s;
-  };
-  // Pairs per output line: 1- and 2-ports put the whole point on one line; 3 ports and more put
-  // each matrix row on its own line(s), at most four pairs a line.
-  const rowLen = n <= 2 ? n * n : n;
   let lastScaled = -Infinity;
   for (let k = 0; k < nf; k++) {
-    // Frequencies are always written in full (shortest round-trip text), whatever `digits` is,
-    // so that close points never merge.
     const scaled = net.frequencies[k]! / scale;
     if (!(scaled > lastScaled)) {
       throw new Error(`Touchstone: frequencies ${net.frequencies[k - 1]} Hz and ${net.frequencies[k]} Hz are equal in ${unit}`);
     }
     lastScaled = scaled;
-    const freqText = formatShortest(scaled);
-    const indent = ' '.repeat(freqText.length);
-    let line = freqText;
-    for (let q = 0; q < n * n; q++) {
-      const i = order[2 * q]!;
-      const j = order[2 * q + 1]!;
-      const at = 2 * ((k * n + i) * n + j);
-      encodeComplex(format, net.values[at]! * norm, net.values[at + 1]! * norm, pair);
-      const posInRow = q % rowLen;
-      if (q > 0 && (posInRow === 0 || (n > 2 && posInRow % 4 === 0))) {
-        lines.push(line);
-        line = indent;
-      }
-      line += ' ' + num(pair[0]!) + ' ' + num(pair[1]!);
-    }
-    lines.push(line);
   }
-  if (version === '2.0') lines.push('[End]');
-  return lines.join('\n') + '\n';
+  return points(lines.join('\n') + '\n');
+
+  function* points(header: string): Generator<string> {
+    yield header;
+    const order = pairOrder(n);
+    const pair = new Float64Array(2);
+    const num = (x: number): string => {
+      const s = formatExp(x, digits);
+      return s[0] === '-' ? s : ' ' + s;
+    };
+    // Pairs per output line: 1- and 2-ports put the whole point on one line; 3 ports and more put
+    // each matrix row on its own line(s), at most four pairs a line.
+    const rowLen = n <= 2 ? n * n : n;
+    const block: string[] = [];
+    for (let k = 0; k < nf; k++) {
+      // Frequencies are always written in full (shortest round-trip text), whatever `digits` is,
+      // so that close points never merge.
+      const freqText = formatShortest(net.frequencies[k]! / scale);
+      const indent = ' '.repeat(freqText.length);
+      let line = freqText;
+      for (let q = 0; q < n * n; q++) {
+        const i = order[2 * q]!;
+        const j = order[2 * q + 1]!;
+        const at = 2 * ((k * n + i) * n + j);
+        encodeComplex(format, net.values[at]! * norm, net.values[at + 1]! * norm, pair);
+        const posInRow = q % rowLen;
+        if (q > 0 && (posInRow === 0 || (n > 2 && posInRow % 4 === 0))) {
+          block.push(line);
+          line = indent;
+        }
+        line += ' ' + num(pair[0]!) + ' ' + num(pair[1]!);
+      }
+      block.push(line);
+      if (block.length >= CHUNK_LINES) {
+        yield block.join('\n') + '\n';
+        block.length = 0;
+      }
+    }
+    if (version === '2.0') block.push('[End]');
+    if (block.length > 0) yield block.join('\n') + '\n';
+  }
 }
 
 // ---------------------------------------------------------------------------------------------
