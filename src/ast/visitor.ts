@@ -1,7 +1,7 @@
 import type { CstNode, IToken, IRecognitionException } from 'chevrotain';
 import { parseLines, type ParsedLine } from '../parse/parser.js';
 import { DiagnosticBag, type SourceSpan } from '../diagnostics/diagnostic.js';
-import { joinSpans, unquote, type Arg, type Expr, type NetlistAst, type NetlistItems, type Statement, type StatementItem } from './ast.js';
+import { joinSpans, unquote, type Arg, type Expr, type NetlistAst, type NetlistItems, type PendingLine, type Statement, type StatementItem } from './ast.js';
 import { BLANK, internKeyword, readSimpleLine, statementOf } from './fast.js';
 
 type Children = Record<string, (CstNode | IToken)[] | undefined>;
@@ -226,7 +226,7 @@ export function parseNetlist(text: string, file: string, bag: DiagnosticBag, opt
  * here all the same (a plain line has none).
  */
 export function parseNetlistItems(text: string, file: string, bag: DiagnosticBag): NetlistItems {
-  const fast: StatementItem[] = [];
+  const fast: PendingLine[] = [];
   const rest: string[] = [];
   let left = 0; // lines left to the grammar
   let lineNo = 1;
@@ -260,10 +260,10 @@ export function parseNetlistItems(text: string, file: string, bag: DiagnosticBag
   let a = 0;
   let b = 0;
   while (a < fast.length || b < slow.statements.length) {
-    const fa = fast[a] as { line: number } | undefined;
+    const fa = fast[a];
     const sb = slow.statements[b];
     if (sb === undefined || (fa !== undefined && fa.line < sb.keywordSpan.line)) {
-      items.push(fast[a]!);
+      items.push(fa!);
       a++;
     } else {
       items.push(sb);

@@ -61,10 +61,11 @@ export async function closeSweepPool(): Promise<void> {
  * Solves the sweep on `jobs` threads: this one and jobs − 1 workers (or jobs workers while this
  * thread waits, with `keepCallerFree`). The points are cut into chunks that the threads claim one
  * at a time from a shared counter (so a thread that starts late or runs on a busier core simply
- * takes fewer), and every thread writes its points straight into one shared output. Every point is solved by the same code on the same data as in
- * {@link solveSweep} (the whole sweep's pivot frequency and lowest frequency in every worker), so
- * the result is identical to the single-thread run bit for bit, however the chunks fall. Its
- * `values` are a Float64Array over a SharedArrayBuffer (the one the workers wrote).
+ * takes fewer), and every thread writes its points straight into one shared output. Every point
+ * is solved by the same code on the same data as in {@link solveSweep} (the whole sweep's pivot
+ * frequency and lowest frequency in every thread), so the result is identical to the
+ * single-thread run bit for bit, however the chunks fall. Its `values` are a Float64Array over a
+ * SharedArrayBuffer (the one the threads wrote).
  *
  * (Measured on the reference machine, interleaved in one process: this thread and one worker
  * gain 1.55–1.8× on long ladder sweeps, two workers with this thread waiting 1.4–1.6×; only one
