@@ -21,7 +21,7 @@
  * every run. Title and comments of the network are not written (CSV has no comment syntax).
  */
 import type { NetworkData } from '../network/types.js';
-import { checkDigits, checkNetworkData, encodeComplex, formatShortest, type ComplexFormat } from './touchstone.js';
+import { checkDigits, checkNetworkData, encodeComplex, formatShortest, inPieces, type ComplexFormat } from './touchstone.js';
 
 export interface CsvWriteOptions {
   /** Default 'RI'. */
@@ -55,9 +55,6 @@ export function formatCsv(net: NetworkData, opts: CsvWriteOptions = {}): string 
   return Array.from(csvChunks(net, opts)).join('');
 }
 
-/** Rows a chunk of {@link csvChunks} holds at most. */
-const CHUNK_ROWS = 512;
-
 /**
  * The text of {@link formatCsv} in pieces (the header row first), for writing a large file
  * without holding all of it; every check is made before the first piece.
@@ -67,14 +64,12 @@ export function csvChunks(net: NetworkData, opts: CsvWriteOptions = {}): Iterabl
   if (SUFFIX[format] === undefined) throw new Error(`CSV: unknown format ${String(format)}`);
   const digits = opts.digits === undefined ? undefined : checkDigits(opts.digits, 17);
   checkNetworkData(net, 'CSV');
-  return rows(csvHeader(net.parameter, net.ports, format).join(',') + '\n');
+  return inPieces(csvHeader(net.parameter, net.ports, format).join(',') + '\n', rows());
 
-  function* rows(header: string): Generator<string> {
-    yield header;
+  function* rows(): Generator<string> {
     const n = net.ports;
     const pair = new Float64Array(2);
     const row: string[] = [];
-    const block: string[] = [];
     for (let k = 0; k < net.frequencies.length; k++) {
       row.length = 0;
       row.push(formatShortest(net.frequencies[k]!)); // always in full, so close points never merge
@@ -83,12 +78,7 @@ export function csvChunks(net: NetworkData, opts: CsvWriteOptions = {}): Iterabl
         encodeComplex(format, net.values[base + 2 * q]!, net.values[base + 2 * q + 1]!, pair);
         row.push(formatShortest(pair[0]!, digits), formatShortest(pair[1]!, digits));
       }
-      block.push(row.join(','));
-      if (block.length >= CHUNK_ROWS) {
-        yield block.join('\n') + '\n';
-        block.length = 0;
-      }
+      yield row.join(',');
     }
-    if (block.length > 0) yield block.join('\n') + '\n';
   }
 }

@@ -238,8 +238,25 @@ export function formatTouchstone(net: NetworkData, opts: TouchstoneWriteOptions 
   return Array.from(touchstoneChunks(net, opts)).join('');
 }
 
-/** Lines a chunk of {@link touchstoneChunks} holds at most. */
-const CHUNK_LINES = 512;
+/** Lines a piece of {@link inPieces} holds at most. */
+const PIECE_LINES = 512;
+
+/**
+ * Text lines (each without its line break) as pieces of at most {@link PIECE_LINES} lines, every
+ * line ended by "\n", after a first piece `head` — the form the streaming writers hand out.
+ */
+export function* inPieces(head: string, lines: Iterable<string>): Generator<string> {
+  yield head;
+  const block: string[] = [];
+  for (const line of lines) {
+    block.push(line);
+    if (block.length >= PIECE_LINES) {
+      yield block.join('\n') + '\n';
+      block.length = 0;
+    }
+  }
+  if (block.length > 0) yield block.join('\n') + '\n';
+}
 
 /**
  * The text of {@link formatTouchstone} in pieces, for writing a large file without holding all
@@ -306,10 +323,9 @@ export function touchstoneChunks(net: NetworkData, opts: TouchstoneWriteOptions 
     }
     lastScaled = scaled;
   }
-  return points(lines.join('\n') + '\n');
+  return inPieces(lines.join('\n') + '\n', points());
 
-  function* points(header: string): Generator<string> {
-    yield header;
+  function* points(): Generator<string> {
     const order = pairOrder(n);
     const pair = new Float64Array(2);
     const num = (x: number): string => {
@@ -319,7 +335,6 @@ export function touchstoneChunks(net: NetworkData, opts: TouchstoneWriteOptions 
     // Pairs per output line: 1- and 2-ports put the whole point on one line; 3 ports and more put
     // each matrix row on its own line(s), at most four pairs a line.
     const rowLen = n <= 2 ? n * n : n;
-    const block: string[] = [];
     for (let k = 0; k < nf; k++) {
       // Frequencies are always written in full (shortest round-trip text), whatever `digits` is,
       // so that close points never merge.
@@ -333,19 +348,14 @@ export function touchstoneChunks(net: NetworkData, opts: TouchstoneWriteOptions 
         encodeComplex(format, net.values[at]! * norm, net.values[at + 1]! * norm, pair);
         const posInRow = q % rowLen;
         if (q > 0 && (posInRow === 0 || (n > 2 && posInRow % 4 === 0))) {
-          block.push(line);
+          yield line;
           line = indent;
         }
         line += ' ' + num(pair[0]!) + ' ' + num(pair[1]!);
       }
-      block.push(line);
-      if (block.length >= CHUNK_LINES) {
-        yield block.join('\n') + '\n';
-        block.length = 0;
-      }
+      yield line;
     }
-    if (version === '2.0') block.push('[End]');
-    if (block.length > 0) yield block.join('\n') + '\n';
+    if (version === '2.0') yield '[End]';
   }
 }
 
