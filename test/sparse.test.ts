@@ -26,6 +26,9 @@
  *   Comput. 5, 1984; N. J. Higham, ACM TOMS 14, 1988), and is usually within a factor 3 of it
  *   (Higham 1988, from memory); the test asks for a factor 10. κ₁ = ‖A‖₁‖A⁻¹‖₁ by definition, with
  *   A⁻¹ from the dense inverse of src/network/complex.ts.
+ * - [LDLT] a symmetric matrix factored with its pivots on the diagonal has U = D·Lᵀ (uniqueness of
+ *   the LU factors), so e_uᵀ·A⁻¹·e_v = (L⁻¹e_u)ᵀ·D⁻¹·(L⁻¹e_v) — common practice (the LDLᵀ form);
+ *   checked against the dense inverse of src/network/complex.ts to [AGREE]'s 1e-10.
  * - [SINGULAR] a matrix with a zero column, or with two columns that are multiples of the same unit
  *   vector, is singular (rank deficient) — common practice. At 0 Hz a capacitor is open, so a node
  *   joined only through capacitors has an all-zero nodal column (common practice).
@@ -58,6 +61,7 @@ import {
 } from '../src/solve/sparse/index.js';
 import { loadNetlist } from '../src/load.js';
 import { buildPlan, stampAt } from '../src/plan/plan.js';
+import { solveSymmetricPorts, symmetricPorts } from '../src/solve/sparse/symmetric.js';
 
 const FC = { seed: 20240611, numRuns: 120 };
 
@@ -733,6 +737,95 @@ describe('condition estimate [HAGER]', () => {
     const st = factor(f, Float64Array.from(vals));
     if (st === OK) expect(reciprocalCondition(f)).toBeLessThan(1e-10);
     else expect(st).toBe(SINGULAR);
+  });
+});
+
+/** A random symmetric nodal system: admittances between node pairs and to ground (no branch rows). */
+function randomSymmetric(seed: number): System {
+  const r = rng(seed);
+  const n = 1 + Math.floor(r() * 45);
+  const rows: number[] = [];
+  const cols: number[] = [];
+  const vals: number[] = [];
+  const put = (i: number, j: number, re: number, im: number) => {
+    rows.push(i);
+    cols.push(j);
+    vals.push(re, im);
+  };
+  const admittance = (a: number, b: number, g: number, bb: number) => {
+    put(a, a, g, bb);
+    if (b >= 0) {
+      put(b, b, g, bb);
+      put(a, b, -g, -bb);
+      put(b, a, -g, -bb);
+    }
+  };
+  for (let i = 0; i < n; i++) admittance(i, i === 0 || r() < 0.3 ? -1 : Math.floor(r() * i), 0.01 + r(), (r() - 0.3) * 0.5);
+  const more = Math.floor(r() * 2 * n);
+  for (let k = 0; k < more; k++) {
+    const a = Math.floor(r() * n);
+    const b = Math.floor(r() * n);
+    if (a !== b) admittance(a, b, 0.01 + r(), (r() - 0.5) * 0.5);
+  }
+  return { n, slotRow: Int32Array.from(rows), slotCol: Int32Array.from(cols), values: Float64Array.from(vals) };
+}
+
+describe('symmetric port solve [LDLT]', () => {
+  it('gives the port block of A⁻¹ for 1 to 6 port unknowns, after factor and after refactor [AGREE]', () => {
+    let checked = 0;
+    fc.assert(
+      fc.property(fc.integer(), fc.integer({ min: 1, max: 6 }), (seed, want) => {
+        const s = randomSymmetric(seed);
+        const a = toDense(s);
+        if (denseRcond(s.n, a) < KAPPA_LIMIT_RCOND) return;
+        const r = rng(seed ^ 0x2545f491);
+        const units = Array.from({ length: want }, () => Math.floor(r() * s.n)); // repeats are merged
+        const f = createFactor(analyse(s.n, s.slotRow, s.slotCol));
+        expect(factor(f, s.values)).toBe(OK);
+        const sp = symmetricPorts(f, units);
+        if (!sp) {
+          expect(f.swaps).toBeGreaterThan(0); // only a row swap stops it
+          return;
+        }
+        expect(sp.m).toBe(new Set(units).size);
+        const inv = inverse(s.n, Float64Array.from(a), createMatrix(s.n), createLu(s.n));
+        const check = () => {
+          solveSymmetricPorts(f, sp);
+          let scale = 0;
+          for (let i = 0; i < inv.length; i += 2) scale = Math.max(scale, Math.hypot(inv[i]!, inv[i + 1]!));
+          for (let p = 0; p < sp.m; p++) {
+            for (let q = 0; q < sp.m; q++) {
+              const e = 2 * (sp.unknowns[p]! * s.n + sp.unknowns[q]!);
+              const g = 2 * (p * sp.m + q);
+              expect(Math.hypot(sp.g[g]! - inv[e]!, sp.g[g + 1]! - inv[e + 1]!)).toBeLessThanOrEqual(1e-10 * scale);
+            }
+          }
+        };
+        check();
+        // the same pivots with the values scaled and rotated (still symmetric): a refactor
+        const rot = Float64Array.from(s.values);
+        for (let k = 0; k < rot.length; k += 2) {
+          const [re, im] = [s.values[k]!, s.values[k + 1]!];
+          rot[k] = 2 * (0.6 * re - 0.8 * im);
+          rot[k + 1] = 2 * (0.8 * re + 0.6 * im);
+        }
+        expect(refactor(f, rot)).toBe(OK);
+        const inv2 = inverse(s.n, toDense(s, rot), createMatrix(s.n), createLu(s.n));
+        inv.set(inv2);
+        check();
+        checked++;
+      }),
+      FC,
+    );
+    expect(checked).toBeGreaterThan(60);
+  });
+
+  it('declines a factor whose pivoting swapped rows (U is then not D·Lᵀ)', () => {
+    // [[0, 1], [1, 0]] needs a swap at the first step
+    const f = createFactor(analyse(2, Int32Array.from([0, 1, 0, 1]), Int32Array.from([1, 0, 0, 1])));
+    expect(factor(f, Float64Array.from([1, 0, 1, 0, 0, 0, 0, 0]))).toBe(OK);
+    expect(f.swaps).toBeGreaterThan(0);
+    expect(symmetricPorts(f, [0, 1])).toBeUndefined();
   });
 });
 

@@ -19,6 +19,7 @@ import {
   type SparseFactor,
   type SolveRange,
 } from './sparse/index.js';
+import { solveSymmetricPorts, symmetricPorts, symmetricPortsCost, type SymmetricPorts } from './sparse/symmetric.js';
 import type { NetworkData } from '../network/types.js';
 import { buildPlan, lowestOf, stampAt, type AdmittanceBatch, type StampPlan } from '../plan/plan.js';
 
@@ -66,8 +67,17 @@ export function chooseSolver(plan: StampPlan, choice: SolverChoice = 'auto'): 'd
   return n <= DENSE_MAX_UNKNOWNS || plan.slotRow.length / (n * n) >= DENSE_MIN_FILL ? 'dense' : 'sparse';
 }
 
+/**
+ * How a sweep solves its points: a dense LU; the sparse LU with forward and backward sweeps; or the
+ * sparse LU of a symmetric matrix with forward sweeps alone for the port voltages (a reciprocal
+ * network whose reference factorisation kept its pivots on the diagonal).
+ */
+export type SolveMethod = 'dense' | 'sparse' | 'sparse-symmetric';
+
 /** One factor-and-solve engine over the slot values of a plan; allocated once per sweep. */
 interface LinearEngine {
+  /** Which method solves the points (see {@link SweepRunner.method}). */
+  readonly method: SolveMethod;
   /**
    * Stamps the plan at angular frequency omega (into `vals`, or straight into the factor storage)
    * and factors; returns -1 on success, else the unknown to blame (or -2: ill-conditioned).
@@ -82,6 +92,7 @@ interface LinearEngine {
 
 /** The dense engine (classes, not closures: one set of functions for every sweep, which the JIT keeps). */
 class DenseEngine implements LinearEngine {
+  readonly method = 'dense';
   lastRcond = NaN;
   private readonly n: number;
   private readonly pos: Int32Array;
@@ -131,6 +142,7 @@ class DenseEngine implements LinearEngine {
  * points were solved before it — which keeps parallel sweeps bit-identical to one thread.
  */
 class SparseEngine implements LinearEngine {
+  readonly method: SolveMethod;
   lastRcond = NaN;
   private readonly n: number;
   private readonly ports: Int32Array;
@@ -146,6 +158,12 @@ class SparseEngine implements LinearEngine {
    * to add straight into it. The slot values are then only built where a fallback needs them.
    */
   private readonly direct: { image: Float64Array; batch: AdmittanceBatch | undefined } | undefined;
+  /**
+   * Where the matrix is symmetric (a reciprocal network) and the reference factorisation kept its
+   * pivots on the diagonal: the port solve by forward sweeps alone, used with the main factor when
+   * it is estimated cheaper than the forward and backward sweeps.
+   */
+  private readonly sym: SymmetricPorts | undefined;
   constructor(
     private readonly plan: StampPlan,
     reference: Float64Array | undefined,
@@ -169,6 +187,9 @@ class SparseEngine implements LinearEngine {
     if (reference) sparseFactor(this.main, reference);
     this.mainRange = sparseSolveRange(this.main, ports, ports);
     this.range = this.mainRange;
+    const sym = plan.symmetric && reference && this.main.valid ? symmetricPorts(this.main, ports) : undefined;
+    if (sym && symmetricPortsCost(this.main.lRowPtr, n, sym.steps) <= solveCost(this.main, this.mainRange, nrhs)) this.sym = sym;
+    this.method = this.sym ? 'sparse-symmetric' : 'sparse';
     if (plan.stampers.length === 0) {
       const target = this.main.slotTarget;
       const image = new Float64Array(2 * this.main.entries);
@@ -215,6 +236,34 @@ class SparseEngine implements LinearEngine {
   }
   solve(rhs: Float64Array, x: Float64Array, nrhs: number): void {
     // right-hand sides only in port rows, and only port voltages wanted
+    const sym = this.sym;
+    if (sym && this.used === this.main) {
+      solveSymmetricPorts(this.main, sym);
+      // x at the port unknowns: x[u_a, j] = Σ_b (e_aᵀ·A⁻¹·e_b)·rhs[u_b, j]
+      const m = sym.m;
+      const g = sym.g;
+      const us = sym.unknowns;
+      for (let a = 0; a < m; a++) {
+        const ua = us[a]!;
+        for (let j = 0; j < nrhs; j++) {
+          let sr = 0;
+          let si = 0;
+          for (let b = 0; b < m; b++) {
+            const r = 2 * (us[b]! * nrhs + j);
+            const rr = rhs[r]!;
+            const ri = rhs[r + 1]!;
+            const q = 2 * (a * m + b);
+            const gr = g[q]!;
+            const gi = g[q + 1]!;
+            sr += gr * rr - gi * ri;
+            si += gr * ri + gi * rr;
+          }
+          x[2 * (ua * nrhs + j)] = sr;
+          x[2 * (ua * nrhs + j) + 1] = si;
+        }
+      }
+      return;
+    }
     sparseSolve(this.used, rhs, x, nrhs, this.range);
   }
   nullDirection(): Float64Array | undefined {
@@ -225,6 +274,14 @@ class SparseEngine implements LinearEngine {
     sparseSolve(this.used, b, x, 1);
     return x;
   }
+}
+
+/** Estimated work of the forward and backward sweeps of a partial solve with `f` (units of {@link symmetricPortsCost}). */
+function solveCost(f: SparseFactor, range: SolveRange, nrhs: number): number {
+  const n = f.n;
+  let u = 0;
+  for (let j = range.lastStep; j < n; j++) u += f.diagPos[j]! - f.colPtr[j]!;
+  return nrhs * (f.lRowPtr[n]! - f.lRowPtr[range.firstStep]! + u + (n - range.firstStep) + (n - range.lastStep));
 }
 
 /**
@@ -396,6 +453,14 @@ export class SweepRunner {
     this.plan = plan;
     this.engine = engine;
     this.complexRefs = complexRefs;
+  }
+
+  /**
+   * How the points are solved (the symmetric method serves the points whose reference pivots
+   * hold; a point that needs a fresh pivoting factorisation is solved by the general sweeps).
+   */
+  get method(): SolveMethod {
+    return this.engine.method;
   }
 
   /** Solves the points k0 ≤ k < k1; throws {@link SingularSystemError} where the system is singular. */
