@@ -27,8 +27,9 @@
  *   (Higham 1988, from memory); the test asks for a factor 10. κ₁ = ‖A‖₁‖A⁻¹‖₁ by definition, with
  *   A⁻¹ from the dense inverse of src/network/complex.ts.
  * - [LDLT] a symmetric matrix factored with its pivots on the diagonal has U = D·Lᵀ (uniqueness of
- *   the LU factors), so e_uᵀ·A⁻¹·e_v = (L⁻¹e_u)ᵀ·D⁻¹·(L⁻¹e_v) — common practice (the LDLᵀ form);
- *   checked against the dense inverse of src/network/complex.ts to [AGREE]'s 1e-10.
+ *   the LU factors), so c_aᵀ·A⁻¹·c_b = (L⁻¹c_a)ᵀ·D⁻¹·(L⁻¹c_b) — common practice (the LDLᵀ form);
+ *   checked against the dense inverse of src/network/complex.ts: each entry is a sum of four
+ *   entries of A⁻¹, so 4 × [AGREE]'s 1e-10 of the largest.
  * - [SINGULAR] a matrix with a zero column, or with two columns that are multiples of the same unit
  *   vector, is singular (rank deficient) — common practice. At 0 Hz a capacitor is open, so a node
  *   joined only through capacitors has an all-zero nodal column (common practice).
@@ -771,37 +772,48 @@ function randomSymmetric(seed: number): System {
 }
 
 describe('symmetric port solve [LDLT]', () => {
-  it('gives the port block of A⁻¹ for 1 to 6 port unknowns, after factor and after refactor [AGREE]', () => {
+  it('gives c_aᵀ·A⁻¹·c_b for 1 to 6 ports (c = e_plus − e_minus), after factor and after refactor [AGREE]', () => {
     let checked = 0;
     fc.assert(
-      fc.property(fc.integer(), fc.integer({ min: 1, max: 6 }), (seed, want) => {
+      fc.property(fc.integer(), fc.integer({ min: 1, max: 6 }), (seed, m) => {
         const s = randomSymmetric(seed);
         const a = toDense(s);
         if (denseRcond(s.n, a) < KAPPA_LIMIT_RCOND) return;
         const r = rng(seed ^ 0x2545f491);
-        const units = Array.from({ length: want }, () => Math.floor(r() * s.n)); // repeats are merged
+        // ports to ground and across two unknowns; a terminal may be shared between ports
+        const plus = Int32Array.from({ length: m }, () => Math.floor(r() * s.n));
+        const minus = Int32Array.from(plus, (u) => {
+          const w = Math.floor(r() * s.n);
+          return r() < 0.5 || w === u ? -1 : w;
+        });
         const f = createFactor(analyse(s.n, s.slotRow, s.slotCol));
         expect(factor(f, s.values)).toBe(OK);
-        const sp = symmetricPorts(f, units);
+        const sp = symmetricPorts(f, plus, minus);
         if (!sp) {
           expect(f.swaps).toBeGreaterThan(0); // only a row swap stops it
           return;
         }
-        expect(sp.m).toBe(new Set(units).size);
-        const inv = inverse(s.n, Float64Array.from(a), createMatrix(s.n), createLu(s.n));
-        const check = () => {
+        expect(sp.m).toBe(m);
+        const check = (values: Float64Array) => {
+          const inv = inverse(s.n, toDense(s, values), createMatrix(s.n), createLu(s.n));
           solveSymmetricPorts(f, sp);
+          const at = (u: number, w: number) => (u < 0 || w < 0 ? [0, 0] : [inv[2 * (u * s.n + w)]!, inv[2 * (u * s.n + w) + 1]!]);
           let scale = 0;
           for (let i = 0; i < inv.length; i += 2) scale = Math.max(scale, Math.hypot(inv[i]!, inv[i + 1]!));
-          for (let p = 0; p < sp.m; p++) {
-            for (let q = 0; q < sp.m; q++) {
-              const e = 2 * (sp.unknowns[p]! * s.n + sp.unknowns[q]!);
-              const g = 2 * (p * sp.m + q);
-              expect(Math.hypot(sp.g[g]! - inv[e]!, sp.g[g + 1]! - inv[e + 1]!)).toBeLessThanOrEqual(1e-10 * scale);
+          for (let p = 0; p < m; p++) {
+            for (let q = 0; q < m; q++) {
+              // c_pᵀ·A⁻¹·c_q from the dense inverse
+              const terms = [at(plus[p]!, plus[q]!), at(minus[p]!, minus[q]!)];
+              const cross = [at(plus[p]!, minus[q]!), at(minus[p]!, plus[q]!)];
+              const er = terms[0]![0]! + terms[1]![0]! - cross[0]![0]! - cross[1]![0]!;
+              const ei = terms[0]![1]! + terms[1]![1]! - cross[0]![1]! - cross[1]![1]!;
+              const g = 2 * (p * m + q);
+              expect(Math.hypot(sp.g[g]! - er, sp.g[g + 1]! - ei)).toBeLessThanOrEqual(4e-10 * scale);
+              expect(sp.g[g]).toBe(sp.g[2 * (q * m + p)]); // symmetric by construction
             }
           }
         };
-        check();
+        check(s.values);
         // the same pivots with the values scaled and rotated (still symmetric): a refactor
         const rot = Float64Array.from(s.values);
         for (let k = 0; k < rot.length; k += 2) {
@@ -810,9 +822,7 @@ describe('symmetric port solve [LDLT]', () => {
           rot[k + 1] = 2 * (0.8 * re + 0.6 * im);
         }
         expect(refactor(f, rot)).toBe(OK);
-        const inv2 = inverse(s.n, toDense(s, rot), createMatrix(s.n), createLu(s.n));
-        inv.set(inv2);
-        check();
+        check(rot);
         checked++;
       }),
       FC,
@@ -825,7 +835,7 @@ describe('symmetric port solve [LDLT]', () => {
     const f = createFactor(analyse(2, Int32Array.from([0, 1, 0, 1]), Int32Array.from([1, 0, 0, 1])));
     expect(factor(f, Float64Array.from([1, 0, 1, 0, 0, 0, 0, 0]))).toBe(OK);
     expect(f.swaps).toBeGreaterThan(0);
-    expect(symmetricPorts(f, [0, 1])).toBeUndefined();
+    expect(symmetricPorts(f, [0, 1], [-1, -1])).toBeUndefined();
   });
 });
 

@@ -20,6 +20,28 @@ import {
   type SolveRange,
 } from './sparse/index.js';
 import { solveSymmetricPorts, symmetricPorts, symmetricPortsCost, type SymmetricPorts } from './sparse/symmetric.js';
+
+/** v[2·(i·p + j)] = x[plus_i, j] − x[minus_i, j]: the voltage across port i for right-hand side j. */
+function gatherPortVoltages(x: Float64Array, p: number, plus: Int32Array, minus: Int32Array, v: Float64Array): void {
+  for (let i = 0; i < p; i++) {
+    const pl = plus[i]!;
+    const mi = minus[i]!;
+    for (let j = 0; j < p; j++) {
+      let vr = 0;
+      let vi = 0;
+      if (pl !== GROUND) {
+        vr = x[2 * (pl * p + j)]!;
+        vi = x[2 * (pl * p + j) + 1]!;
+      }
+      if (mi !== GROUND) {
+        vr -= x[2 * (mi * p + j)]!;
+        vi -= x[2 * (mi * p + j) + 1]!;
+      }
+      v[2 * (i * p + j)] = vr;
+      v[2 * (i * p + j) + 1] = vi;
+    }
+  }
+}
 import type { NetworkData } from '../network/types.js';
 import { buildPlan, lowestOf, stampAt, type AdmittanceBatch, type StampPlan } from '../plan/plan.js';
 
@@ -85,7 +107,11 @@ interface LinearEngine {
   stampFactor(omega: number, vals: Float64Array): number;
   /** The condition estimate of the last factorisation, where it was computed (else NaN). */
   lastRcond: number;
-  solve(rhs: Float64Array, x: Float64Array, nrhs: number): void;
+  /**
+   * Solves for the port voltages: `rhs` (n × p, nonzero only in the rows of port terminals) gives
+   * `v[2·(i·p + j)]`, the voltage across port i for right-hand side j; `x` (n × p) is scratch.
+   */
+  portVoltages(rhs: Float64Array, x: Float64Array, v: Float64Array): void;
   /** For explaining a failure: a solve with the last (ill-conditioned) factors, or undefined. */
   nullDirection(): Float64Array | undefined;
 }
@@ -122,8 +148,10 @@ class DenseEngine implements LinearEngine {
     this.lastRcond = rcondEstimate(this.lu);
     return this.lastRcond < SINGULAR_RCOND ? -2 : -1;
   }
-  solve(rhs: Float64Array, x: Float64Array, nrhs: number): void {
-    luSolve(this.lu, rhs, x, nrhs);
+  portVoltages(rhs: Float64Array, x: Float64Array, v: Float64Array): void {
+    const p = this.plan.portPlus.length;
+    luSolve(this.lu, rhs, x, p);
+    gatherPortVoltages(x, p, this.plan.portPlus, this.plan.portMinus, v);
   }
   nullDirection(): Float64Array | undefined {
     const n = this.n;
@@ -187,8 +215,8 @@ class SparseEngine implements LinearEngine {
     if (reference) sparseFactor(this.main, reference);
     this.mainRange = sparseSolveRange(this.main, ports, ports);
     this.range = this.mainRange;
-    const sym = plan.symmetric && reference && this.main.valid ? symmetricPorts(this.main, ports) : undefined;
-    if (sym && symmetricPortsCost(this.main.lRowPtr, n, sym.steps) <= solveCost(this.main, this.mainRange, nrhs)) this.sym = sym;
+    const sym = plan.symmetric && reference && this.main.valid ? symmetricPorts(this.main, plan.portPlus, plan.portMinus) : undefined;
+    if (sym && symmetricPortsCost(this.main, sym) <= solveCost(this.main, this.mainRange, nrhs)) this.sym = sym;
     this.method = this.sym ? 'sparse-symmetric' : 'sparse';
     if (plan.stampers.length === 0) {
       const target = this.main.slotTarget;
@@ -234,37 +262,34 @@ class SparseEngine implements LinearEngine {
     this.lastRcond = reciprocalCondition(used);
     return this.lastRcond < SINGULAR_RCOND ? -2 : -1;
   }
-  solve(rhs: Float64Array, x: Float64Array, nrhs: number): void {
-    // right-hand sides only in port rows, and only port voltages wanted
+  portVoltages(rhs: Float64Array, x: Float64Array, v: Float64Array): void {
+    const plan = this.plan;
+    const p = plan.portPlus.length;
     const sym = this.sym;
     if (sym && this.used === this.main) {
       solveSymmetricPorts(this.main, sym);
-      // x at the port unknowns: x[u_a, j] = Σ_b (e_aᵀ·A⁻¹·e_b)·rhs[u_b, j]
-      const m = sym.m;
+      // right-hand side j is drive_j·c_j: v_ij = (c_iᵀ·A⁻¹·c_j)·drive_j
       const g = sym.g;
-      const us = sym.unknowns;
-      for (let a = 0; a < m; a++) {
-        const ua = us[a]!;
-        for (let j = 0; j < nrhs; j++) {
-          let sr = 0;
-          let si = 0;
-          for (let b = 0; b < m; b++) {
-            const r = 2 * (us[b]! * nrhs + j);
-            const rr = rhs[r]!;
-            const ri = rhs[r + 1]!;
-            const q = 2 * (a * m + b);
-            const gr = g[q]!;
-            const gi = g[q + 1]!;
-            sr += gr * rr - gi * ri;
-            si += gr * ri + gi * rr;
-          }
-          x[2 * (ua * nrhs + j)] = sr;
-          x[2 * (ua * nrhs + j) + 1] = si;
+      for (let j = 0; j < p; j++) {
+        const pl = plan.portPlus[j]!;
+        const mi = plan.portMinus[j]!;
+        const sign = pl !== GROUND ? 1 : -1;
+        const r = 2 * ((pl !== GROUND ? pl : mi) * p + j);
+        const dr = mi === GROUND && pl === GROUND ? 0 : sign * rhs[r]!;
+        const di = mi === GROUND && pl === GROUND ? 0 : sign * rhs[r + 1]!;
+        for (let i = 0; i < p; i++) {
+          const q = 2 * (i * p + j);
+          const gr = g[q]!;
+          const gi = g[q + 1]!;
+          v[q] = gr * dr - gi * di;
+          v[q + 1] = gr * di + gi * dr;
         }
       }
       return;
     }
-    sparseSolve(this.used, rhs, x, nrhs, this.range);
+    // right-hand sides only in port rows, and only port voltages wanted
+    sparseSolve(this.used, rhs, x, p, this.range);
+    gatherPortVoltages(x, p, plan.portPlus, plan.portMinus, v);
   }
   nullDirection(): Float64Array | undefined {
     const n = this.n;
@@ -433,10 +458,9 @@ export class SweepRunner {
       vals,
       rhs,
       x,
+      v: new Float64Array(2 * p * p),
       out,
       p,
-      portPlus: plan.portPlus,
-      portMinus: plan.portMinus,
       invSqrtRef: Float64Array.from(sqrtRef, (r) => 1 / r),
       complexRefs,
       kr,
@@ -502,10 +526,10 @@ interface PointLoop {
   vals: Float64Array;
   rhs: Float64Array;
   x: Float64Array;
+  /** The port voltages of a point, p × p complex. */
+  v: Float64Array;
   out: Float64Array;
   p: number;
-  portPlus: Int32Array;
-  portMinus: Int32Array;
   invSqrtRef: Float64Array;
   complexRefs: boolean;
   kr: Float64Array;
@@ -527,7 +551,7 @@ interface PointLoop {
  * solved.
  */
 function runPoints(L: PointLoop, k0: number, k1: number): number {
-  const { engine, freqs, vals, rhs, x, out, p, portPlus, portMinus, invSqrtRef, complexRefs, kr, ki, dr, di } = L;
+  const { engine, freqs, vals, rhs, x, v, out, p, invSqrtRef, complexRefs, kr, ki, dr, di } = L;
   const total = freqs.length;
   for (let k = k0; k < k1; k++) {
     const status = engine.stampFactor(2 * Math.PI * freqs[k]!, vals);
@@ -539,24 +563,15 @@ function runPoints(L: PointLoop, k0: number, k1: number): number {
       L.worstRcond = engine.lastRcond;
       L.worstAt = freqs[k]!;
     }
-    engine.solve(rhs, x, p);
+    engine.portVoltages(rhs, x, v);
     const base = 2 * p * p * k;
     for (let i = 0; i < p; i++) {
-      const pl = portPlus[i]!;
-      const mi = portMinus[i]!;
       const inv = invSqrtRef[i]!;
       for (let j = 0; j < p; j++) {
-        let vr = 0;
-        let vi = 0;
-        if (pl !== GROUND) {
-          vr = x[2 * (pl * p + j)]!;
-          vi = x[2 * (pl * p + j) + 1]!;
-        }
-        if (mi !== GROUND) {
-          vr -= x[2 * (mi * p + j)]!;
-          vi -= x[2 * (mi * p + j) + 1]!;
-        }
-        const o = base + 2 * (i * p + j);
+        const q = 2 * (i * p + j);
+        const vr = v[q]!;
+        const vi = v[q + 1]!;
+        const o = base + q;
         if (complexRefs) {
           out[o] = vr * kr[i]! - vi * ki[i]! - (i === j ? dr[i]! : 0);
           out[o + 1] = vr * ki[i]! + vi * kr[i]! - (i === j ? di[i]! : 0);

@@ -3,12 +3,11 @@
  * factored with the pivots on the diagonal, i.e. rows and columns in one order: P·A·Pᵀ = L·U.
  * Then U = D·Lᵀ with D the pivots (the LU factors of a symmetric matrix are unique), and
  *
- *     A⁻¹ = Pᵀ·L⁻ᵀ·D⁻¹·L⁻¹·P,   so   e_uᵀ·A⁻¹·e_v = w_uᵀ·D⁻¹·w_v   with   w_u = L⁻¹·P·e_u.
+ *     A⁻¹ = Pᵀ·L⁻ᵀ·D⁻¹·L⁻¹·P,   so   c_aᵀ·A⁻¹·c_b = w_aᵀ·D⁻¹·w_b   with   w_a = L⁻¹·P·c_a
  *
- * For the few unknowns u at the ports this needs one forward sweep per unknown (starting at the
- * step where u is eliminated: w_u is zero before it) and a short sum per pair — no backward sweep.
- * This is the "solve with the transposed factors" of the port-to-port block of A⁻¹ specialised to
- * symmetry (common practice for reciprocal networks; the identity is that of the LDLᵀ form).
+ * for the port vectors c_a = e_plus − e_minus. Each port needs one forward sweep (from the first
+ * step where its vector is nonzero: w_a is zero before it) and each pair a short sum — no
+ * backward sweep (common practice for reciprocal networks: the identity is that of the LDLᵀ form).
  *
  * No allocation per solve.
  *
@@ -17,55 +16,63 @@
 
 import type { SparseFactor } from './factor.js';
 
-/** The port unknowns of a symmetric solve and its storage, made once by {@link symmetricPorts}. */
+/** The port vectors of a symmetric solve and its storage, made once by {@link symmetricPorts}. */
 export interface SymmetricPorts {
-  /** Number of port unknowns. */
+  /** Number of ports. */
   readonly m: number;
-  /** The unknowns (0-based, distinct), in the order of `g`. */
-  readonly unknowns: Int32Array;
-  /** Step at which each is eliminated. */
-  readonly steps: Int32Array;
-  /** The first of the steps: rows of the sweeps before it stay zero. */
+  /** Per port: the step of its plus and of its minus unknown (−1: ground). */
+  readonly plusStep: Int32Array;
+  readonly minusStep: Int32Array;
+  /** Per port: the first step where its sweep is nonzero (n for a port with both ends on ground). */
+  readonly firstStep: Int32Array;
+  /** The first of them: rows of the sweeps before it stay zero. */
   readonly first: number;
   /** The forward sweeps, n × m complex, row k = step k: w[2·(k·m + a)]. */
   readonly w: Float64Array;
-  /** Out: g[2·(a·m + b)] = e_aᵀ·A⁻¹·e_b for the unknowns a, b (symmetric, both halves filled). */
+  /** Out: g[2·(a·m + b)] = c_aᵀ·A⁻¹·c_b with c = e_plus − e_minus (symmetric, both halves filled). */
   readonly g: Float64Array;
 }
 
 /**
- * Prepares the port solve of `unknowns` with the factor `f`, or returns undefined where `f`'s
- * pivot rows are not its column order (a pivoting factorisation swapped rows: then U ≠ D·Lᵀ).
- * Whether A itself is symmetric is the caller's to know (see `StampPlan.symmetric`).
+ * Prepares the port solve with the factor `f` for ports between the unknowns `plus` and `minus`
+ * (GROUND = −1 for none), or returns undefined where `f`'s pivot rows are not its column order
+ * (a pivoting factorisation swapped rows: then U ≠ D·Lᵀ). Whether A itself is symmetric is the
+ * caller's to know (see `StampPlan.symmetric`).
+ *
+ * The sweeps run with the port vectors c = e_plus − e_minus themselves (not with unit vectors
+ * combined afterwards), so the difference of two large node voltages is never formed: with a node
+ * held to ground only weakly the voltages grow large while their differences stay small.
  */
-export function symmetricPorts(f: SparseFactor, unknowns: ArrayLike<number>): SymmetricPorts | undefined {
+export function symmetricPorts(f: SparseFactor, plus: ArrayLike<number>, minus: ArrayLike<number>): SymmetricPorts | undefined {
   const order = f.pattern.order;
-  for (let j = 0; j < f.n; j++) if (f.pivotRow[j] !== order[j]) return undefined;
-  const list = [...new Set(Array.from(unknowns).filter((u) => u >= 0))].sort((a, b) => f.pattern.stepOf[a]! - f.pattern.stepOf[b]!);
-  const m = list.length;
-  const steps = Int32Array.from(list, (u) => f.pattern.stepOf[u]!);
-  return {
-    m,
-    unknowns: Int32Array.from(list),
-    steps,
-    first: m > 0 ? steps[0]! : f.n,
-    w: new Float64Array(2 * f.n * m),
-    g: new Float64Array(2 * m * m),
-  };
+  const n = f.n;
+  for (let j = 0; j < n; j++) if (f.pivotRow[j] !== order[j]) return undefined;
+  const m = plus.length;
+  const stepOf = (u: number) => (u >= 0 ? f.pattern.stepOf[u]! : -1);
+  const plusStep = Int32Array.from(plus, stepOf);
+  const minusStep = Int32Array.from(minus, stepOf);
+  const firstStep = new Int32Array(m);
+  let first = n;
+  for (let a = 0; a < m; a++) {
+    const p = plusStep[a]!;
+    const q = minusStep[a]!;
+    firstStep[a] = p < 0 ? (q < 0 ? n : q) : q < 0 ? p : Math.min(p, q);
+    first = Math.min(first, firstStep[a]!);
+  }
+  return { m, plusStep, minusStep, firstStep, first, w: new Float64Array(2 * n * m), g: new Float64Array(2 * m * m) };
 }
 
 /**
- * Estimated work of the symmetric port solve of unknowns at these steps (sorted, as in
- * {@link SymmetricPorts}), in the units of a solve step per right-hand side: the forward sweeps
- * from the first step, and the sum of each pair from the later of its two steps.
+ * Estimated work of the symmetric port solve, in the units of a solve step per right-hand side:
+ * the forward sweeps from the first step, and the sum of each pair from the later of its two
+ * first steps.
  */
-export function symmetricPortsCost(lRowPtr: ArrayLike<number>, n: number, steps: ArrayLike<number>): number {
-  const m = steps.length;
-  if (m === 0) return 0;
-  const first = steps[0]!;
+export function symmetricPortsCost(f: SparseFactor, sp: SymmetricPorts): number {
+  const n = f.n;
+  const m = sp.m;
   let sums = 0;
-  for (let b = 0; b < m; b++) sums += (b + 1) * (n - steps[b]!);
-  return m * (lRowPtr[n]! - lRowPtr[first]! + (n - first)) + sums;
+  for (let a = 0; a < m; a++) for (let b = a; b < m; b++) sums += n - Math.max(sp.firstStep[a]!, sp.firstStep[b]!);
+  return m * (f.lRowPtr[n]! - f.lRowPtr[sp.first]! + (n - sp.first)) + sums;
 }
 
 /** Fills `sp.g` from the factor `f` (which must hold a successful factorisation of a symmetric A). */
@@ -82,21 +89,23 @@ export function solveSymmetricPorts(f: SparseFactor, sp: SymmetricPorts): void {
 
 // Index arithmetic in `<<` and `| 0`, as in solve.ts, keeps it in 32-bit integers.
 
-/** Two port unknowns: both sweeps carried in registers, row by row. */
+/** Two ports: both sweeps carried in registers, row by row. */
 function forwardPair(f: SparseFactor, sp: SymmetricPorts): void {
   const n = f.n | 0;
   const w = sp.w;
   const lu = f.lu;
   const lRowPtr = f.lRowPtr;
   const lRowIdx = f.lRowIdx;
-  const sa = sp.steps[0]! | 0;
-  const sb = sp.steps[1]! | 0;
+  const pa = sp.plusStep[0]! | 0;
+  const ma = sp.minusStep[0]! | 0;
+  const pb = sp.plusStep[1]! | 0;
+  const mb = sp.minusStep[1]! | 0;
   const first = sp.first | 0;
   let t0 = lRowPtr[first]! << 1;
   for (let i = first; i < n; i = (i + 1) | 0) {
-    let ar = i === sa ? 1 : 0;
+    let ar = i === pa ? 1 : i === ma ? -1 : 0;
     let ai = 0;
-    let br = i === sb ? 1 : 0;
+    let br = i === pb ? 1 : i === mb ? -1 : 0;
     let bi = 0;
     const t1 = lRowPtr[(i + 1) | 0]! << 1;
     for (let t = t0; t < t1; t = (t + 2) | 0) {
@@ -122,7 +131,7 @@ function forwardPair(f: SparseFactor, sp: SymmetricPorts): void {
   }
 }
 
-/** g = Wᵀ·D⁻¹·W for two unknowns: three sums in registers. */
+/** g = Wᵀ·D⁻¹·W for two ports: three sums in registers. */
 function sumsPair(f: SparseFactor, sp: SymmetricPorts): void {
   const n = f.n | 0;
   const w = sp.w;
@@ -165,7 +174,7 @@ function sumsPair(f: SparseFactor, sp: SymmetricPorts): void {
   g[7] = bbi;
 }
 
-/** Any number of unknowns, one row of all sweeps at a time. */
+/** Any number of ports, one row of all sweeps at a time. */
 function forwardAny(f: SparseFactor, sp: SymmetricPorts): void {
   const n = f.n | 0;
   const m = sp.m | 0;
@@ -173,12 +182,13 @@ function forwardAny(f: SparseFactor, sp: SymmetricPorts): void {
   const lu = f.lu;
   const lRowPtr = f.lRowPtr;
   const lRowIdx = f.lRowIdx;
-  const steps = sp.steps;
+  const plusStep = sp.plusStep;
+  const minusStep = sp.minusStep;
   const wb = (2 * m) | 0;
   for (let i = sp.first | 0; i < n; i = (i + 1) | 0) {
     const is = Math.imul(i, wb);
     for (let a = 0; a < m; a = (a + 1) | 0) {
-      w[(is + 2 * a) | 0] = steps[a] === i ? 1 : 0;
+      w[(is + 2 * a) | 0] = plusStep[a] === i ? 1 : minusStep[a] === i ? -1 : 0;
       w[(is + 2 * a + 1) | 0] = 0;
     }
     const t1 = lRowPtr[(i + 1) | 0]! << 1;
@@ -197,7 +207,7 @@ function forwardAny(f: SparseFactor, sp: SymmetricPorts): void {
   }
 }
 
-/** g = Wᵀ·D⁻¹·W, any number of unknowns; each pair summed from the later of its two steps. */
+/** g = Wᵀ·D⁻¹·W, any number of ports; each pair summed from the later of its two first steps. */
 function sumsAny(f: SparseFactor, sp: SymmetricPorts): void {
   const n = f.n | 0;
   const m = sp.m | 0;
@@ -209,7 +219,7 @@ function sumsAny(f: SparseFactor, sp: SymmetricPorts): void {
     for (let b = a; b < m; b++) {
       let sr = 0;
       let si = 0;
-      for (let k = sp.steps[b]! | 0; k < n; k = (k + 1) | 0) {
+      for (let k = Math.max(sp.firstStep[a]!, sp.firstStep[b]!) | 0; k < n; k = (k + 1) | 0) {
         const ks = Math.imul(k, wb);
         const qr = inv[k << 1]!;
         const qi = inv[(k << 1) | 1]!;
