@@ -131,7 +131,9 @@ async function one(kind, size) {
     setups.push(performance.now() - t0);
   }
   const single = (median(times) * 1000) / points;
-  const all = timesAll.length ? { usPerPoint: (median(timesAll) * 1000) / points, speedup: median(times) / median(timesAll), points } : undefined;
+  // the speed-up of each alternating pair of runs, then their median: the host's speed drifts
+  // from second to second, and a pair sees nearly the same host
+  const all = timesAll.length ? { usPerPoint: (median(timesAll) * 1000) / points, speedup: median(times.map((t, r) => t / timesAll[r])), points } : undefined;
   return { usPerPoint: single, all, setupMs: setups.length ? median(setups) : undefined, rssMB: process.resourceUsage().maxRSS / 1024, unknowns: circuit.nodeNames.length };
 }
 
@@ -218,18 +220,29 @@ const CHILD_RUNS = 3;
 const fmt = (x, d = 1) => (x === undefined ? '—' : x >= 100 ? x.toFixed(0) : x.toFixed(d));
 const rows = [];
 const results = {};
-for (const [label, kind, size] of [
+const workloads = [
   ['ladder N = 100', 'ladder', 100],
   ['ladder N = 1,000', 'ladder', 1000],
   ['ladder N = 10,000', 'ladder', 10000],
   ['RC mesh 30 × 30', 'mesh', 30],
   ['16-port data block', 'data16', 16],
   ['ladder N = 100,000 (101 points)', 'ladder', 100000],
-]) {
-  // Timings on this host differ from one process to the next (some run slow from start to end),
-  // so the smaller workloads run in three processes: each figure is the median of the three.
-  const runs = size < 10000 ? CHILD_RUNS : 1;
-  const rs = Array.from({ length: runs }, () => child(kind, size));
+];
+// Timings on this host differ from one process to the next, and the host has slow spells of a
+// minute or so, so the smaller workloads run in three processes each, taken in rounds (every
+// workload once, then again), so that one slow spell does not take all three of one workload:
+// each figure is the median of the three.
+const runsOf = new Map(workloads.map(([label]) => [label, []]));
+for (let round = 0; round < CHILD_RUNS; round++) {
+  for (const [label, kind, size] of workloads) {
+    const runs = size < 10000 ? CHILD_RUNS : 1;
+    if (round >= runs) continue;
+    runsOf.get(label).push(child(kind, size));
+    if (runsOf.get(label).length === runs) process.stderr.write(`${label}: done\n`);
+  }
+}
+for (const [label, kind, size] of workloads) {
+  const rs = runsOf.get(label);
   const mid = (f) => median(rs.map(f));
   const r = {
     usPerPoint: mid((x) => x.usPerPoint),
@@ -239,7 +252,6 @@ for (const [label, kind, size] of [
   };
   results[`${kind}${size}`] = r;
   rows.push([label, fmt(r.usPerPoint), r.all ? fmt(r.all.usPerPoint) : '—', r.all ? `${r.all.speedup.toFixed(2)}×` : '—', fmt(r.setupMs), fmt(r.rssMB, 0)]);
-  process.stderr.write(`${label}: done\n`);
 }
 const base = child('mathjs', 100);
 const cal = await calibrate();
