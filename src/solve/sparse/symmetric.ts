@@ -89,7 +89,12 @@ export function solveSymmetricPorts(f: SparseFactor, sp: SymmetricPorts): void {
 
 // Index arithmetic in `<<` and `| 0`, as in solve.ts, keeps it in 32-bit integers.
 
-/** Two ports: both sweeps carried in registers, row by row. */
+/**
+ * Two ports: both sweeps carried in registers, row by row. (The shape of `forwardTwo` in
+ * solve.ts, but with the port vectors' ±1 as constants instead of reading a right-hand side by
+ * pivot row: measured, interleaved in one process, the shared sweep made the 1,000-section
+ * ladder about 7 % slower a point.)
+ */
 function forwardPair(f: SparseFactor, sp: SymmetricPorts): void {
   const n = f.n | 0;
   const w = sp.w;
