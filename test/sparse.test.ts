@@ -126,17 +126,8 @@ function randomGeneral(seed: number): System {
   return { n, slotRow: Int32Array.from(rows), slotCol: Int32Array.from(cols), values: Float64Array.from(vals) };
 }
 
-/**
- * Nodal (MNA-like) system: `nodes` node unknowns with conductances and capacitive admittances between
- * random node pairs and to ground (a spanning tree to ground keeps it regular), plus branch unknowns
- * with ±1 incidence entries and a branch row v_a − v_b − z·i = 0 whose z is zero (an ideal short,
- * a structurally present but zero diagonal) or small, which needs pivoting.
- */
-function randomNodal(seed: number): System {
-  const r = rng(seed);
-  const nodes = 2 + Math.floor(r() * 30);
-  const branches = 1 + Math.floor(r() * Math.max(1, nodes / 2));
-  const n = nodes + branches;
+/** Slot lists being built: `put` one entry, or the four entries of an admittance between a and b (−1: ground). */
+function slotLists() {
   const rows: number[] = [];
   const cols: number[] = [];
   const vals: number[] = [];
@@ -153,6 +144,22 @@ function randomNodal(seed: number): System {
       put(b, a, -g, -bb);
     }
   };
+  const system = (n: number): System => ({ n, slotRow: Int32Array.from(rows), slotCol: Int32Array.from(cols), values: Float64Array.from(vals) });
+  return { put, admittance, system };
+}
+
+/**
+ * Nodal (MNA-like) system: `nodes` node unknowns with conductances and capacitive admittances between
+ * random node pairs and to ground (a spanning tree to ground keeps it regular), plus branch unknowns
+ * with ±1 incidence entries and a branch row v_a − v_b − z·i = 0 whose z is zero (an ideal short,
+ * a structurally present but zero diagonal) or small, which needs pivoting.
+ */
+function randomNodal(seed: number): System {
+  const r = rng(seed);
+  const nodes = 2 + Math.floor(r() * 30);
+  const branches = 1 + Math.floor(r() * Math.max(1, nodes / 2));
+  const n = nodes + branches;
+  const { put, admittance, system } = slotLists();
   for (let i = 0; i < nodes; i++) {
     const to = i === 0 || r() < 0.3 ? -1 : Math.floor(r() * i); // tree: to ground or an earlier node
     admittance(i, to, 0.01 + r(), (r() - 0.3) * 0.5);
@@ -177,7 +184,7 @@ function randomNodal(seed: number): System {
     const z = r() < 0.5 ? 0 : 1e-3 * r();
     put(i, i, -z, -z * r());
   }
-  return { n, slotRow: Int32Array.from(rows), slotCol: Int32Array.from(cols), values: Float64Array.from(vals) };
+  return system(n);
 }
 
 function randomRhs(n: number, nrhs: number, seed: number): Float64Array {
@@ -745,22 +752,7 @@ describe('condition estimate [HAGER]', () => {
 function randomSymmetric(seed: number): System {
   const r = rng(seed);
   const n = 1 + Math.floor(r() * 45);
-  const rows: number[] = [];
-  const cols: number[] = [];
-  const vals: number[] = [];
-  const put = (i: number, j: number, re: number, im: number) => {
-    rows.push(i);
-    cols.push(j);
-    vals.push(re, im);
-  };
-  const admittance = (a: number, b: number, g: number, bb: number) => {
-    put(a, a, g, bb);
-    if (b >= 0) {
-      put(b, b, g, bb);
-      put(a, b, -g, -bb);
-      put(b, a, -g, -bb);
-    }
-  };
+  const { admittance, system } = slotLists();
   for (let i = 0; i < n; i++) admittance(i, i === 0 || r() < 0.3 ? -1 : Math.floor(r() * i), 0.01 + r(), (r() - 0.3) * 0.5);
   const more = Math.floor(r() * 2 * n);
   for (let k = 0; k < more; k++) {
@@ -768,7 +760,7 @@ function randomSymmetric(seed: number): System {
     const b = Math.floor(r() * n);
     if (a !== b) admittance(a, b, 0.01 + r(), (r() - 0.5) * 0.5);
   }
-  return { n, slotRow: Int32Array.from(rows), slotCol: Int32Array.from(cols), values: Float64Array.from(vals) };
+  return system(n);
 }
 
 describe('symmetric port solve [LDLT]', () => {
