@@ -6,6 +6,24 @@ import { loadNetlist } from '../src/load.js';
 import { buildPlan } from '../src/plan/plan.js';
 import { chooseSolver, solveSweep, SweepRunner } from '../src/solve/sweep.js';
 
+/** One part of a random circuit: its kind, name, terminals, and u in [0, 1] setting its value. */
+function partLine(kind: string, name: string, a: string, b: string, u: number): string {
+  switch (kind) {
+    case 'r':
+      return `resistor ${name} a=${a} b=${b} value=${(10 * Math.pow(100, u)).toPrecision(6)} ohm`;
+    case 'l':
+      return `inductor ${name} a=${a} b=${b} value=${(1 * Math.pow(1000, u)).toPrecision(6)} nH q=50 at 1 GHz`;
+    case 'c':
+      return `capacitor ${name} a=${a} b=${b} value=${(0.1 * Math.pow(1000, u)).toPrecision(6)} pF esr=0.2 ohm`;
+    case 'g':
+      return `conductance ${name} a=${a} b=${b} value=${(1 * Math.pow(100, u)).toPrecision(6)} mS`;
+    case 'gm':
+      return `transconductance ${name} p=${a} n=${b} cp=${b} cn=ground gm=${(1 + 20 * u).toPrecision(4)} mS`;
+    default:
+      return `line ${name} a=${a} b=${b} z0=${(30 + 70 * u).toPrecision(4)} ohm theta=${(10 + 170 * u).toPrecision(4)} deg at 1 GHz`;
+  }
+}
+
 /** A random connected circuit: a spanning tree to ground plus extra parts, of every lumped kind and a few active ones. */
 const circuitText = fc
   .record({
@@ -19,23 +37,7 @@ const circuitText = fc
     const node = (i: number) => (i < 0 ? 'ground' : `n${i}`);
     const lines: string[] = [];
     let k = 0;
-    const part = (kind: string, a: string, b: string, u: number) => {
-      const name = `${kind}${k++}`;
-      switch (kind) {
-        case 'r':
-          return `resistor ${name} a=${a} b=${b} value=${(10 * Math.pow(100, u)).toPrecision(6)} ohm`;
-        case 'l':
-          return `inductor ${name} a=${a} b=${b} value=${(1 * Math.pow(1000, u)).toPrecision(6)} nH q=50 at 1 GHz`;
-        case 'c':
-          return `capacitor ${name} a=${a} b=${b} value=${(0.1 * Math.pow(1000, u)).toPrecision(6)} pF esr=0.2 ohm`;
-        case 'g':
-          return `conductance ${name} a=${a} b=${b} value=${(1 * Math.pow(100, u)).toPrecision(6)} mS`;
-        case 'gm':
-          return `transconductance ${name} p=${a} n=${b} cp=${b} cn=ground gm=${(1 + 20 * u).toPrecision(4)} mS`;
-        default:
-          return `line ${name} a=${a} b=${b} z0=${(30 + 70 * u).toPrecision(4)} ohm theta=${(10 + 170 * u).toPrecision(4)} deg at 1 GHz`;
-      }
-    };
+    const part = (kind: string, a: string, b: string, u: number) => partLine(kind, `${kind}${k++}`, a, b, u);
     for (let i = 0; i < nodes; i++) {
       const [to, kind] = tree[i]!;
       lines.push(part(kind, node(i), node(i === 0 ? -1 : to % i === 0 ? -1 : (to % i) - 1), (to % 97) / 97));
@@ -69,13 +71,7 @@ const reciprocalText = fc
     const node = (i: number) => (i < 0 ? 'ground' : `n${i}`);
     const lines: string[] = [];
     let k = 0;
-    const part = (kind: string, a: string, b: string, u: number) => {
-      const name = `${kind}${k++}`;
-      if (kind === 'r') return `resistor ${name} a=${a} b=${b} value=${(10 * Math.pow(100, u)).toPrecision(6)} ohm`;
-      if (kind === 'l') return `inductor ${name} a=${a} b=${b} value=${Math.pow(1000, u).toPrecision(6)} nH q=50 at 1 GHz`;
-      if (kind === 'c') return `capacitor ${name} a=${a} b=${b} value=${(0.1 * Math.pow(1000, u)).toPrecision(6)} pF esr=0.2 ohm`;
-      return `conductance ${name} a=${a} b=${b} value=${Math.pow(100, u).toPrecision(6)} mS`;
-    };
+    const part = (kind: string, a: string, b: string, u: number) => partLine(kind, `${kind}${k++}`, a, b, u);
     for (let i = 0; i < nodes; i++) {
       const [to, kind, u] = tree[i]!;
       lines.push(part(kind, node(i), node(i === 0 || to % 3 === 0 ? -1 : to % i), u));
