@@ -30,6 +30,9 @@
  *   the LU factors), so c_aᵀ·A⁻¹·c_b = (L⁻¹c_a)ᵀ·D⁻¹·(L⁻¹c_b) — common practice (the LDLᵀ form);
  *   checked against the dense inverse of src/network/complex.ts: each entry is a sum of four
  *   entries of A⁻¹, so 4 × [AGREE]'s 1e-10 of the largest.
+ * - [TWIN] IEEE 754 arithmetic is deterministic: the same operations on the same operands in the
+ *   same order give the same bits (IEEE Std 754-2019, correctly rounded basic operations — common
+ *   practice), so two matrices eliminated in one loop must give each the factors it gets alone.
  * - [SINGULAR] a matrix with a zero column, or with two columns that are multiples of the same unit
  *   vector, is singular (rank deficient) — common practice. At 0 Hz a capacitor is open, so a node
  *   joined only through capacitors has an all-zero nodal column (common practice).
@@ -55,9 +58,13 @@ import {
   reciprocalCondition,
   refactor,
   refactorOrFactor,
+  refactorPlacedTwo,
+  refactorTwo,
   SINGULAR,
   solve,
   solveConjTransposed,
+  twinFactor,
+  type SparseFactor,
   type SparsePattern,
 } from '../src/solve/sparse/index.js';
 import { loadNetlist } from '../src/load.js';
@@ -598,6 +605,91 @@ describe('refactor', () => {
     expect(maxDiff(x, denseSolve(n, a2, b, 2))).toBeLessThanOrEqual(1e-10 * maxAbs(x));
     // and back: the swapped sequence still serves the first values
     expect(refactor(f, v1)).toBe(OK);
+  });
+});
+
+describe('two matrices at once [TWIN]', () => {
+  /** The numbers a later solve reads, copied: the entries, the pivot reciprocals, the pivot spread. */
+  const snapshot = (f: SparseFactor) => ({
+    lu: Array.from(f.lu.subarray(0, 2 * f.entries)),
+    pivotInv: Array.from(f.pivotInv),
+    spread: [f.pivotMin, f.pivotMax],
+  });
+
+  it('refactorTwo gives each matrix the factors refactor gives it alone, to the bit; false exactly when either alone fails', () => {
+    let both = 0;
+    let declined = 0;
+    fc.assert(
+      fc.property(fc.integer({ min: 1, max: 2 ** 31 - 1 }), fc.boolean(), (seed, general) => {
+        // general patterns have weak diagonals, so that some refactorisations fail their pivots
+        const s = general ? randomGeneral(seed) : randomNodal(seed);
+        const f = createFactor(analyse(s.n, s.slotRow, s.slotCol));
+        if (factor(f, s.values) !== OK) return;
+        const g = twinFactor(f);
+        const r = rng(seed ^ 0x5bd1e995);
+        const spread = general ? 4 : 0.4; // general: factors from −1 to 3, signs flip
+        const va = s.values.map((v) => v * (1 - spread / 2 + spread * r()));
+        const vb = s.values.map((v) => v * (1 - spread / 2 + spread * r()));
+        const alone = [va, vb].map((v) => {
+          const status = refactor(f, v);
+          return { status, ...snapshot(f) };
+        });
+        const ok = refactorTwo(f, g, va, vb);
+        expect(ok).toBe(alone[0]!.status === OK && alone[1]!.status === OK);
+        expect(f.valid).toBe(ok);
+        expect(g.valid).toBe(ok);
+        if (!ok) {
+          declined++;
+          expect(f.status).toBe(NEEDS_PIVOTING);
+          expect(() => solve(g, new Float64Array(2 * s.n), new Float64Array(2 * s.n), 1)).toThrow();
+          return;
+        }
+        both++;
+        expect(snapshot(f)).toEqual({ lu: alone[0]!.lu, pivotInv: alone[0]!.pivotInv, spread: alone[0]!.spread });
+        expect(snapshot(g)).toEqual({ lu: alone[1]!.lu, pivotInv: alone[1]!.pivotInv, spread: alone[1]!.spread });
+        // the twin solves and estimates its condition as the original does with the same values
+        const b = randomRhs(s.n, 2, seed);
+        const x = new Float64Array(b.length);
+        solve(g, b, x, 2);
+        const rg = reciprocalCondition(g);
+        expect(refactor(f, vb)).toBe(OK);
+        const y = new Float64Array(b.length);
+        solve(f, b, y, 2);
+        expect(Array.from(x)).toEqual(Array.from(y));
+        expect(rg).toBe(reciprocalCondition(f));
+      }),
+      FC,
+    );
+    expect(both).toBeGreaterThan(FC.numRuns / 3);
+    expect(declined).toBeGreaterThan(5);
+  });
+
+  it('values already in place (refactorPlacedTwo) as refactorTwo; a twin is refused once the original records a new sequence', () => {
+    const s = randomNodal(4242);
+    const f = createFactor(analyse(s.n, s.slotRow, s.slotCol));
+    expect(factor(f, s.values)).toBe(OK);
+    const g = twinFactor(f);
+    const vb = s.values.map((v, k) => v * (1 + 0.01 * (k % 7)));
+    expect(refactorTwo(f, g, s.values, vb)).toBe(true);
+    const want = [snapshot(f), snapshot(g)];
+    // lay the entries out as refactorTwo does (their values in place, fill-in zero), then eliminate
+    expect(refactor(f, s.values)).toBe(OK);
+    f.lu.fill(0);
+    g.lu.fill(0);
+    for (let k = 0; k < f.slotTarget.length; k++) {
+      const e = f.slotTarget[k]!;
+      f.lu[e] += s.values[2 * k]!;
+      f.lu[e + 1] += s.values[2 * k + 1]!;
+      g.lu[e] += vb[2 * k]!;
+      g.lu[e + 1] += vb[2 * k + 1]!;
+    }
+    expect(refactorPlacedTwo(f, g)).toBe(true);
+    expect([snapshot(f), snapshot(g)]).toEqual(want);
+    expect(() => factor(g, vb)).toThrow(/twin/);
+    expect(twinFactor(g).twinOf).toBe(f);
+    expect(factor(f, vb)).toBe(OK);
+    expect(() => refactorTwo(f, g, s.values, vb)).toThrow(/twin/);
+    expect(refactorTwo(f, twinFactor(f), s.values, vb)).toBe(true);
   });
 });
 

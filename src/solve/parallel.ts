@@ -81,7 +81,8 @@ export async function solveSweepParallel(circuit: Circuit, options: ParallelOpti
   const total = freqs.length;
   const p = circuit.ports.length;
   // about 64 chunks a thread: fine enough to even out, coarse enough that claiming costs nothing
-  const chunk = Math.max(8, Math.ceil(total / (64 * jobs)));
+  // (an even count: a thread factors its points two at a time)
+  const chunk = 2 * Math.max(4, Math.ceil(total / (128 * jobs)));
   const shared = {
     out: new SharedArrayBuffer(8 * 2 * p * p * total),
     counter: new SharedArrayBuffer(8),

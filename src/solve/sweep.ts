@@ -13,6 +13,9 @@ import {
   reciprocalCondition,
   refactor as sparseRefactor,
   refactorPlaced as sparseRefactorPlaced,
+  refactorPlacedTwo,
+  refactorTwo,
+  twinFactor,
   solve as sparseSolve,
   solveRange as sparseSolveRange,
   type SparsePattern,
@@ -105,6 +108,15 @@ interface LinearEngine {
    * and factors; returns -1 on success, else the unknown to blame (or -2: ill-conditioned).
    */
   stampFactor(omega: number, vals: Float64Array): number;
+  /**
+   * Stamps and factors two points at once where the engine can (see `refactorPlacedTwo`). True
+   * when both succeeded: {@link portVoltages} and {@link lastRcond} then serve the first, and
+   * after {@link second} the second. False: nothing is kept; take the two points one at a time
+   * (which also tells which failed and why). Results are the same to the bit either way.
+   */
+  stampFactorTwo(omegaA: number, omegaB: number, vals: Float64Array): boolean;
+  /** After a successful {@link stampFactorTwo}: turns to its second point. */
+  second(): void;
   /** The condition estimate of the last factorisation, where it was computed (else NaN). */
   lastRcond: number;
   /**
@@ -148,6 +160,10 @@ class DenseEngine implements LinearEngine {
     this.lastRcond = rcondEstimate(this.lu);
     return this.lastRcond < SINGULAR_RCOND ? -2 : -1;
   }
+  stampFactorTwo(): boolean {
+    return false;
+  }
+  second(): void {}
   portVoltages(rhs: Float64Array, x: Float64Array, v: Float64Array): void {
     const p = this.plan.portPlus.length;
     luSolve(this.lu, rhs, x, p);
@@ -161,6 +177,9 @@ class DenseEngine implements LinearEngine {
     return luSolve(this.lu, b, new Float64Array(2 * n), 1);
   }
 }
+
+/** After a pair of points failed to factor together, this many pairs are taken one point at a time. */
+const PAIR_SKIP = 8;
 
 /**
  * The sparse engine. Its pivot order is fixed once, by a pivoting factorisation at one reference
@@ -192,6 +211,17 @@ class SparseEngine implements LinearEngine {
    * it is estimated cheaper than the forward and backward sweeps.
    */
   private readonly sym: SymmetricPorts | undefined;
+  /**
+   * For factoring two points at once: a twin of the main factor (its own values on the same
+   * sequence), its symmetric port solve, its slot values, and its condition estimate. Undefined
+   * where the reference factorisation failed or keeps no update list.
+   */
+  private readonly twin: SparseFactor | undefined;
+  private readonly symB: SymmetricPorts | undefined;
+  private readonly valsB: Float64Array;
+  private lastRcondB = NaN;
+  /** Pairs still to be skipped after a pair failed (points that need pivoting tend to come in runs). */
+  private pairSkip = 0;
   constructor(
     private readonly plan: StampPlan,
     reference: Float64Array | undefined,
@@ -218,6 +248,9 @@ class SparseEngine implements LinearEngine {
     const sym = plan.symmetric && reference && this.main.valid ? symmetricPorts(this.main, plan.portPlus, plan.portMinus) : undefined;
     if (sym && symmetricPortsCost(this.main, sym) <= solveCost(this.main, this.mainRange, nrhs)) this.sym = sym;
     this.method = this.sym ? 'sparse-symmetric' : 'sparse';
+    this.twin = this.main.valid && this.main.useUpdateList ? twinFactor(this.main) : undefined;
+    this.symB = this.sym && this.twin ? symmetricPorts(this.twin, plan.portPlus, plan.portMinus) : undefined;
+    this.valsB = new Float64Array(this.twin ? 2 * plan.slotRow.length : 0);
     if (plan.stampers.length === 0) {
       const target = this.main.slotTarget;
       const image = new Float64Array(2 * this.main.entries);
@@ -262,12 +295,63 @@ class SparseEngine implements LinearEngine {
     this.lastRcond = reciprocalCondition(used);
     return this.lastRcond < SINGULAR_RCOND ? -2 : -1;
   }
+  stampFactorTwo(omegaA: number, omegaB: number, vals: Float64Array): boolean {
+    const twin = this.twin;
+    if (!twin) return false;
+    if (this.pairSkip > 0) {
+      this.pairSkip--;
+      return false;
+    }
+    const main = this.main;
+    const plan = this.plan;
+    const valsB = this.valsB;
+    this.used = main;
+    this.range = this.mainRange;
+    this.lastRcond = NaN;
+    this.lastRcondB = NaN;
+    const direct = this.direct;
+    let ok: boolean;
+    if (direct) {
+      main.lu.set(direct.image);
+      direct.batch?.stamp(omegaA, main.lu);
+      twin.lu.set(direct.image);
+      direct.batch?.stamp(omegaB, twin.lu);
+      ok = refactorPlacedTwo(main, twin);
+    } else {
+      stampAt(plan, omegaA, vals);
+      stampAt(plan, omegaB, valsB);
+      ok = refactorTwo(main, twin, vals, valsB);
+    }
+    if (ok && main.pivotMin < PIVOT_SPREAD_CHECK * main.pivotMax) {
+      if (direct) {
+        stampAt(plan, omegaA, vals);
+        main.lastValues = vals;
+      }
+      this.lastRcond = reciprocalCondition(main);
+      ok = this.lastRcond >= SINGULAR_RCOND;
+    }
+    if (ok && twin.pivotMin < PIVOT_SPREAD_CHECK * twin.pivotMax) {
+      if (direct) {
+        stampAt(plan, omegaB, valsB);
+        twin.lastValues = valsB;
+      }
+      this.lastRcondB = reciprocalCondition(twin);
+      ok = this.lastRcondB >= SINGULAR_RCOND;
+    }
+    if (!ok) this.pairSkip = PAIR_SKIP;
+    return ok;
+  }
+  second(): void {
+    this.used = this.twin!;
+    this.lastRcond = this.lastRcondB;
+  }
   portVoltages(rhs: Float64Array, x: Float64Array, v: Float64Array): void {
     const plan = this.plan;
     const p = plan.portPlus.length;
-    const sym = this.sym;
-    if (sym && this.used === this.main) {
-      solveSymmetricPorts(this.main, sym);
+    const used = this.used;
+    const sym = used === this.main ? this.sym : used === this.twin ? this.symB : undefined;
+    if (sym) {
+      solveSymmetricPorts(used, sym);
       // right-hand side j is drive_j·c_j: v_ij = (c_iᵀ·A⁻¹·c_j)·drive_j
       const g = sym.g;
       for (let j = 0; j < p; j++) {
@@ -547,43 +631,63 @@ interface PointLoop {
 /**
  * The per-frequency loop: stamp, factor, solve, and S from the port voltages. A function of its
  * own (not the body of solveSweep), so that the JIT optimises it once and keeps it over sweeps.
- * Solves the points k0 ≤ k < k1. Returns −1, or the index of the point whose system could not be
- * solved.
+ * Solves the points k0 ≤ k < k1, two at a time where the engine can factor two together (the
+ * same results to the bit as one at a time). Returns −1, or the index of the point whose system
+ * could not be solved.
  */
 function runPoints(L: PointLoop, k0: number, k1: number): number {
-  const { engine, freqs, vals, rhs, x, v, out, p, invSqrtRef, complexRefs, kr, ki, dr, di } = L;
+  const { engine, freqs, vals } = L;
   const total = freqs.length;
-  for (let k = k0; k < k1; k++) {
+  let k = k0;
+  while (k < k1) {
+    if (k + 1 < k1 && engine.stampFactorTwo(2 * Math.PI * freqs[k]!, 2 * Math.PI * freqs[k + 1]!, vals)) {
+      finishPoint(L, k);
+      engine.second();
+      finishPoint(L, k + 1);
+      if (L.onProgress) {
+        L.onProgress(k + 1, total);
+        L.onProgress(k + 2, total);
+      }
+      k += 2;
+      continue;
+    }
     const status = engine.stampFactor(2 * Math.PI * freqs[k]!, vals);
     if (status !== -1) {
       L.failStatus = status;
       return k;
     }
-    if (engine.lastRcond < L.worstRcond) {
-      L.worstRcond = engine.lastRcond;
-      L.worstAt = freqs[k]!;
-    }
-    engine.portVoltages(rhs, x, v);
-    const base = 2 * p * p * k;
-    for (let i = 0; i < p; i++) {
-      const inv = invSqrtRef[i]!;
-      for (let j = 0; j < p; j++) {
-        const q = 2 * (i * p + j);
-        const vr = v[q]!;
-        const vi = v[q + 1]!;
-        const o = base + q;
-        if (complexRefs) {
-          out[o] = vr * kr[i]! - vi * ki[i]! - (i === j ? dr[i]! : 0);
-          out[o + 1] = vr * ki[i]! + vi * kr[i]! - (i === j ? di[i]! : 0);
-        } else {
-          out[o] = vr * inv - (i === j ? 1 : 0);
-          out[o + 1] = vi * inv;
-        }
-      }
-    }
+    finishPoint(L, k);
     if (L.onProgress) L.onProgress(k + 1, total);
+    k++;
   }
   return -1;
+}
+
+/** For point k, factored: notes its condition estimate, solves for the port voltages, writes S. */
+function finishPoint(L: PointLoop, k: number): void {
+  const { engine, rhs, x, v, out, p, invSqrtRef, complexRefs, kr, ki, dr, di } = L;
+  if (engine.lastRcond < L.worstRcond) {
+    L.worstRcond = engine.lastRcond;
+    L.worstAt = L.freqs[k]!;
+  }
+  engine.portVoltages(rhs, x, v);
+  const base = 2 * p * p * k;
+  for (let i = 0; i < p; i++) {
+    const inv = invSqrtRef[i]!;
+    for (let j = 0; j < p; j++) {
+      const q = 2 * (i * p + j);
+      const vr = v[q]!;
+      const vi = v[q + 1]!;
+      const o = base + q;
+      if (complexRefs) {
+        out[o] = vr * kr[i]! - vi * ki[i]! - (i === j ? dr[i]! : 0);
+        out[o + 1] = vr * ki[i]! + vi * kr[i]! - (i === j ? di[i]! : 0);
+      } else {
+        out[o] = vr * inv - (i === j ? 1 : 0);
+        out[o + 1] = vi * inv;
+      }
+    }
+  }
 }
 
 /** Elements with data over a limited band (measured files) must cover every frequency asked for. */
