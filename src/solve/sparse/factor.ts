@@ -854,6 +854,9 @@ function eliminateByList(f: SparseFactor): number {
   const limit = 1 / f.refactorTolerance;
   let t = 0;
   let c0 = colPtr[0]! | 0;
+  // the pivot spread as it goes (as pivotSpread would find it afterwards)
+  let lo = Infinity;
+  let hi = 0;
   for (let j = 0; j < n; j = (j + 1) | 0) {
     const dp = diagPos[j]! | 0;
     for (let p = c0; p < dp; p = (p + 1) | 0) {
@@ -877,6 +880,8 @@ function eliminateByList(f: SparseFactor): number {
     const dr = lu[d2]!;
     const di = lu[d2 | 1]!;
     const s = Math.abs(dr) + Math.abs(di);
+    if (s < lo) lo = s;
+    if (s > hi) hi = s;
     let qr: number;
     let qi: number;
     if (s > 1e-150 && s < 1e150) {
@@ -907,7 +912,8 @@ function eliminateByList(f: SparseFactor): number {
     if (bad) return j;
     c0 = c1;
   }
-  pivotSpread(f);
+  f.pivotMin = lo;
+  f.pivotMax = hi;
   return -1;
 }
 
@@ -928,6 +934,11 @@ function eliminateTwoByList(f: SparseFactor, g: SparseFactor): number {
   const limit = 1 / f.refactorTolerance;
   let t = 0;
   let c0 = colPtr[0]! | 0;
+  // the pivot spreads as it goes (as pivotSpread would find them afterwards)
+  let loA = Infinity;
+  let hiA = 0;
+  let loB = Infinity;
+  let hiB = 0;
   for (let j = 0; j < n; j = (j + 1) | 0) {
     const dp = diagPos[j]! | 0;
     for (let p = c0; p < dp; p = (p + 1) | 0) {
@@ -959,6 +970,10 @@ function eliminateTwoByList(f: SparseFactor, g: SparseFactor): number {
     const ei = lv[d2 | 1]!;
     const s = Math.abs(dr) + Math.abs(di);
     const sb = Math.abs(er) + Math.abs(ei);
+    if (s < loA) loA = s;
+    if (s > hiA) hiA = s;
+    if (sb < loB) loB = sb;
+    if (sb > hiB) hiB = sb;
     let qr: number;
     let qi: number;
     let pr: number;
@@ -1008,8 +1023,10 @@ function eliminateTwoByList(f: SparseFactor, g: SparseFactor): number {
     if (bad) return j;
     c0 = c1;
   }
-  pivotSpread(f);
-  pivotSpread(g);
+  f.pivotMin = loA;
+  f.pivotMax = hiA;
+  g.pivotMin = loB;
+  g.pivotMax = hiB;
   return -1;
 }
 
