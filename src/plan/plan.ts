@@ -297,6 +297,8 @@ interface KernelSlots {
  */
 export class AdmittanceBatch {
   private readonly y: Float64Array;
+  /** The admittances at the second frequency of {@link stampTwo} (made on first use). */
+  private yB: Float64Array | undefined;
   constructor(
     private readonly groups: KernelGroup[],
     /** 2·admittance index of each four-slot admittance. */
@@ -368,6 +370,72 @@ export class AdmittanceBatch {
       const a = mi[t + 1]!;
       v[s] -= y[a]!;
       v[s + 1] -= y[a + 1]!;
+    }
+  }
+
+  /**
+   * {@link stamp} at two frequencies at once, `omegaA` into `v` and `omegaB` into `u`: one pass
+   * over the slot lists for both (each array gets exactly the additions {@link stamp} makes).
+   */
+  stampTwo(omegaA: number, omegaB: number, v: Float64Array, u: Float64Array): void {
+    const y = this.y;
+    const z = (this.yB ??= new Float64Array(y.length));
+    const groups = this.groups;
+    for (let g = 0; g < groups.length; g++) {
+      const k = groups[g]!;
+      k.kernel.run(omegaA, k.params, k.count, y, k.offset);
+      k.kernel.run(omegaB, k.params, k.count, z, k.offset);
+    }
+    const qy = this.quadY;
+    const qs = this.quadSlots;
+    const nq = qy.length | 0;
+    for (let e = 0; e < nq; e = (e + 1) | 0) {
+      const a = qy[e]! | 0;
+      const yr = y[a]!;
+      const yi = y[a | 1]!;
+      const zr = z[a]!;
+      const zi = z[a | 1]!;
+      const q = e << 2;
+      const s0 = qs[q]! | 0;
+      const s1 = qs[q | 1]! | 0;
+      const s2 = qs[q | 2]! | 0;
+      const s3 = qs[q | 3]! | 0;
+      v[s0] += yr;
+      v[s0 | 1] += yi;
+      v[s1] += yr;
+      v[s1 | 1] += yi;
+      v[s2] -= yr;
+      v[s2 | 1] -= yi;
+      v[s3] -= yr;
+      v[s3 | 1] -= yi;
+      u[s0] += zr;
+      u[s0 | 1] += zi;
+      u[s1] += zr;
+      u[s1 | 1] += zi;
+      u[s2] -= zr;
+      u[s2 | 1] -= zi;
+      u[s3] -= zr;
+      u[s3 | 1] -= zi;
+    }
+    const pl = this.plus;
+    const np = pl.length;
+    for (let t = 0; t < np; t += 2) {
+      const s = pl[t]!;
+      const a = pl[t + 1]!;
+      v[s] += y[a]!;
+      v[s + 1] += y[a + 1]!;
+      u[s] += z[a]!;
+      u[s + 1] += z[a + 1]!;
+    }
+    const mi = this.minus;
+    const nm = mi.length;
+    for (let t = 0; t < nm; t += 2) {
+      const s = mi[t]!;
+      const a = mi[t + 1]!;
+      v[s] -= y[a]!;
+      v[s + 1] -= y[a + 1]!;
+      u[s] -= z[a]!;
+      u[s + 1] -= z[a + 1]!;
     }
   }
 }

@@ -313,9 +313,8 @@ class SparseEngine implements LinearEngine {
     let ok: boolean;
     if (direct) {
       main.lu.set(direct.image);
-      direct.batch?.stamp(omegaA, main.lu);
       twin.lu.set(direct.image);
-      direct.batch?.stamp(omegaB, twin.lu);
+      direct.batch?.stampTwo(omegaA, omegaB, main.lu, twin.lu);
       ok = refactorPlacedTwo(main, twin);
     } else {
       stampAt(plan, omegaA, vals);
