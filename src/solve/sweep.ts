@@ -321,24 +321,26 @@ class SparseEngine implements LinearEngine {
       stampAt(plan, omegaB, valsB);
       ok = refactorTwo(main, twin, vals, valsB);
     }
-    if (ok && main.pivotMin < PIVOT_SPREAD_CHECK * main.pivotMax) {
-      if (direct) {
-        stampAt(plan, omegaA, vals);
-        main.lastValues = vals;
-      }
-      this.lastRcond = reciprocalCondition(main);
-      ok = this.lastRcond >= SINGULAR_RCOND;
-    }
-    if (ok && twin.pivotMin < PIVOT_SPREAD_CHECK * twin.pivotMax) {
-      if (direct) {
-        stampAt(plan, omegaB, valsB);
-        twin.lastValues = valsB;
-      }
-      this.lastRcondB = reciprocalCondition(twin);
-      ok = this.lastRcondB >= SINGULAR_RCOND;
+    if (ok) {
+      this.lastRcond = this.wideSpreadRcond(main, omegaA, vals);
+      this.lastRcondB = this.wideSpreadRcond(twin, omegaB, valsB);
+      // (NaN: not estimated)
+      ok = !(this.lastRcond < SINGULAR_RCOND) && !(this.lastRcondB < SINGULAR_RCOND);
     }
     if (!ok) this.pairSkip = PAIR_SKIP;
     return ok;
+  }
+  /**
+   * The condition estimate of the factorisation in `f` (at omega) where its pivots spread wide,
+   * else NaN; the slot values it needs are built first where the stamps went straight into `f`.
+   */
+  private wideSpreadRcond(f: SparseFactor, omega: number, vals: Float64Array): number {
+    if (f.pivotMin >= PIVOT_SPREAD_CHECK * f.pivotMax) return NaN;
+    if (this.direct) {
+      stampAt(this.plan, omega, vals);
+      f.lastValues = vals;
+    }
+    return reciprocalCondition(f);
   }
   second(): void {
     this.used = this.twin!;
