@@ -178,7 +178,7 @@ class DenseEngine implements LinearEngine {
   }
 }
 
-/** After a pair of points failed to factor together, this many pairs are taken one point at a time. */
+/** After a pair of points failed to factor together, the next this many points are taken one at a time. */
 const PAIR_SKIP = 8;
 
 /**
@@ -220,7 +220,7 @@ class SparseEngine implements LinearEngine {
   private readonly symB: SymmetricPorts | undefined;
   private readonly valsB: Float64Array;
   private lastRcondB = NaN;
-  /** Pairs still to be skipped after a pair failed (points that need pivoting tend to come in runs). */
+  /** Points still to be taken alone after a pair failed (points that need pivoting tend to come in runs). */
   private pairSkip = 0;
   constructor(
     private readonly plan: StampPlan,
