@@ -689,6 +689,7 @@ describe('two matrices at once [TWIN]', () => {
     expect(twinFactor(g).twinOf).toBe(f);
     expect(factor(f, vb)).toBe(OK);
     expect(() => refactorTwo(f, g, s.values, vb)).toThrow(/twin/);
+    expect(() => refactor(g, vb)).toThrow(/twin/);
     expect(refactorTwo(f, twinFactor(f), s.values, vb)).toBe(true);
   });
 });

@@ -654,6 +654,7 @@ export function refactor(f: SparseFactor, values: Float64Array): FactorStatus {
  * preparing the positions and this call (it changes only in {@link factor}).
  */
 export function refactorPlaced(f: SparseFactor): FactorStatus {
+  if (f.twinOf && f.sequence !== f.twinOf.sequence) throw new Error('sparse LU: this twin factor\'s original has recorded a new pivot sequence since; make a new twin');
   f.valid = false;
   if (!f.hasSequence) {
     f.status = NEEDS_PIVOTING;
@@ -675,8 +676,8 @@ export function refactorPlaced(f: SparseFactor): FactorStatus {
  * A second factor on `f`'s pivot sequence, for factoring two matrices of one pattern at once
  * ({@link refactorTwo}, {@link refactorPlacedTwo}): its own values, pivots and workspaces, while
  * the pattern, the sequence and its compiled positions are `f`'s own arrays (shared, not copied).
- * It stays usable while `f` keeps that sequence: after a {@link factor} of `f` the pair
- * refactorisations refuse it. {@link factor} of the twin itself throws; {@link refactor},
+ * It stays usable while `f` keeps that sequence: after a {@link factor} of `f` every
+ * refactorisation refuses it. {@link factor} of the twin itself throws; {@link refactor},
  * the solves and the condition estimate work on it as on any factor.
  */
 export function twinFactor(f: SparseFactor): SparseFactor {
