@@ -1,4 +1,5 @@
-import { createToken, Lexer, type TokenType } from 'chevrotain';
+import type { TokenType } from 'chevrotain';
+import { createToken, Lexer } from './chevrotain.js';
 
 // Token vocabulary of the netlist language. Statements are line-based: a newline ends one,
 // a backslash at the end of a line continues it. `#` starts a comment that runs to the end of the line.

@@ -1,4 +1,5 @@
-import { CstParser, EOF, type CstNode, type IToken, type IRecognitionException } from 'chevrotain';
+import type { CstNode, IToken, IRecognitionException } from 'chevrotain';
+import { CstParser, EOF } from './chevrotain.js';
 import {
   allTokens,
   At,
