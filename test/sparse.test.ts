@@ -39,6 +39,9 @@
  *
  * Random systems come from a seeded generator (fast-check picks the seeds; fixed fast-check seed).
  */
+import { execFileSync } from 'node:child_process';
+import { join } from 'node:path';
+import { pathToFileURL } from 'node:url';
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import * as math from 'mathjs';
@@ -691,6 +694,22 @@ describe('two matrices at once [TWIN]', () => {
     expect(() => refactorTwo(f, g, s.values, vb)).toThrow(/twin/);
     expect(() => refactor(g, vb)).toThrow(/twin/);
     expect(refactorTwo(f, twinFactor(f), s.values, vb)).toBe(true);
+  });
+
+  it("a twin shares its original's hidden class (one shape for the pair loops)", () => {
+    // V8's own test intrinsic (%HaveSameMap, behind --allow-natives-syntax), on the compiled
+    // build in a child process: a twin of a shape of its own sent the compiled pair elimination
+    // back to the interpreter at the end of every call, for a stretch of a sweep
+    const factorJs = pathToFileURL(join(import.meta.dirname, '..', 'dist', 'src', 'solve', 'sparse', 'index.js')).href;
+    const script = `const m = await import(${JSON.stringify(factorJs)});
+      const rows = Int32Array.from([0, 0, 1, 1, 2, 2, 1, 2]), cols = Int32Array.from([0, 1, 0, 1, 2, 1, 2, 0]);
+      const v = Float64Array.from({ length: 16 }, (_, k) => (k % 2 ? 0.1 : 1 + (k % 5)));
+      const f = m.createFactor(m.analyse(3, rows, cols));
+      m.factor(f, v);
+      const g = m.twinFactor(f), f2 = m.createFactor(m.analyse(3, rows, cols));
+      console.log(JSON.stringify([%HaveSameMap(f, g), %HaveSameMap(f, f2), %HaveSameMap(g, m.twinFactor(f2))]));`;
+    const out = execFileSync(process.execPath, ['--allow-natives-syntax', '--input-type=module', '-e', script], { encoding: 'utf8' });
+    expect(JSON.parse(out)).toEqual([true, true, true]);
   });
 });
 

@@ -3,7 +3,8 @@ import type { AdmittanceKernel, ElementType } from './types.js';
 /** Y = jωC / (1 + jωC·R) = (ω²C²R + jωC) / (1 + (ωCR)²) (parameters: C, R). */
 const kernel: AdmittanceKernel = {
   stride: 2,
-  run(omega, p, count, out, offset) {
+  run(w, at, p, count, out, offset) {
+    const omega = w[at]!;
     let o = 2 * offset;
     for (let k = 0; k < 2 * count; k += 2) {
       const wc = omega * p[k]!;

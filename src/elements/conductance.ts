@@ -4,7 +4,7 @@ import type { AdmittanceKernel, ElementType } from './types.js';
 const kernel: AdmittanceKernel = {
   stride: 1,
   constant: true,
-  run(_omega, p, count, out, offset) {
+  run(_w, _at, p, count, out, offset) {
     for (let k = 0; k < count; k++) {
       out[2 * (offset + k)] = p[k]!;
       out[2 * (offset + k) + 1] = 0;

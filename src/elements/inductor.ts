@@ -4,7 +4,8 @@ import type { AdmittanceKernel, ElementType } from './types.js';
 /** Y = 1/(R + jωL) = (R − jωL) / (R² + ω²L²) (parameters: L, R). */
 const kernel: AdmittanceKernel = {
   stride: 2,
-  run(omega, p, count, out, offset) {
+  run(w, at, p, count, out, offset) {
+    const omega = w[at]!;
     let o = 2 * offset;
     for (let k = 0; k < 2 * count; k += 2) {
       const wl = omega * p[k]!;

@@ -94,13 +94,15 @@ export interface StampBuilder {
 /**
  * The admittance of one kind of two-terminal element, computed for many elements at once.
  * Element k's parameters are params[k·stride … k·stride + stride − 1]; its admittance goes to
- * out[2(offset + k)] (real) and out[2(offset + k) + 1] (imaginary). Must not allocate.
+ * out[2(offset + k)] (real) and out[2(offset + k) + 1] (imaginary). Must not allocate. The angular
+ * frequency is `w[at]`: an array and an index rather than a number, because a number passed to a
+ * call that is not inlined is boxed (an allocation per point and kernel).
  */
 export interface AdmittanceKernel {
   readonly stride: number;
   /** True when the admittance does not depend on frequency: the plan then evaluates it once. */
   readonly constant?: boolean;
-  run(omega: number, params: Float64Array, count: number, out: Float64Array, offset: number): void;
+  run(w: Float64Array, at: number, params: Float64Array, count: number, out: Float64Array, offset: number): void;
 }
 
 /**

@@ -260,10 +260,16 @@ function baseSymmetric(base: Float64Array, rows: number[], cols: number[], slots
   return true;
 }
 
+/** The angular frequency handed to {@link AdmittanceBatch.stamp} by {@link stampAt}. */
+const OMEGA = new Float64Array(1);
+/** 0 rad/s, for kernels that do not depend on frequency. */
+const ZERO = new Float64Array(1);
+
 /** Sets the slot values of the plan's matrix at angular frequency `omega` (no allocation). */
 export function stampAt(plan: StampPlan, omega: number, values: Float64Array): void {
   values.set(plan.baseValues);
-  plan.batch?.stamp(omega, values);
+  OMEGA[0] = omega;
+  plan.batch?.stamp(OMEGA, values);
   const st = plan.stampers;
   for (let e = 0; e < st.length; e++) st[e]!(omega, values);
 }
@@ -329,12 +335,16 @@ export class AdmittanceBatch {
     return new AdmittanceBatch(this.groups, this.quadY, quads, pairs(this.plus), pairs(this.minus), this.y.length / 2);
   }
 
-  stamp(omega: number, v: Float64Array): void {
+  /**
+   * Adds the admittances at angular frequency `w[0]` into the slot values `v`. (The frequency comes
+   * in an array: a number passed to a call that is not inlined is boxed, an allocation a point.)
+   */
+  stamp(w: Float64Array, v: Float64Array): void {
     const y = this.y;
     const groups = this.groups;
     for (let g = 0; g < groups.length; g++) {
       const k = groups[g]!;
-      k.kernel.run(omega, k.params, k.count, y, k.offset);
+      k.kernel.run(w, 0, k.params, k.count, y, k.offset);
     }
     const qy = this.quadY;
     const qs = this.quadSlots;
@@ -376,17 +386,17 @@ export class AdmittanceBatch {
   }
 
   /**
-   * {@link stamp} at two frequencies at once, `omegaA` into `v` and `omegaB` into `u`: one pass
-   * over the slot lists for both (each array gets exactly the additions {@link stamp} makes).
+   * {@link stamp} at two frequencies at once, `w[0]` into `v` and `w[1]` into `u`: one pass over
+   * the slot lists for both (each array gets exactly the additions {@link stamp} makes).
    */
-  stampTwo(omegaA: number, omegaB: number, v: Float64Array, u: Float64Array): void {
+  stampTwo(w: Float64Array, v: Float64Array, u: Float64Array): void {
     const y = this.y;
     const z = (this.yB ??= new Float64Array(y.length));
     const groups = this.groups;
     for (let g = 0; g < groups.length; g++) {
       const k = groups[g]!;
-      k.kernel.run(omegaA, k.params, k.count, y, k.offset);
-      k.kernel.run(omegaB, k.params, k.count, z, k.offset);
+      k.kernel.run(w, 0, k.params, k.count, y, k.offset);
+      k.kernel.run(w, 1, k.params, k.count, z, k.offset);
     }
     const qy = this.quadY;
     const qs = this.quadSlots;
@@ -471,7 +481,7 @@ function batchAdmittances(groups: Map<AdmittanceKernel, KernelSlots>, base: Floa
     const params = Float64Array.from(g.params);
     if (kernel.constant) {
       const y = new Float64Array(2 * count);
-      kernel.run(0, params, count, y, 0);
+      kernel.run(ZERO, 0, params, count, y, 0);
       const add = (slot: number, k: number, sign: number) => {
         base[2 * slot] += sign * y[2 * k]!;
         base[2 * slot + 1] += sign * y[2 * k + 1]!;
