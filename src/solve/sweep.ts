@@ -111,10 +111,11 @@ interface LinearEngine {
    */
   stampFactor(freqs: Float64Array, k: number, vals: Float64Array): number;
   /**
-   * Stamps and factors points k and k + 1 at once where the engine can (see `refactorPlacedTwo`). True
-   * when both succeeded: {@link portVoltages} and {@link lastRcond} then serve the first, and
-   * after {@link second} the second. False: nothing is kept; take the two points one at a time
-   * (which also tells which failed and why). Results are the same to the bit either way.
+   * Stamps and factors points k and k + 1 at once where the engine can (see
+   * `refactorPlacedTwo`). True when both succeeded: {@link portVoltages} and {@link lastRcond}
+   * then serve the first, and after {@link second} the second. False: nothing is kept; take the
+   * two points one at a time (which also tells which failed and why). Results are the same to
+   * the bit either way.
    */
   stampFactorTwo(freqs: Float64Array, k: number, vals: Float64Array): boolean;
   /** After a successful {@link stampFactorTwo}: turns to its second point. */
@@ -224,7 +225,7 @@ class SparseEngine implements LinearEngine {
   private lastRcondB = NaN;
   /** Points still to be taken alone after a pair failed (points that need pivoting tend to come in runs). */
   private pairSkip = 0;
-  /** The angular frequencies of the point or pair being stamped (see {@link AdmittanceBatch.stamp}). */
+  /** Angular frequencies of the point or pair being stamped (see {@link AdmittanceBatch.stamp}). */
   private readonly w = new Float64Array(2);
   constructor(
     private readonly plan: StampPlan,
