@@ -263,10 +263,17 @@ interface SolveArgs {
 
 /**
  * Sweeps big enough to be worth starting worker threads for: points × (nodes + elements), a
- * rough measure of the work (starting and warming the workers costs about as much as a few
- * hundred thousand of those)…
+ * rough measure of the work. A command-line run is a fresh process: the workers boot, load their
+ * code and run it cold, and on a two-core machine they take the core V8's optimising compiler
+ * would otherwise have, so the calling thread's own code is compiled later. Measured on the
+ * reference machine, sweep alone, one thread against two, in fresh processes (LC ladders):
+ * 100 sections × 20,001 points (6 M) 120–180 ms against 160–230; 300 × 20,001 (18 M) 230–250
+ * against 240–290; 1,000 × 4,001 (12 M) 220–290 against 270–350; 1,000 × 10,001 (30 M) 400–520
+ * against 395–500; 1,000 × 20,001 (60 M) 750–770 against 535–640; 10,000 × 4,001 (120 M)
+ * 1,490–1,650 against 1,290–1,430. (In one long-lived process, with the pool kept warm, two
+ * threads gain 1.7–1.9× on all of them: see the benchmark.)…
  */
-const PARALLEL_MIN_WORK = 2_000_000;
+const PARALLEL_MIN_WORK = 50_000_000;
 /**
  * …and long enough: each thread copies the circuit and builds its own plan and ordering, which
  * costs about as much as solving a few hundred of its points whatever its size (measured: a
