@@ -9,16 +9,85 @@
  *
  * The temporary name is `.<base>.<pid>.<12 hex digits>.tmp`, created with O_EXCL so that a file of
  * another writer is never opened, and never removed on failure. When the target already exists its
- * permission bits are copied to the new file. A target that is a symbolic link is replaced by a
- * regular file (the link is not followed).
+ * permission bits are copied to the new file.
+ *
+ * The target decides how it is written (`resolveWriteTarget` in guard.ts): a regular file or a
+ * missing one as above; a symbolic link to a regular file is written through, the file it points
+ * to being replaced in its own folder (the link stays a link); a character device (/dev/null), a
+ * pipe, or /dev/stdout and its kin are written in place, never replaced by a regular file (a pipe
+ * that nobody reads is refused instead of waiting for a reader); a folder, a missing folder, a link
+ * to nothing, a block device or a socket are refused. Failures become `WriteError`s naming the
+ * caller's path and the cause in plain words.
+ *
+ * Before each write the target's folder is swept of temporary files that killed runs left behind
+ * ({@link sweepTempFiles}).
  */
 import * as fs from 'node:fs';
 import * as fsp from 'node:fs/promises';
 import { randomBytes } from 'node:crypto';
 import { basename, dirname, join } from 'node:path';
+import { explainWriteError, resolveWriteTarget, type WriteTarget } from './guard.js';
 
 function tempPathFor(path: string): string {
   return join(dirname(path), `.${basename(path)}.${process.pid}.${randomBytes(6).toString('hex')}.tmp`);
+}
+
+/** The names {@link tempPathFor} gives, and only those: `.<base>.<pid>.<12 lower-case hex digits>.tmp`. */
+const TEMP_NAME = /^\.(.+)\.([1-9]\d{0,9})\.[0-9a-f]{12}\.tmp$/;
+
+/** A temporary file whose writing process no longer exists is swept once it has been left unchanged this long (ms). */
+export const TEMP_ORPHAN_AGE_MS = 60_000;
+/**
+ * A temporary file unchanged this long (ms) is swept whatever its process id says (the id may have
+ * been reused, or belong to another machine sharing the folder); a write in progress changes its
+ * file all the time, so it is never this old.
+ */
+export const TEMP_STALE_AGE_MS = 60 * 60_000;
+
+function processExists(pid: number): boolean {
+  if (pid === process.pid) return true;
+  try {
+    process.kill(pid, 0);
+    return true;
+  } catch (e) {
+    return (e as NodeJS.ErrnoException).code !== 'ESRCH'; // EPERM: it exists, owned by another user
+  }
+}
+
+/**
+ * Removes from `folder` the temporary files of this module that killed runs left behind: only
+ * regular files named exactly as {@link tempPathFor} names them and owned by this user, and of those
+ * only the ones whose writing process (the id in the name) no longer exists and that were left
+ * unchanged for {@link TEMP_ORPHAN_AGE_MS}, or that were left unchanged for
+ * {@link TEMP_STALE_AGE_MS}. Best effort: a file that cannot be examined or removed stays.
+ * Returns the names removed.
+ */
+export function sweepTempFiles(folder: string, now: number = Date.now()): string[] {
+  let names: string[];
+  try {
+    names = fs.readdirSync(folder);
+  } catch {
+    return [];
+  }
+  const removed: string[] = [];
+  const uid = typeof process.getuid === 'function' ? process.getuid() : undefined;
+  for (const name of names) {
+    const m = TEMP_NAME.exec(name);
+    if (!m) continue;
+    const path = join(folder, name);
+    try {
+      const st = fs.lstatSync(path);
+      if (!st.isFile() || (uid !== undefined && st.uid !== uid)) continue;
+      const age = now - st.mtimeMs;
+      if ((age >= TEMP_ORPHAN_AGE_MS && !processExists(Number(m[2]))) || age >= TEMP_STALE_AGE_MS) {
+        fs.unlinkSync(path);
+        removed.push(name);
+      }
+    } catch {
+      // gone already, or not ours to remove
+    }
+  }
+  return removed;
 }
 
 function toBytes(data: string | Uint8Array): Uint8Array {
@@ -49,11 +118,48 @@ function existingModeSync(path: string): number | undefined {
   }
 }
 
+/** Opens a device or pipe for writing in place: never created, never truncated (appended, which a device ignores). */
+function openStreamFlags(): number {
+  const c = fs.constants;
+  return c.O_WRONLY | c.O_APPEND | (c.O_NOCTTY ?? 0);
+}
+
+/** A pipe nobody reads would make the open wait for ever: refuse it instead (ENXIO). */
+function probePipe(target: WriteTarget): void {
+  if (target.kind !== 'stream' || !target.pipe) return;
+  const fd = fs.openSync(target.path, fs.constants.O_WRONLY | fs.constants.O_NONBLOCK);
+  fs.closeSync(fd);
+}
+
+function writeAllSync(fd: number, data: AtomicData): void {
+  for (const piece of pieces(data)) {
+    const bytes = toBytes(piece);
+    let off = 0;
+    while (off < bytes.length) off += fs.writeSync(fd, bytes, off, bytes.length - off);
+  }
+}
+
 /** Writes `data` (strings as UTF-8) to `path` atomically; see the module comment. */
 export async function writeFileAtomic(path: string, data: string | Uint8Array): Promise<void> {
+  const target = resolveWriteTarget(path);
   const bytes = toBytes(data);
-  const tmp = tempPathFor(path);
-  const mode = await existingMode(path);
+  if (target.kind === 'stream') {
+    let h: fsp.FileHandle | undefined;
+    try {
+      probePipe(target);
+      h = await fsp.open(target.path, openStreamFlags());
+      await h.writeFile(bytes);
+    } catch (err) {
+      throw explainWriteError(err, path);
+    } finally {
+      await h?.close().catch(() => undefined);
+    }
+    return;
+  }
+  const real = target.path;
+  sweepTempFiles(dirname(real));
+  const tmp = tempPathFor(real);
+  const mode = await existingMode(real);
   let handle: fsp.FileHandle | undefined;
   let created = false;
   try {
@@ -65,14 +171,14 @@ export async function writeFileAtomic(path: string, data: string | Uint8Array): 
     const h = handle;
     handle = undefined;
     await h.close();
-    await fsp.rename(tmp, path);
+    await fsp.rename(tmp, real);
     created = false;
   } catch (err) {
     if (handle !== undefined) await handle.close().catch(() => undefined);
     if (created) await fsp.unlink(tmp).catch(() => undefined);
-    throw err;
+    throw explainWriteError(err, path);
   }
-  await syncDirectory(dirname(path));
+  await syncDirectory(dirname(real));
 }
 
 /**
@@ -80,24 +186,42 @@ export async function writeFileAtomic(path: string, data: string | Uint8Array): 
  * after another; if producing one throws, the temporary file is removed and the target is untouched).
  */
 export function writeFileAtomicSync(path: string, data: AtomicData): void {
-  const tmp = tempPathFor(path);
-  const mode = existingModeSync(path);
+  const target = resolveWriteTarget(path);
+  if (target.kind === 'stream') {
+    let fd: number | undefined;
+    try {
+      probePipe(target);
+      fd = fs.openSync(target.path, openStreamFlags());
+      writeAllSync(fd, data);
+    } catch (err) {
+      throw explainWriteError(err, path);
+    } finally {
+      if (fd !== undefined) {
+        try {
+          fs.closeSync(fd);
+        } catch {
+          // keep the first error, if any
+        }
+      }
+    }
+    return;
+  }
+  const real = target.path;
+  sweepTempFiles(dirname(real));
+  const tmp = tempPathFor(real);
+  const mode = existingModeSync(real);
   let fd: number | undefined;
   let created = false;
   try {
     fd = fs.openSync(tmp, 'wx', 0o666);
     created = true;
     if (mode !== undefined) fs.fchmodSync(fd, mode);
-    for (const piece of pieces(data)) {
-      const bytes = toBytes(piece);
-      let off = 0;
-      while (off < bytes.length) off += fs.writeSync(fd, bytes, off, bytes.length - off);
-    }
+    writeAllSync(fd, data);
     fs.fsyncSync(fd);
     const f = fd;
     fd = undefined;
     fs.closeSync(f);
-    fs.renameSync(tmp, path);
+    fs.renameSync(tmp, real);
     created = false;
   } catch (err) {
     if (fd !== undefined) {
@@ -114,9 +238,9 @@ export function writeFileAtomicSync(path: string, data: AtomicData): void {
         // nothing more to do
       }
     }
-    throw err;
+    throw explainWriteError(err, path);
   }
-  syncDirectorySync(dirname(path));
+  syncDirectorySync(dirname(real));
 }
 
 /** fsync of a directory, best effort: some platforms cannot open directories. */

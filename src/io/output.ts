@@ -2,6 +2,9 @@ import { extname } from 'node:path';
 import { convertNetwork } from '../network/convert.js';
 import type { NetworkData, ParameterKind } from '../network/types.js';
 import { writeFileAtomicSync } from './atomic.js';
+import { OutputError } from './guard.js';
+
+export { OutputError } from './guard.js';
 import { csvChunks } from './csv.js';
 import { formatJson } from './json.js';
 import { touchstoneChunks, touchstoneExtension, type ComplexFormat, type FrequencyUnit, type TouchstoneVersion } from './touchstone.js';
@@ -23,14 +26,6 @@ export interface OutputOptions {
   digits?: number;
   /** Comment lines for Touchstone files. */
   comments?: string[];
-}
-
-/** A problem with the requested output itself (unknown extension, wrong port count for `.sNp`…). */
-export class OutputError extends Error {
-  constructor(message: string, readonly help?: string) {
-    super(message);
-    this.name = 'OutputError';
-  }
 }
 
 /** The output format a file name implies, if any. */
@@ -97,7 +92,10 @@ export function renderNetworkChunks(net: NetworkData, options: OutputOptions = {
  * Writes network data to `path` atomically (a temporary file renamed over the target), so a
  * failed run never leaves a partial file and never clobbers an existing one. Every check and
  * conversion happens before the file is touched; the text then streams into the temporary file a
- * few hundred points at a time, so a long many-port sweep is never held as one string.
+ * few hundred points at a time, so a long many-port sweep is never held as one string. The kind of
+ * target (link, device, pipe, folder), the sweep of temporary files left by killed runs and the
+ * plain messages of failed writes are those of {@link writeFileAtomicSync}. To refuse an output that
+ * is one of the run's inputs, call `checkOutputTarget` (io/guard.ts) first.
  */
 export function writeNetwork(net: NetworkData, path: string, options: OutputOptions = {}): void {
   writeFileAtomicSync(path, renderNetworkChunks(net, options, path));
