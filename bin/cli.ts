@@ -11,6 +11,7 @@ import { evaluateSpecs } from '../src/check/evaluate.js';
 import { comparisonSuite, formatJunit, specSuite, type JunitSuite } from '../src/check/junit.js';
 import { checkReportJson, formatComparisonTable, formatSpecTable } from '../src/check/report.js';
 import { writeFileAtomicSync } from '../src/io/atomic.js';
+import { checkBatchNames, checkOutputs } from '../src/io/guard.js';
 import { expandInputs, InputsError } from '../src/io/inputs.js';
 import { readNetworkFile } from '../src/io/read.js';
 import { touchstoneExtension } from '../src/io/touchstone.js';
@@ -338,17 +339,20 @@ async function runSolve(a: SolveArgs, io: Io): Promise<number> {
       comments: [`scatterbox solve ${basename(file)}`],
     });
     if (batch) {
+      checkBatchNames(files);
       mkdirSync(a.outDir!, { recursive: true });
       let failed = 0;
       const batchBar = !a.quiet && process.stderr.isTTY && files.length >= 20 ? new SingleBar({ format: 'netlists [{bar}] {value}/{total}', stream: process.stderr, clearOnComplete: true }, Presets.shades_classic) : undefined;
       batchBar?.start(files.length, 0);
       for (const file of files) {
         try {
-          const net = await solveWith(load(a, file, io).circuit, a.jobs, true, a.quiet ? undefined : io);
+          const loaded = load(a, file, io);
+          const net = await solveWith(loaded.circuit, a.jobs, true, a.quiet ? undefined : io);
           batchBar?.increment();
           const format = (a.format as OutputFormat | undefined) ?? 'touchstone';
           const ext = format === 'touchstone' ? touchstoneExtension(net.ports) : `.${format}`;
           const out = join(a.outDir!, basename(file, extname(file)) + ext);
+          checkOutputs([out], [...files, ...loaded.sources.keys()]);
           writeNetwork(net, out, { ...options(file), format });
           if (!a.quiet && !batchBar) io.err(`${file} → ${out}\n`);
         } catch (e) {
@@ -360,7 +364,8 @@ async function runSolve(a: SolveArgs, io: Io): Promise<number> {
       if (failed > 0) io.err(`${failed} of ${files.length} netlists failed; their files were not written\n`);
       return failed > 0 ? EXIT_INPUT : EXIT_OK;
     }
-    const net = await solveWith(load(a, files[0]!, io).circuit, a.jobs, a.quiet, a.quiet ? undefined : io);
+    const loaded = load(a, files[0]!, io);
+    const net = await solveWith(loaded.circuit, a.jobs, a.quiet, a.quiet ? undefined : io);
     if (a.figures !== undefined) {
       if (a.out || batch) throw new OutputError('--figures prints to the terminal', 'leave out -o (use --format csv for CSV on stdout)');
       const columns = splitFigures(a.figures).map((text) => {
@@ -376,6 +381,7 @@ async function runSolve(a: SolveArgs, io: Io): Promise<number> {
       return EXIT_OK;
     }
     if (a.format === 'table') throw new OutputError('the table format is for the terminal only', 'leave out -o, or pick touchstone, csv or json');
+    checkOutputs([a.out], loaded.sources.keys());
     writeNetwork(net, a.out, { ...options(files[0]!), format: a.format });
     return EXIT_OK;
   } catch (e) {
@@ -416,11 +422,11 @@ interface ReportArgs {
 /** Solves a netlist (with its specs) or reads a data file, for `report` and `plot`. */
 async function networkOf(a: { input: string; set?: string[]; sweep?: string; jobs: number; quiet: boolean }, io: Io) {
   if (formatFromPath(a.input) || extname(a.input).toLowerCase() === '.json') {
-    return { net: readNetworkFile(a.input), circuit: undefined, specs: undefined };
+    return { net: readNetworkFile(a.input), circuit: undefined, specs: undefined, inputs: [a.input] };
   }
-  const { circuit } = load(a, a.input, io);
+  const { circuit, sources } = load(a, a.input, io);
   const net = await solveWith(circuit, a.jobs, a.quiet, a.quiet ? undefined : io);
-  return { net, circuit, specs: evaluateSpecs(circuit.specs, net) };
+  return { net, circuit, specs: evaluateSpecs(circuit.specs, net), inputs: [...sources.keys()] };
 }
 
 function parseEntries(list: string[] | undefined, ports: number): [number, number][] | undefined {
@@ -441,9 +447,10 @@ function parseEntries(list: string[] | undefined, ports: number): [number, numbe
 
 async function runReport(a: ReportArgs, io: Io): Promise<number> {
   try {
-    const { net, circuit, specs } = await networkOf(a, io);
+    const { net, circuit, specs, inputs } = await networkOf(a, io);
     const tableFrequencies = a.at ? a.at.split(',').map((t) => evaluateQuantity(t.trim(), 'Hz', '--at')) : undefined;
     const html = renderReport({ title: a.title, source: a.input, net, circuit, specs, tableFrequencies, entries: parseEntries(a.entry, net.ports) });
+    checkOutputs([a.out], inputs);
     writeFileAtomicSync(a.out, html);
     return EXIT_OK;
   } catch (e) {
@@ -462,7 +469,8 @@ async function runPlot(a: PlotArgs, io: Io): Promise<number> {
   try {
     const ext = extname(a.out).toLowerCase();
     if (ext !== '.svg' && ext !== '.png') throw new OutputError(`a plot is written as .svg or .png, not ${ext || 'a file without extension'}`);
-    const { net, specs } = await networkOf(a, io);
+    const { net, specs, inputs } = await networkOf(a, io);
+    checkOutputs([a.out], inputs);
     const svg = renderPlotSvg(net, { kind: a.kind, specs, entries: parseEntries(a.entry, net.ports), width: a.width, height: a.height, title: a.title });
     if (ext === '.svg') writeFileAtomicSync(a.out, svg);
     else {
@@ -492,6 +500,7 @@ interface ConvertArgs {
 
 function runConvert(a: ConvertArgs, io: Io): number {
   try {
+    checkOutputs([a.out], [a.input]);
     const net = readNetworkFile(a.input);
     const text = convertData(
       net,
@@ -577,7 +586,8 @@ interface CheckArgs extends ToleranceArgs {
 async function runCheck(a: CheckArgs, io: Io): Promise<number> {
   try {
     if (a.update && !a.against) throw new OutputError('--update rewrites the golden file named by --against, but none was given', 'add --against FILE');
-    const { circuit } = load(a, a.netlist, io);
+    const { circuit, sources } = load(a, a.netlist, io);
+    checkOutputs([a.update ? a.against : undefined, a.junit, a.json], [...sources.keys(), ...(a.against && !a.update ? [a.against] : [])]);
     const net = await solveWith(circuit, a.jobs, a.quiet, a.quiet ? undefined : io);
     const results = evaluateSpecs(circuit.specs, net);
     let golden: { file: string; comparison: Comparison } | undefined;

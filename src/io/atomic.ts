@@ -131,11 +131,36 @@ function probePipe(target: WriteTarget): void {
   fs.closeSync(fd);
 }
 
+const pause = new Int32Array(new SharedArrayBuffer(4));
+
 function writeAllSync(fd: number, data: AtomicData): void {
   for (const piece of pieces(data)) {
     const bytes = toBytes(piece);
     let off = 0;
-    while (off < bytes.length) off += fs.writeSync(fd, bytes, off, bytes.length - off);
+    while (off < bytes.length) {
+      try {
+        off += fs.writeSync(fd, bytes, off, bytes.length - off);
+      } catch (e) {
+        // a descriptor we did not open (the standard output) may be non-blocking: wait for room
+        if ((e as NodeJS.ErrnoException).code !== 'EAGAIN') throw e;
+        Atomics.wait(pause, 0, 0, 2);
+      }
+    }
+  }
+}
+
+/** Writes to a device, a pipe or a descriptor of this process, in place (see the module comment). */
+function writeStreamSync(target: Extract<WriteTarget, { kind: 'stream' }>, data: AtomicData): void {
+  if (target.fd !== undefined) {
+    writeAllSync(target.fd, data); // not ours to close
+    return;
+  }
+  probePipe(target);
+  const fd = fs.openSync(target.path, openStreamFlags());
+  try {
+    writeAllSync(fd, data);
+  } finally {
+    fs.closeSync(fd);
   }
 }
 
@@ -144,6 +169,14 @@ export async function writeFileAtomic(path: string, data: string | Uint8Array): 
   const target = resolveWriteTarget(path);
   const bytes = toBytes(data);
   if (target.kind === 'stream') {
+    if (target.fd !== undefined) {
+      try {
+        writeAllSync(target.fd, bytes);
+      } catch (err) {
+        throw explainWriteError(err, path);
+      }
+      return;
+    }
     let h: fsp.FileHandle | undefined;
     try {
       probePipe(target);
@@ -188,21 +221,10 @@ export async function writeFileAtomic(path: string, data: string | Uint8Array): 
 export function writeFileAtomicSync(path: string, data: AtomicData): void {
   const target = resolveWriteTarget(path);
   if (target.kind === 'stream') {
-    let fd: number | undefined;
     try {
-      probePipe(target);
-      fd = fs.openSync(target.path, openStreamFlags());
-      writeAllSync(fd, data);
+      writeStreamSync(target, data);
     } catch (err) {
       throw explainWriteError(err, path);
-    } finally {
-      if (fd !== undefined) {
-        try {
-          fs.closeSync(fd);
-        } catch {
-          // keep the first error, if any
-        }
-      }
     }
     return;
   }

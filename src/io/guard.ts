@@ -54,17 +54,19 @@ export function explainWriteError(err: unknown, path: string): unknown {
     case 'ENOENT':
       if (!isFolder(folder)) return say(`cannot write ${path}: the folder ${folder} does not exist`, 'create the folder first, or write to an existing one');
       return say(`cannot write ${path}: a file vanished during the write (another program removed it)`, 'run again');
-    case 'ENOTDIR':
-      return say(`cannot write ${path}: a part of the path before the file name is not a folder`);
+    case 'ENOTDIR': {
+      const blocker = notAFolder(folder);
+      return say(`cannot write ${path}: ${blocker ?? 'a part of the path before the file name'} is not a folder`);
+    }
     case 'EACCES':
     case 'EPERM':
       return say(`cannot write ${path}: permission denied`, `this user may not create or replace files in the folder ${folder}`);
     case 'EROFS':
       return say(`cannot write ${path}: the file system is read-only`, 'write to a folder on a writable disk');
     case 'ENOSPC':
-      return say(`cannot write ${path}: the disk is full`, 'free some space, or write to another disk; nothing was changed');
+      return say(`cannot write ${path}: the disk is full`, 'free some space, or write to another disk');
     case 'EDQUOT':
-      return say(`cannot write ${path}: the disk quota of this user is used up`, 'free some space, or write to another disk; nothing was changed');
+      return say(`cannot write ${path}: the disk quota of this user is used up`, 'free some space, or write to another disk');
     case 'EISDIR':
       return say(`cannot write ${path}: it is a folder`, 'give a file name (inside that folder, for example)');
     case 'ENAMETOOLONG':
@@ -88,6 +90,19 @@ export function explainWriteError(err: unknown, path: string): unknown {
   }
 }
 
+/** The deepest existing ancestor of `folder` (itself included) when that is not a folder. */
+function notAFolder(folder: string): string | undefined {
+  for (let f = folder; ; ) {
+    try {
+      return fs.statSync(f).isDirectory() ? undefined : f;
+    } catch {
+      const up = dirname(f);
+      if (up === f) return undefined;
+      f = up;
+    }
+  }
+}
+
 function isFolder(path: string): boolean {
   try {
     return fs.statSync(path).isDirectory();
@@ -102,16 +117,37 @@ function isFolder(path: string): boolean {
  * `stream` — written through, in place (a character device such as /dev/null, a pipe, or the
  * standard output/error of this process), never replaced by a regular file.
  */
-export type WriteTarget = { kind: 'file'; path: string } | { kind: 'stream'; path: string; pipe: boolean };
+export type WriteTarget = { kind: 'file'; path: string } | { kind: 'stream'; path: string; pipe: boolean; fd?: number };
 
-/** Paths that name an open descriptor of this process (`/dev/stdout`, `/dev/fd/3`, `/proc/self/fd/1`). */
-const DESCRIPTOR_PATH = /^\/(?:dev\/(?:stdout|stderr|fd\/\d+)|proc\/(?:self|\d+)\/fd\/\d+)$/;
+/**
+ * The descriptor of this process that a path names (`/dev/stdout` 1, `/dev/stderr` 2, `/dev/fd/N`
+ * and `/proc/self/fd/N` N), if it does: such a target is written to that descriptor itself, as it
+ * is (a terminal, a pipe, a socket, or a file opened by the shell, appended to with `>>`).
+ */
+function descriptorOf(path: string): number | undefined {
+  const m = /^\/(?:dev\/(stdout|stderr|fd\/(\d+))|proc\/(self|\d+)\/fd\/(\d+))$/.exec(resolve(path));
+  if (!m) return undefined;
+  if (m[1] === 'stdout') return 1;
+  if (m[1] === 'stderr') return 2;
+  if (m[2] !== undefined) return Number(m[2]);
+  if (m[3] !== 'self' && Number(m[3]) !== process.pid) return undefined;
+  return Number(m[4]);
+}
 
 /**
  * Decides how `path` is written (see {@link WriteTarget}), or throws a {@link WriteError}:
  * a folder, a missing folder, a symbolic link to nothing, a block device or a socket.
  */
 export function resolveWriteTarget(path: string): WriteTarget {
+  const fd = descriptorOf(path);
+  if (fd !== undefined) {
+    try {
+      fs.fstatSync(fd);
+    } catch {
+      throw new WriteError(`cannot write ${path}: this process has no such output open`, path, 'EBADF');
+    }
+    return { kind: 'stream', path, pipe: false, fd };
+  }
   let st: fs.Stats;
   try {
     st = fs.lstatSync(path);
@@ -145,7 +181,7 @@ export function resolveWriteTarget(path: string): WriteTarget {
       }
       throw explainWriteError(err, path);
     }
-    if (DESCRIPTOR_PATH.test(resolve(path)) || !target.isFile()) return kindOf(path, target);
+    if (!target.isFile()) return kindOf(path, target);
     let real: string;
     try {
       real = fs.realpathSync(path);
@@ -158,7 +194,7 @@ export function resolveWriteTarget(path: string): WriteTarget {
 }
 
 function kindOf(path: string, st: fs.Stats): WriteTarget {
-  if (st.isFile()) return DESCRIPTOR_PATH.test(resolve(path)) ? { kind: 'stream', path, pipe: false } : { kind: 'file', path };
+  if (st.isFile()) return { kind: 'file', path };
   if (st.isDirectory()) throw new WriteError(`cannot write ${path}: it is a folder`, path, 'EISDIR', 'give a file name (inside that folder, for example)');
   if (st.isCharacterDevice()) return { kind: 'stream', path, pipe: false };
   if (st.isFIFO()) return { kind: 'stream', path, pipe: true };
@@ -255,9 +291,25 @@ export function checkBatchNames(netlists: readonly string[]): void {
     if (first !== undefined) {
       throw new OutputError(
         `${first} and ${file} would both be written to ${basename(file, extname(file))}.* in the output folder`,
-        'rename one of them, or solve them in separate runs with different --out-dir folders',
+        'rename one of them, or write them into different folders in separate runs',
       );
     }
     byName.set(key, file);
+  }
+}
+
+/**
+ * The checks of a run's outputs before anything is written: no two of `outputs` on one file
+ * ({@link checkDistinctOutputs}), none of them an input ({@link checkOutputTarget}), and each a
+ * target that can be written (a folder that exists, not a folder itself, not a link to nothing…:
+ * {@link resolveWriteTarget}), so that a run fails before its work rather than after it.
+ */
+export function checkOutputs(outputs: Iterable<string | undefined>, inputs: Iterable<string>): void {
+  const outs = [...outputs].filter((p): p is string => p !== undefined);
+  const ins = [...inputs];
+  checkDistinctOutputs(outs);
+  for (const out of outs) {
+    checkOutputTarget(out, ins);
+    resolveWriteTarget(out);
   }
 }
