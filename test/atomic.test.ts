@@ -133,6 +133,29 @@ for (const [name, write] of writers) {
       expect(list()).toEqual(['taken']);
     });
 
+    it('a symbolic link target: the file it points to is replaced in its folder, the link stays', async () => {
+      mkdirSync(join(dir, 'real'));
+      writeFileSync(join(dir, 'real', 'f.txt'), 'old');
+      realFs.symlinkSync(join('real', 'f.txt'), join(dir, 'link.txt'));
+      await write(join(dir, 'link.txt'), 'new');
+      expect(realFs.lstatSync(join(dir, 'link.txt')).isSymbolicLink()).toBe(true);
+      expect(readFileSync(join(dir, 'real', 'f.txt'), 'utf8')).toBe('new');
+      expect(readdirSync(join(dir, 'real'))).toEqual(['f.txt']);
+    });
+
+    it('a character device (/dev/null) is written in place and stays a device', async () => {
+      await write('/dev/null', 'discarded');
+      expect(statSync('/dev/null').isCharacterDevice()).toBe(true);
+    });
+
+    it('an empty folder as target: refused with a plain message (not replaced by the file)', async () => {
+      const p = join(dir, 'empty');
+      mkdirSync(p);
+      await expect(write(p, 'x')).rejects.toThrow(`cannot write ${p}: it is a folder`);
+      expect(statSync(p).isDirectory()).toBe(true);
+      expect(list()).toEqual(['empty']);
+    });
+
     for (const step of ['write', 'sync', 'rename'] as Step[]) {
       it(`fault during ${step}: old file intact, no temp file left`, async () => {
         const p = join(dir, 'out.s2p');
