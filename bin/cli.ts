@@ -1,4 +1,4 @@
-import { existsSync, mkdirSync } from 'node:fs';
+import { existsSync } from 'node:fs';
 import { availableParallelism } from 'node:os';
 import { closeSweepPool, solveSweepParallel } from '../src/solve/parallel.js';
 import { solveSweep } from '../src/solve/sweep.js';
@@ -11,7 +11,7 @@ import { evaluateSpecs } from '../src/check/evaluate.js';
 import { comparisonSuite, formatJunit, specSuite, type JunitSuite } from '../src/check/junit.js';
 import { checkReportJson, formatComparisonTable, formatSpecTable } from '../src/check/report.js';
 import { writeFileAtomicSync } from '../src/io/atomic.js';
-import { checkBatchNames, checkOutputs } from '../src/io/guard.js';
+import { checkBatchNames, checkOutputs, ensureFolder } from '../src/io/guard.js';
 import { expandInputs, InputsError } from '../src/io/inputs.js';
 import { readNetworkFile } from '../src/io/read.js';
 import { touchstoneExtension } from '../src/io/touchstone.js';
@@ -340,7 +340,7 @@ async function runSolve(a: SolveArgs, io: Io): Promise<number> {
     });
     if (batch) {
       checkBatchNames(files);
-      mkdirSync(a.outDir!, { recursive: true });
+      ensureFolder(a.outDir!);
       let failed = 0;
       const batchBar = !a.quiet && process.stderr.isTTY && files.length >= 20 ? new SingleBar({ format: 'netlists [{bar}] {value}/{total}', stream: process.stderr, clearOnComplete: true }, Presets.shades_classic) : undefined;
       batchBar?.start(files.length, 0);
@@ -365,6 +365,7 @@ async function runSolve(a: SolveArgs, io: Io): Promise<number> {
       return failed > 0 ? EXIT_INPUT : EXIT_OK;
     }
     const loaded = load(a, files[0]!, io);
+    checkOutputs([a.out], loaded.sources.keys());
     const net = await solveWith(loaded.circuit, a.jobs, a.quiet, a.quiet ? undefined : io);
     if (a.figures !== undefined) {
       if (a.out || batch) throw new OutputError('--figures prints to the terminal', 'leave out -o (use --format csv for CSV on stdout)');
@@ -381,7 +382,6 @@ async function runSolve(a: SolveArgs, io: Io): Promise<number> {
       return EXIT_OK;
     }
     if (a.format === 'table') throw new OutputError('the table format is for the terminal only', 'leave out -o, or pick touchstone, csv or json');
-    checkOutputs([a.out], loaded.sources.keys());
     writeNetwork(net, a.out, { ...options(files[0]!), format: a.format });
     return EXIT_OK;
   } catch (e) {

@@ -42,7 +42,7 @@ export {
 export { formatCsv, type CsvWriteOptions } from './io/csv.js';
 export { formatJson, parseJson } from './io/json.js';
 export { writeFileAtomic, writeFileAtomicSync, sweepTempFiles } from './io/atomic.js';
-export { checkOutputs, checkOutputTarget, checkDistinctOutputs, checkBatchNames, explainWriteError, resolveWriteTarget, WriteError, type WriteTarget } from './io/guard.js';
+export { checkOutputs, checkOutputTarget, ensureFolder, checkDistinctOutputs, checkBatchNames, explainWriteError, resolveWriteTarget, WriteError, type WriteTarget } from './io/guard.js';
 export { renderNetwork, renderNetworkChunks, writeNetwork, formatFromPath, OutputError, type OutputFormat, type OutputOptions } from './io/output.js';
 export { formatTable } from './io/table.js';
 export {

@@ -209,6 +209,18 @@ describe('batch solve into one folder', () => {
     expect(existsSync(join(d, 'n', 'q.s2p'))).toBe(true);
   });
 
+  it('--out-dir onto a file: a plain error naming it, before anything is solved', async () => {
+    const d = folder('batch-file');
+    writeFileSync(join(d, 'od'), 'a file');
+    for (const outDir of ['od', 'od/sub']) {
+      const r = await run(['solve', 'x.sbx', '--out-dir', outDir], d);
+      expect(r.code).toBe(1);
+      expect(r.err).toMatch(new RegExp(`cannot create the folder ${outDir.replace('/', '\\/')}: od is not a folder`));
+      expect(r.err).not.toMatch(/EEXIST|ENOTDIR|mkdir/);
+    }
+    expect(readFileSync(join(d, 'od'), 'utf8')).toBe('a file');
+  });
+
   it('checkBatchNames (library): names compared without letter case; distinct names pass', async () => {
     expect(() => checkBatchNames(['a/x.sbx', 'b/y.sbx', 'c/x2.sbx'])).not.toThrow();
     expect(() => checkBatchNames(['a/f.sbx', 'b/F.SBX'])).toThrow(OutputError);

@@ -313,3 +313,23 @@ export function checkOutputs(outputs: Iterable<string | undefined>, inputs: Iter
     resolveWriteTarget(out);
   }
 }
+
+/**
+ * Creates the folder `path` (and its parents) if it does not exist, for an output folder such as
+ * `--out-dir`; failures are {@link WriteError}s naming `path` in plain words (a file in the way,
+ * permission denied, a read-only file system…).
+ */
+export function ensureFolder(path: string): void {
+  try {
+    fs.mkdirSync(path, { recursive: true });
+  } catch (err) {
+    const code = (err as NodeJS.ErrnoException).code;
+    if (code === 'EEXIST' || code === 'ENOTDIR') {
+      const blocker = notAFolder(path);
+      throw new WriteError(`cannot create the folder ${path}: ${blocker ?? 'a part of the path'} is not a folder`, path, code);
+    }
+    const e = explainWriteError(err, path);
+    if (e instanceof WriteError) throw new WriteError(e.message.replace(`cannot write ${path}`, `cannot create the folder ${path}`), path, e.code, e.help);
+    throw e;
+  }
+}
