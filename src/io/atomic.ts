@@ -19,13 +19,13 @@
  * to nothing, a block device or a socket are refused. Failures become `WriteError`s naming the
  * caller's path and the cause in plain words.
  *
- * Before each write the target's folder is swept of temporary files that killed runs left behind
- * ({@link sweepTempFiles}).
+ * Before a write the target's folder is swept of temporary files that killed runs left behind
+ * ({@link sweepTempFiles}; at most once a minute per folder in one process).
  */
 import * as fs from 'node:fs';
 import * as fsp from 'node:fs/promises';
 import { randomBytes } from 'node:crypto';
-import { basename, dirname, join } from 'node:path';
+import { basename, dirname, join, resolve } from 'node:path';
 import { explainWriteError, resolveWriteTarget, type WriteTarget } from './guard.js';
 
 function tempPathFor(path: string): string {
@@ -52,6 +52,23 @@ function processExists(pid: number): boolean {
   } catch (e) {
     return (e as NodeJS.ErrnoException).code !== 'ESRCH'; // EPERM: it exists, owned by another user
   }
+}
+
+/**
+ * When this process last swept each folder (ms): a folder is swept again only after
+ * {@link TEMP_ORPHAN_AGE_MS}, so that a batch writing thousands of files into one folder does not
+ * list it thousands of times (leftovers of killed runs are rare, and younger ones stay anyway).
+ */
+const lastSweep = new Map<string, number>();
+
+/** {@link sweepTempFiles} of the folder of `target`, unless this process swept it within the orphan age. */
+function sweepBeforeWrite(target: string): void {
+  const folder = resolve(dirname(target));
+  const now = Date.now();
+  const last = lastSweep.get(folder);
+  if (last !== undefined && now - last < TEMP_ORPHAN_AGE_MS) return;
+  lastSweep.set(folder, now);
+  sweepTempFiles(folder, now);
 }
 
 /**
@@ -190,7 +207,7 @@ export async function writeFileAtomic(path: string, data: string | Uint8Array): 
     return;
   }
   const real = target.path;
-  sweepTempFiles(dirname(real));
+  sweepBeforeWrite(real);
   const tmp = tempPathFor(real);
   const mode = await existingMode(real);
   let handle: fsp.FileHandle | undefined;
@@ -229,7 +246,7 @@ export function writeFileAtomicSync(path: string, data: AtomicData): void {
     return;
   }
   const real = target.path;
-  sweepTempFiles(dirname(real));
+  sweepBeforeWrite(real);
   const tmp = tempPathFor(real);
   const mode = existingModeSync(real);
   let fd: number | undefined;
