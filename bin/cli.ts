@@ -342,6 +342,7 @@ async function runSolve(a: SolveArgs, io: Io): Promise<number> {
       checkBatchNames(files);
       ensureFolder(a.outDir!);
       let failed = 0;
+      const batchInputs = new Set(files); // every file the batch has read so far: never an output
       const batchBar = !a.quiet && process.stderr.isTTY && files.length >= 20 ? new SingleBar({ format: 'netlists [{bar}] {value}/{total}', stream: process.stderr, clearOnComplete: true }, Presets.shades_classic) : undefined;
       batchBar?.start(files.length, 0);
       for (const file of files) {
@@ -352,7 +353,8 @@ async function runSolve(a: SolveArgs, io: Io): Promise<number> {
           const format = (a.format as OutputFormat | undefined) ?? 'touchstone';
           const ext = format === 'touchstone' ? touchstoneExtension(net.ports) : `.${format}`;
           const out = join(a.outDir!, basename(file, extname(file)) + ext);
-          checkOutputs([out], [...files, ...loaded.sources.keys()]);
+          for (const f of loaded.sources.keys()) batchInputs.add(f);
+          checkOutputs([out], batchInputs);
           writeNetwork(net, out, { ...options(file), format });
           if (!a.quiet && !batchBar) io.err(`${file} → ${out}\n`);
         } catch (e) {

@@ -209,6 +209,20 @@ describe('batch solve into one folder', () => {
     expect(existsSync(join(d, 'n', 'q.s2p'))).toBe(true);
   });
 
+  it('a batch output onto a data file an earlier netlist of the batch read is refused', async () => {
+    const d = folder('batch-data');
+    mkdirSync(join(d, 'n'));
+    expect((await run(['solve', 'x.sbx', '-o', join('n', 'dev.s2p')], d)).code).toBe(0);
+    const dev = readFileSync(join(d, 'n', 'dev.s2p'), 'utf8');
+    writeFileSync(join(d, 'n', 'b.sbx'), SERIES.replace('resistor r1 a=p1 b=p2 value=rs', 'datafile d1 file="dev.s2p" p1=p1 p2=p2'));
+    writeFileSync(join(d, 'n', 'dev.sbx'), SERIES.replace('50 ohm', '10 ohm'));
+    const r = await run(['solve', 'n/b.sbx', 'n/dev.sbx', '--out-dir', 'n'], d);
+    expect(r.code).toBe(1);
+    expect(r.err).toMatch(/the output n\/dev\.s2p is an input of this run/);
+    expect(readFileSync(join(d, 'n', 'dev.s2p'), 'utf8')).toBe(dev);
+    expect(existsSync(join(d, 'n', 'b.s2p'))).toBe(true);
+  });
+
   it('--out-dir onto a file: a plain error naming it, before anything is solved', async () => {
     const d = folder('batch-file');
     writeFileSync(join(d, 'od'), 'a file');
