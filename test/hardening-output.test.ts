@@ -307,6 +307,9 @@ describe('symbolic link, device, pipe and folder targets', () => {
     const r = await run(['solve', 'x.sbx', '-o', 'p.csv'], d);
     expect(r.code).toBe(1);
     expect(r.err).toMatch(/cannot write p\.csv: no program is reading from this pipe/);
+    // 5,000 points: about 700 KB of CSV, far more than a pipe holds (64 KiB on Linux, pipe(7), from
+    // memory), so the writer has to wait for the reader to make room
+    writeFileSync(join(d, 'long.sbx'), SERIES.replace('sweep list freqs=1 MHz, 10 MHz', 'sweep linear start=1 MHz stop=1 GHz points=5000'));
     // a reader: `cat` of the pipe, started first; it opens the pipe and waits for the writer
     const reader = spawn('cat', [fifo], { stdio: ['ignore', 'pipe', 'inherit'] });
     let got = '';
@@ -316,11 +319,14 @@ describe('symbolic link, device, pipe and folder targets', () => {
     let code: number | null = 1;
     for (let i = 0; i < 200 && code !== 0; i++) {
       await new Promise((res) => setTimeout(res, 10));
-      code = await new Promise<number | null>((res) => spawn(process.execPath, [cli, 'solve', 'x.sbx', '-o', 'p.csv'], { cwd: d, stdio: 'ignore' }).on('close', res));
+      code = await new Promise<number | null>((res) => spawn(process.execPath, [cli, 'solve', 'long.sbx', '-o', 'p.csv'], { cwd: d, stdio: 'ignore' }).on('close', res));
     }
     expect(code).toBe(0);
     await done;
-    expect(got.split('\n')[0]).toBe('freq_hz,S11_re,S11_im,S12_re,S12_im,S21_re,S21_im,S22_re,S22_im');
+    const lines = got.trim().split('\n');
+    expect(lines[0]).toBe('freq_hz,S11_re,S11_im,S12_re,S12_im,S21_re,S21_im,S22_re,S22_im');
+    expect(lines).toHaveLength(5001);
+    expect(lines[5000]!.split(',')[0]).toBe('1000000000');
     expect(lstatSync(fifo).isFIFO()).toBe(true);
   });
 

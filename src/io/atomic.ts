@@ -135,17 +135,14 @@ function existingModeSync(path: string): number | undefined {
   }
 }
 
-/** Opens a device or pipe for writing in place: never created, never truncated (appended, which a device ignores). */
-function openStreamFlags(): number {
+/**
+ * Flags to open a device or pipe for writing in place: never created, never truncated (appended,
+ * which a device ignores). A pipe is opened without blocking: with no program reading it the open
+ * fails (ENXIO) instead of waiting for ever, and a full pipe is waited on in {@link writeAllSync}.
+ */
+function openStreamFlags(pipe: boolean): number {
   const c = fs.constants;
-  return c.O_WRONLY | c.O_APPEND | (c.O_NOCTTY ?? 0);
-}
-
-/** A pipe nobody reads would make the open wait for ever: refuse it instead (ENXIO). */
-function probePipe(target: WriteTarget): void {
-  if (target.kind !== 'stream' || !target.pipe) return;
-  const fd = fs.openSync(target.path, fs.constants.O_WRONLY | fs.constants.O_NONBLOCK);
-  fs.closeSync(fd);
+  return c.O_WRONLY | c.O_APPEND | (c.O_NOCTTY ?? 0) | (pipe ? c.O_NONBLOCK : 0);
 }
 
 const pause = new Int32Array(new SharedArrayBuffer(4));
@@ -158,7 +155,7 @@ function writeAllSync(fd: number, data: AtomicData): void {
       try {
         off += fs.writeSync(fd, bytes, off, bytes.length - off);
       } catch (e) {
-        // a descriptor we did not open (the standard output) may be non-blocking: wait for room
+        // a pipe (opened non-blocking) or a descriptor we did not open may be full: wait for room
         if ((e as NodeJS.ErrnoException).code !== 'EAGAIN') throw e;
         Atomics.wait(pause, 0, 0, 2);
       }
@@ -172,8 +169,7 @@ function writeStreamSync(target: Extract<WriteTarget, { kind: 'stream' }>, data:
     writeAllSync(target.fd, data); // not ours to close
     return;
   }
-  probePipe(target);
-  const fd = fs.openSync(target.path, openStreamFlags());
+  const fd = fs.openSync(target.path, openStreamFlags(target.pipe));
   try {
     writeAllSync(fd, data);
   } finally {
@@ -186,23 +182,10 @@ export async function writeFileAtomic(path: string, data: string | Uint8Array): 
   const target = resolveWriteTarget(path);
   const bytes = toBytes(data);
   if (target.kind === 'stream') {
-    if (target.fd !== undefined) {
-      try {
-        writeAllSync(target.fd, bytes);
-      } catch (err) {
-        throw explainWriteError(err, path);
-      }
-      return;
-    }
-    let h: fsp.FileHandle | undefined;
     try {
-      probePipe(target);
-      h = await fsp.open(target.path, openStreamFlags());
-      await h.writeFile(bytes);
+      writeStreamSync(target, bytes); // in place, as the synchronous writer does
     } catch (err) {
       throw explainWriteError(err, path);
-    } finally {
-      await h?.close().catch(() => undefined);
     }
     return;
   }
