@@ -87,3 +87,11 @@ export function checkReportJson(input: { netlist: string; specs: readonly SpecRe
   };
   return JSON.stringify(out, null, 2) + '\n';
 }
+
+/**
+ * The JSON report of a `scatterbox check` that stopped on an input error: `pass` false, no
+ * results, and `error` the messages as printed.
+ */
+export function checkErrorJson(input: { netlist: string; error: string }): string {
+  return JSON.stringify({ schema: 'scatterbox.check/1', netlist: input.netlist, pass: false, error: input.error, specs: [], golden: null }, null, 2) + '\n';
+}
