@@ -719,13 +719,17 @@ const NUMERIC_OPTIONS: [option: string, key: string, accepts: (x: number) => boo
   ['floor-db', 'floorDb', (x) => Number.isFinite(x), 'a finite number (dB)'],
   ['digits', 'digits', (x) => Number.isInteger(x) && x >= 1 && x <= 17, 'a whole number from 1 to 17'],
   ['jobs', 'jobs', (x) => Number.isInteger(x) && x >= 1, 'a whole number ≥ 1'],
+];
+/** Numeric options of `plot` alone (`microstrip --height` is a length with units). */
+const PLOT_OPTIONS: typeof NUMERIC_OPTIONS = [
   ['width', 'width', (x) => Number.isInteger(x) && x >= 1, 'a whole number of pixels ≥ 1'],
   ['height', 'height', (x) => Number.isInteger(x) && x >= 1, 'a whole number of pixels ≥ 1'],
 ];
 
 /** yargs check: every numeric option given is one value and within its range. */
 function checkNumericOptions(argv: Record<string, unknown>): true {
-  for (const [option, key, accepts, what] of NUMERIC_OPTIONS) {
+  const command = Array.isArray(argv._) ? argv._[0] : undefined;
+  for (const [option, key, accepts, what] of command === 'plot' ? [...NUMERIC_OPTIONS, ...PLOT_OPTIONS] : NUMERIC_OPTIONS) {
     const v = argv[key];
     if (v === undefined) continue;
     if (Array.isArray(v)) throw new Error(`--${option} is given more than once`);

@@ -45,7 +45,7 @@ export function formatComparisonTable(c: Comparison, parameter = 'S'): string {
 }
 
 /** The machine-readable report of `scatterbox check --json`. */
-export function checkReportJson(input: { netlist: string; specs: readonly SpecResult[]; golden?: { file: string; comparison: Comparison } }): string {
+export function checkReportJson(input: { netlist: string; specs: readonly SpecResult[]; golden?: { file: string; comparison: Comparison; note?: string } }): string {
   const num = (x: number) => (Number.isFinite(x) ? x : Number.isNaN(x) ? null : x > 0 ? 'inf' : '-inf');
   const out = {
     schema: 'scatterbox.check/1',
@@ -69,6 +69,8 @@ export function checkReportJson(input: { netlist: string; specs: readonly SpecRe
     golden: input.golden
       ? {
           file: input.golden.file,
+          // set when the solved data was renormalised to the golden file's references
+          ...(input.golden.note ? { note: input.golden.note } : {}),
           pass: input.golden.comparison.pass,
           tolerance: input.golden.comparison.tolerance,
           entries: input.golden.comparison.entries.map((e) => ({
