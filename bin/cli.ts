@@ -567,11 +567,7 @@ interface MicrostripArgs {
 
 function runMicrostrip(a: MicrostripArgs, io: Io): number {
   try {
-    const z0 = evaluateQuantity(a.z0, 'ohm', '--z0');
-    const h = evaluateQuantity(a.height, 'm', '--height');
-    const er = evaluateQuantity(a.er, null, '--er');
-    const t = evaluateQuantity(a.thickness, 'm', '--thickness');
-    const f = evaluateQuantity(a.freq, 'Hz', '--freq');
+    const { z0, h, er, t, f } = microstripInputs(a);
     const w = microstripWidth(z0, h, t, er, f);
     const line = f > 0 ? microstripDispersive(f, w, h, t, er) : microstripStatic(w, h, t, er);
     const lambda = f > 0 ? 299792458 / (f * Math.sqrt(line.eeff)) : NaN;
@@ -690,7 +686,7 @@ function describeError(e: unknown, quiet: boolean, file?: string): string {
   if (e instanceof ConversionError) return `error: ${e.message}\n  help: write S-parameters (--param S), which exist for every solvable network`;
   if (e instanceof OutputError) return `error: ${e.message}${e.help ? `\n  help: ${e.help}` : ''}`;
   if (e instanceof TouchstoneError) return `${e.describe()}`;
-  if (e instanceof RangeError || (e instanceof Error && e.name === 'TwoPortConversionError') || (e instanceof Error && e.name === 'FrequencyGridError')) return `error: ${e.message}`;
+  if (e instanceof RangeError || (e instanceof Error && e.name === 'TwoPortConversionError') || (e instanceof Error && e.name === 'FrequencyGridError')) return `error: ${withoutInternalName(e.message)}`;
   if (e instanceof FigureError) return `error: ${e.detail}${e.help ? `\n  help: ${e.help}` : ''}`;
   if (e instanceof CompareError || e instanceof InputsError) return `error: ${e.message}${'help' in e && e.help ? `\n  help: ${e.help}` : ''}`;
   const err = e as NodeJS.ErrnoException;
@@ -698,7 +694,12 @@ function describeError(e: unknown, quiet: boolean, file?: string): string {
     const what = err.code === 'ENOENT' ? 'no such file or folder' : err.code === 'EACCES' ? 'permission denied' : err.message;
     return `error: ${err.path}: ${what}`;
   }
-  return `error: ${(e as Error).message ?? String(e)}`;
+  return `error: ${withoutInternalName((e as Error).message ?? String(e))}`;
+}
+
+/** A message from a model's argument check may begin with the function's name (`microstripWidth: …`): never shown. */
+function withoutInternalName(message: string): string {
+  return message.replace(/^[a-z]+[A-Z][A-Za-z0-9]*: /, '');
 }
 
 /** `--touchstone`: 1.1 or 2.0, also written 2, 2.00 or 1.10 (a script may pass the version as a number). */
@@ -841,4 +842,33 @@ function replaceable(path: string, ours: RegExp): boolean {
   } finally {
     closeSync(fd);
   }
+}
+
+/** The inputs of `microstrip`, each with units, checked for the range the models take; every bad one reported, located in its option. */
+function microstripInputs(a: MicrostripArgs): { z0: number; h: number; er: number; t: number; f: number } {
+  const inputs: [key: 'z0' | 'h' | 'er' | 't' | 'f', option: string, text: string, unit: string | null, accepts: (x: number) => boolean, what: string][] = [
+    ['z0', '--z0', a.z0, 'ohm', (x) => x > 0, 'above 0'],
+    ['h', '--height', a.height, 'm', (x) => x > 0, 'above 0'],
+    ['er', '--er', a.er, null, (x) => x >= 1, 'at least 1'],
+    ['t', '--thickness', a.thickness, 'm', (x) => x >= 0, '0 or more'],
+    ['f', '--freq', a.freq, 'Hz', (x) => x >= 0, '0 or more'],
+  ];
+  const diagnostics: Diagnostic[] = [];
+  const sources = new Map<string, string>();
+  const out = { z0: NaN, h: NaN, er: NaN, t: NaN, f: NaN };
+  for (const [key, option, text, unit, accepts, what] of inputs) {
+    sources.set(option, text);
+    try {
+      const v = evaluateQuantity(text, unit, option);
+      if (!(Number.isFinite(v) && accepts(v))) {
+        diagnostics.push({ severity: 'error', code: 'bad-value', message: `${option} must be a finite number ${what}, got ${v}`, span: { file: option, line: 1, column: 1, length: Math.max(1, text.length) } });
+      }
+      out[key] = v;
+    } catch (e) {
+      if (!(e instanceof InputError)) throw e;
+      diagnostics.push(...e.diagnostics);
+    }
+  }
+  if (diagnostics.length > 0) throw new InputError(diagnostics, sources);
+  return out;
 }

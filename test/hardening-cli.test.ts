@@ -383,3 +383,22 @@ describe('--strict', () => {
     expect(existsSync(join(dir, 'near-strict.s1p'))).toBe(false);
   });
 });
+
+describe('microstrip inputs', () => {
+  it('every input out of the models\' range is a located error at its option, all of them in one run', () => {
+    const r = run(['microstrip', '--z0=-50 ohm', '--height', '0 mm', '--er', '0.5']);
+    expect(r.code).toBe(1);
+    expect(r.err).toMatch(/--z0:1:1: error: --z0 must be a finite number above 0, got -50/);
+    expect(r.err).toMatch(/--height:1:1: error: --height must be a finite number above 0, got 0/);
+    // a relative permittivity below 1 (that of vacuum) is no substrate (common practice)
+    expect(r.err).toMatch(/--er:1:1: error: --er must be a finite number at least 1, got 0\.5/);
+    expect(r.err).toMatch(/3 errors/);
+  });
+
+  it('an impedance no strip width gives is an error that names no internal function', () => {
+    const r = run(['microstrip', '--z0', '5000 ohm', '--height', '1.6 mm', '--er', '4.4']);
+    expect(r.code).toBe(1);
+    expect(r.err).toMatch(/^error: /);
+    expect(r.err).not.toMatch(/\b[a-z]+[A-Z][A-Za-z0-9]*:/);
+  });
+});
