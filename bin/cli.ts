@@ -189,7 +189,7 @@ export async function main(argv: string[], io: Io = defaultIo): Promise<number> 
         solveOptions(y)
           .positional('input', { type: 'string', describe: 'netlist (.sbx) or network-data file (.sNp, .json)', demandOption: true })
           .option('out', { alias: 'o', type: 'string', demandOption: true, describe: 'the HTML file to write' })
-          .option('at', { type: 'string', describe: 'frequencies for the table, comma-separated, e.g. "2.40 GHz, 2.44 GHz"' })
+          .option('at', { type: 'string', describe: 'frequencies for the table, comma-separated, inside the sweep (the nearest point is shown), e.g. "2.40 GHz, 2.44 GHz"' })
           .option('entry', { type: 'string', array: true, describe: 'entries to plot, e.g. 21 11 (default: all)' })
           .option('title', { type: 'string', describe: 'title (default: the netlist title or the file name)' })
           .example('$0 report circuits/bandpass-2g4.sbx -o report.html', 'report of a demo, specs included')
