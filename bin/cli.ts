@@ -1,15 +1,16 @@
-import { existsSync } from 'node:fs';
+import { closeSync, existsSync, lstatSync, openSync, readSync } from 'node:fs';
 import { availableParallelism } from 'node:os';
 import { closeSweepPool, solveSweepParallel } from '../src/solve/parallel.js';
 import { solveSweep } from '../src/solve/sweep.js';
 import type { Circuit } from '../src/elaborate/circuit.js';
-import { basename, extname, join } from 'node:path';
+import type { Diagnostic } from '../src/diagnostics/diagnostic.js';
+import { basename, extname, join, resolve } from 'node:path';
 import { Presets, SingleBar } from 'cli-progress';
 import yargs, { type Argv } from 'yargs';
-import { compareNetworks, CompareError, type Comparison, type Tolerance } from '../src/check/compare.js';
+import { alignReferences, compareNetworks, CompareError, type Comparison, type Tolerance } from '../src/check/compare.js';
 import { evaluateSpecs } from '../src/check/evaluate.js';
-import { comparisonSuite, formatJunit, specSuite, type JunitSuite } from '../src/check/junit.js';
-import { checkReportJson, formatComparisonTable, formatSpecTable } from '../src/check/report.js';
+import { comparisonSuite, errorSuite, formatJunit, specSuite, type JunitSuite } from '../src/check/junit.js';
+import { checkErrorJson, checkReportJson, formatComparisonTable, formatSpecTable } from '../src/check/report.js';
 import { writeFileAtomicSync } from '../src/io/atomic.js';
 import { checkBatchNames, checkOutputs, ensureFolder } from '../src/io/guard.js';
 import { expandInputs, InputsError } from '../src/io/inputs.js';
@@ -75,7 +76,8 @@ const solveOptions = (y: Argv) =>
     .option('jobs', { alias: 'j', type: 'number', default: availableParallelism(), describe: 'threads for long sweeps, this one included (1: solve in one thread)' })
     .option('set', { type: 'string', array: true, describe: 'override a parameter: name=value, with units (repeatable)' })
     .option('sweep', { type: 'string', describe: 'replace the netlist sweep: segments as after `sweep`, joined by `;`' })
-    .option('quiet', { alias: 'q', type: 'boolean', default: false, describe: 'do not print warnings' });
+    .option('quiet', { alias: 'q', type: 'boolean', default: false, describe: 'do not print warnings' })
+    .option('strict', { type: 'boolean', default: false, describe: 'treat every warning as an error (exit as for an input error), e.g. in CI' });
 
 /** Runs the command line; returns the exit code. */
 export async function main(argv: string[], io: Io = defaultIo): Promise<number> {
@@ -92,7 +94,7 @@ export async function main(argv: string[], io: Io = defaultIo): Promise<number> 
           .option('out', { alias: 'o', type: 'string', describe: 'output file; the format follows the extension (.sNp, .csv, .json)' })
           .option('out-dir', { type: 'string', describe: 'with several netlists: the folder to write one file per netlist into (<name>.sNp, or .csv/.json with --format)' })
           .option('format', { choices: ['touchstone', 'csv', 'json', 'table'] as const, describe: 'output format (default: from the extension; table without -o)' })
-          .option('touchstone', { choices: ['1.1', '2.0'] as const, describe: 'Touchstone version (default 1.1 when all port references are equal, else 2.0)' })
+          .option('touchstone', { type: 'string', coerce: touchstoneVersion, describe: 'Touchstone version: 1.1 or 2.0 (default 1.1 when all port references are equal, else 2.0)' })
           .option('data', { choices: ['ri', 'ma', 'db'] as const, default: 'ri', describe: 'complex format: real/imaginary, magnitude/angle, dB/angle' })
           .option('freq-unit', { choices: ['Hz', 'kHz', 'MHz', 'GHz'] as const, default: 'GHz', describe: 'frequency unit of Touchstone files' })
           .option('param', { choices: ['S', 'Z', 'Y'] as const, default: 'S', describe: 'parameters to write (Z and Y where they exist)' })
@@ -150,10 +152,10 @@ export async function main(argv: string[], io: Io = defaultIo): Promise<number> 
           .positional('input', { type: 'string', describe: 'network-data file (.sNp or .json)', demandOption: true })
           .option('out', { alias: 'o', type: 'string', demandOption: true, describe: 'output file (.sNp, .csv or .json)' })
           .option('to', { choices: ['S', 'Z', 'Y', 'ABCD', 'T', 'H'] as const, default: 'S', describe: 'representation to write (ABCD, T and H: two-ports, to .csv or .json)' })
-          .option('renormalize', { type: 'string', describe: 'new reference impedances in ohms: one for all ports, or one per port (50,75)' })
+          .option('renormalize', { type: 'string', describe: 'new reference impedances, with units (ohm if none): one for all ports, or one per port ("50 ohm, 75 ohm")' })
           .option('mixed-mode', { type: 'string', describe: 'single-ended port pairs forming differential pairs, p,n;p,n (e.g. "1,3;2,4")' })
           .option('format', { choices: ['touchstone', 'csv', 'json'] as const, describe: 'output format (default: from the extension)' })
-          .option('touchstone', { choices: ['1.1', '2.0'] as const, describe: 'Touchstone version' })
+          .option('touchstone', { type: 'string', coerce: touchstoneVersion, describe: 'Touchstone version: 1.1 or 2.0' })
           .option('data', { choices: ['ri', 'ma', 'db'] as const, default: 'ri', describe: 'complex format' })
           .option('freq-unit', { choices: ['Hz', 'kHz', 'MHz', 'GHz'] as const, default: 'GHz', describe: 'frequency unit of Touchstone files' })
           .option('digits', { type: 'number', describe: 'significant digits of written numbers' })
@@ -188,7 +190,7 @@ export async function main(argv: string[], io: Io = defaultIo): Promise<number> 
         solveOptions(y)
           .positional('input', { type: 'string', describe: 'netlist (.sbx) or network-data file (.sNp, .json)', demandOption: true })
           .option('out', { alias: 'o', type: 'string', demandOption: true, describe: 'the HTML file to write' })
-          .option('at', { type: 'string', describe: 'frequencies for the table, comma-separated, e.g. "2.40 GHz, 2.44 GHz"' })
+          .option('at', { type: 'string', describe: 'frequencies for the table, comma-separated, inside the sweep (the nearest point is shown), e.g. "2.40 GHz, 2.44 GHz"' })
           .option('entry', { type: 'string', array: true, describe: 'entries to plot, e.g. 21 11 (default: all)' })
           .option('title', { type: 'string', describe: 'title (default: the netlist title or the file name)' })
           .example('$0 report circuits/bandpass-2g4.sbx -o report.html', 'report of a demo, specs included')
@@ -216,6 +218,7 @@ export async function main(argv: string[], io: Io = defaultIo): Promise<number> 
       },
     )
     .demandCommand(1, 'give a command, e.g. `scatterbox solve circuits/harmonic-lowpass-433.sbx`')
+    .check(checkNumericOptions)
     .strict()
     .recommendCommands()
     .example('$0 solve circuits/harmonic-lowpass-433.sbx -o lowpass.s2p', 'solve a demo and write Touchstone')
@@ -260,6 +263,7 @@ interface SolveArgs {
   figures?: string;
   jobs: number;
   quiet: boolean;
+  strict?: boolean;
 }
 
 /**
@@ -289,15 +293,38 @@ const PROGRESS_MIN_POINTS = 2000;
  * Solves the sweep, on worker threads where it is big enough. `quiet`: no progress bar; `warnIo`:
  * where to print a warning that the system came close to singular (none when undefined).
  */
-async function solveWith(circuit: Circuit, jobs: number, quiet = false, warnIo?: Io) {
+async function solveWith(circuit: Circuit, jobs: number, quiet = false, warnIo?: Io, context: SolveContext = {}) {
   const bar = !quiet && process.stderr.isTTY && circuit.frequencies.length >= PROGRESS_MIN_POINTS ? progressBar('sweep', circuit.frequencies.length) : undefined;
-  const onWarning = warnIo ? (message: string) => warnIo.err(`warning: ${message}\n`) : undefined;
+  const held: string[] = [];
+  const onWarning = context.strict
+    ? (message: string) => void held.push(message)
+    : warnIo
+      ? (message: string) => warnIo.err(`warning: ${context.file ? `${context.file}: ` : ''}${message}\n`)
+      : undefined;
   try {
     const work = circuit.frequencies.length * (circuit.nodeNames.length + circuit.elements.length);
-    if (jobs > 1 && circuit.frequencies.length >= PARALLEL_MIN_POINTS_PER_JOB * jobs && work >= PARALLEL_MIN_WORK) return await solveSweepParallel(circuit, { jobs, onProgress: bar?.update, onWarning });
-    return solveSweep(circuit, { onProgress: bar?.update, onWarning });
+    const net =
+      jobs > 1 && circuit.frequencies.length >= PARALLEL_MIN_POINTS_PER_JOB * jobs && work >= PARALLEL_MIN_WORK
+        ? await solveSweepParallel(circuit, { jobs, onProgress: bar?.update, onWarning })
+        : solveSweep(circuit, { onProgress: bar?.update, onWarning });
+    if (held.length > 0) throw new StrictError(held);
+    return net;
   } finally {
     bar?.stop();
+  }
+}
+
+/** What {@link solveWith} needs beyond the circuit: `strict` turns the solver's warnings into an error; `file` names the netlist in warnings (batches). */
+interface SolveContext {
+  strict?: boolean;
+  file?: string;
+}
+
+/** Warnings raised after loading (the solver's) under `--strict`. */
+class StrictError extends Error {
+  constructor(readonly warnings: string[]) {
+    super(warnings.join('\n'));
+    this.name = 'StrictError';
   }
 }
 
@@ -317,10 +344,23 @@ function progressBar(what: string, total: number) {
   };
 }
 
-function load(a: { set?: string[]; sweep?: string; quiet: boolean }, file: string, io: Io) {
-  const loaded = loadNetlistFile(file, { set: a.set, sweep: a.sweep });
-  if (!a.quiet && loaded.warnings.length > 0) io.err(formatDiagnostics(loaded.warnings, loaded.sources) + '\n');
+function load(a: { set?: string[]; sweep?: string; quiet: boolean; strict?: boolean }, file: string, io: Io, batch = false) {
+  const loaded = loadNetlistFile(file, { set: a.set, sweep: a.sweep, strict: a.strict });
+  if (a.strict && loaded.warnings.length > 0) throw strictLoadError(loaded.warnings, loaded.sources);
+  if (!a.quiet && loaded.warnings.length > 0) {
+    // in a batch, warnings located elsewhere (an included file, --set) still name the netlist
+    const elsewhere = batch && loaded.warnings.some((w) => w.span?.file !== file);
+    io.err((elsewhere ? `warnings while loading ${file}:\n` : '') + formatDiagnostics(loaded.warnings, loaded.sources) + '\n');
+  }
   return loaded;
+}
+
+/** Under --strict, the warnings of a load as errors (the library does this itself where it knows the option). */
+function strictLoadError(warnings: Diagnostic[], sources: Map<string, string>): InputError {
+  return new InputError(
+    warnings.map((w) => ({ ...w, severity: 'error' as const, help: w.help ? `${w.help} (a warning, made an error by --strict)` : 'a warning, made an error by --strict' })),
+    sources,
+  );
 }
 
 async function runSolve(a: SolveArgs, io: Io): Promise<number> {
@@ -347,8 +387,8 @@ async function runSolve(a: SolveArgs, io: Io): Promise<number> {
       batchBar?.start(files.length, 0);
       for (const file of files) {
         try {
-          const loaded = load(a, file, io);
-          const net = await solveWith(loaded.circuit, a.jobs, true, a.quiet ? undefined : io);
+          const loaded = load(a, file, io, true);
+          const net = await solveWith(loaded.circuit, a.jobs, true, a.quiet ? undefined : io, { strict: a.strict, file });
           batchBar?.increment();
           const format = (a.format as OutputFormat | undefined) ?? 'touchstone';
           const ext = format === 'touchstone' ? touchstoneExtension(net.ports) : `.${format}`;
@@ -359,7 +399,7 @@ async function runSolve(a: SolveArgs, io: Io): Promise<number> {
           if (!a.quiet && !batchBar) io.err(`${file} → ${out}\n`);
         } catch (e) {
           failed++;
-          io.err(describeError(e, a.quiet) + '\n');
+          io.err(describeError(e, a.quiet, file) + '\n');
         }
       }
       batchBar?.stop();
@@ -368,7 +408,7 @@ async function runSolve(a: SolveArgs, io: Io): Promise<number> {
     }
     const loaded = load(a, files[0]!, io);
     checkOutputs([a.out], loaded.sources.keys());
-    const net = await solveWith(loaded.circuit, a.jobs, a.quiet, a.quiet ? undefined : io);
+    const net = await solveWith(loaded.circuit, a.jobs, a.quiet, a.quiet ? undefined : io, { strict: a.strict });
     if (a.figures !== undefined) {
       if (a.out || batch) throw new OutputError('--figures prints to the terminal', 'leave out -o (use --format csv for CSV on stdout)');
       const columns = splitFigures(a.figures).map((text) => {
@@ -419,15 +459,16 @@ interface ReportArgs {
   sweep?: string;
   jobs: number;
   quiet: boolean;
+  strict?: boolean;
 }
 
 /** Solves a netlist (with its specs) or reads a data file, for `report` and `plot`. */
-async function networkOf(a: { input: string; set?: string[]; sweep?: string; jobs: number; quiet: boolean }, io: Io) {
+async function networkOf(a: { input: string; set?: string[]; sweep?: string; jobs: number; quiet: boolean; strict?: boolean }, io: Io) {
   if (formatFromPath(a.input) || extname(a.input).toLowerCase() === '.json') {
     return { net: readNetworkFile(a.input), circuit: undefined, specs: undefined, inputs: [a.input] };
   }
   const { circuit, sources } = load(a, a.input, io);
-  const net = await solveWith(circuit, a.jobs, a.quiet, a.quiet ? undefined : io);
+  const net = await solveWith(circuit, a.jobs, a.quiet, a.quiet ? undefined : io, { strict: a.strict });
   return { net, circuit, specs: evaluateSpecs(circuit.specs, net), inputs: [...sources.keys()] };
 }
 
@@ -450,7 +491,7 @@ function parseEntries(list: string[] | undefined, ports: number): [number, numbe
 async function runReport(a: ReportArgs, io: Io): Promise<number> {
   try {
     const { net, circuit, specs, inputs } = await networkOf(a, io);
-    const tableFrequencies = a.at ? a.at.split(',').map((t) => evaluateQuantity(t.trim(), 'Hz', '--at')) : undefined;
+    const tableFrequencies = a.at ? frequenciesInSweep(a.at, net.frequencies) : undefined;
     const html = renderReport({ title: a.title, source: a.input, net, circuit, specs, tableFrequencies, entries: parseEntries(a.entry, net.ports) });
     checkOutputs([a.out], inputs);
     writeFileAtomicSync(a.out, html);
@@ -508,7 +549,7 @@ function runConvert(a: ConvertArgs, io: Io): number {
       net,
       {
         to: a.to,
-        renormalize: a.renormalize ? Array.from(parseReferences(a.renormalize, net.ports)) : undefined,
+        renormalize: a.renormalize ? Array.from(parseReferences(referenceList(a.renormalize).join(','), net.ports)) : undefined,
         pairs: a.mixedMode ? parsePairs(a.mixedMode) : undefined,
         format: a.format,
         version: a.touchstone,
@@ -537,11 +578,7 @@ interface MicrostripArgs {
 
 function runMicrostrip(a: MicrostripArgs, io: Io): number {
   try {
-    const z0 = evaluateQuantity(a.z0, 'ohm', '--z0');
-    const h = evaluateQuantity(a.height, 'm', '--height');
-    const er = evaluateQuantity(a.er, null, '--er');
-    const t = evaluateQuantity(a.thickness, 'm', '--thickness');
-    const f = evaluateQuantity(a.freq, 'Hz', '--freq');
+    const { z0, h, er, t, f } = microstripInputs(a);
     const w = microstripWidth(z0, h, t, er, f);
     const line = f > 0 ? microstripDispersive(f, w, h, t, er) : microstripStatic(w, h, t, er);
     const lambda = f > 0 ? 299792458 / (f * Math.sqrt(line.eeff)) : NaN;
@@ -583,6 +620,7 @@ interface CheckArgs extends ToleranceArgs {
   sweep?: string;
   jobs: number;
   quiet: boolean;
+  strict?: boolean;
 }
 
 async function runCheck(a: CheckArgs, io: Io): Promise<number> {
@@ -590,9 +628,12 @@ async function runCheck(a: CheckArgs, io: Io): Promise<number> {
     if (a.update && !a.against) throw new OutputError('--update rewrites the golden file named by --against, but none was given', 'add --against FILE');
     const { circuit, sources } = load(a, a.netlist, io);
     checkOutputs([a.update ? a.against : undefined, a.junit, a.json], [...sources.keys(), ...(a.against && !a.update ? [a.against] : [])]);
-    const net = await solveWith(circuit, a.jobs, a.quiet, a.quiet ? undefined : io);
+    if (circuit.specs.length === 0 && !a.against) {
+      throw new OutputError(`${a.netlist} has no spec statements, so there is nothing to check`, 'add `spec` statements to the netlist, or compare with a golden file (--against FILE)');
+    }
+    const net = await solveWith(circuit, a.jobs, a.quiet, a.quiet ? undefined : io, { strict: a.strict });
     const results = evaluateSpecs(circuit.specs, net);
-    let golden: { file: string; comparison: Comparison } | undefined;
+    let golden: { file: string; comparison: Comparison; note?: string } | undefined;
     if (a.against && a.update) {
       writeNetwork(net, a.against, { comments: [`scatterbox check ${basename(a.netlist)} --update`] });
       io.err(`updated ${a.against}\n`);
@@ -600,10 +641,12 @@ async function runCheck(a: CheckArgs, io: Io): Promise<number> {
       if (!existsSync(a.against)) {
         throw new OutputError(`the golden file ${a.against} does not exist`, `run with --update to create it from this solve`);
       }
-      golden = { file: a.against, comparison: compareNetworks(net, readNetworkFile(a.against), tolerance(a)) };
+      const expected = readNetworkFile(a.against);
+      const aligned = alignReferences(net, expected, { actual: `the solve of ${a.netlist}`, expected: a.against });
+      golden = { file: a.against, comparison: compareNetworks(aligned.net, expected, tolerance(a)), note: aligned.note };
     }
     io.out(formatSpecTable(results));
-    if (golden) io.out(`\nagainst ${golden.file}:\n${formatComparisonTable(golden.comparison, net.parameter)}`);
+    if (golden) io.out(`\nagainst ${golden.file}:\n${golden.note ? `note: ${golden.note}\n` : ''}${formatComparisonTable(golden.comparison, net.parameter)}`);
     const suites: JunitSuite[] = [specSuite(a.netlist, results)];
     if (golden) suites.push(comparisonSuite(golden.file, golden.comparison));
     if (a.junit) writeFileAtomicSync(a.junit, formatJunit(suites));
@@ -612,7 +655,9 @@ async function runCheck(a: CheckArgs, io: Io): Promise<number> {
     io.out(failed === 0 ? `\nall ${suites.reduce((n, s) => n + s.cases.length, 0)} checks pass\n` : `\n${failed} check${failed === 1 ? '' : 's'} failed\n`);
     return failed === 0 ? EXIT_OK : EXIT_INPUT;
   } catch (e) {
-    io.err(describeError(e, a.quiet) + '\n');
+    const text = describeError(e, a.quiet);
+    io.err(text + '\n');
+    writeErrorReports(a, text, io);
     return EXIT_CHECK_INPUT;
   }
 }
@@ -624,7 +669,10 @@ interface DiffArgs extends ToleranceArgs {
 
 function runDiff(a: DiffArgs, io: Io): number {
   try {
-    const c = compareNetworks(readNetworkFile(a.a), readNetworkFile(a.b), tolerance(a));
+    const expected = readNetworkFile(a.b);
+    const aligned = alignReferences(readNetworkFile(a.a), expected, { actual: a.a, expected: a.b });
+    if (aligned.note) io.out(`note: ${aligned.note}\n`);
+    const c = compareNetworks(aligned.net, expected, tolerance(a));
     io.out(formatComparisonTable(c));
     io.out(c.pass ? 'within tolerance\n' : 'the files differ beyond the tolerance\n');
     return c.pass ? EXIT_OK : EXIT_INPUT;
@@ -634,17 +682,23 @@ function runDiff(a: DiffArgs, io: Io): number {
   }
 }
 
-function describeError(e: unknown, quiet: boolean): string {
+/** The message of an error as printed; `file`: the netlist it belongs to, named in a batch. */
+function describeError(e: unknown, quiet: boolean, file?: string): string {
   if (e instanceof InputError) {
     const shown = quiet ? e.diagnostics.filter((d) => d.severity === 'error') : e.diagnostics;
     const errors = e.diagnostics.filter((d) => d.severity === 'error').length;
-    return `${formatDiagnostics(shown, e.sources)}\n\n${errors} error${errors === 1 ? '' : 's'}; nothing was written`;
+    return `${formatDiagnostics(shown, e.sources)}\n\n${errors} error${errors === 1 ? '' : 's'}${file ? ` in ${file}` : ''}; nothing was written`;
   }
+  if (file !== undefined) {
+    const text = describeError(e, quiet);
+    return text.startsWith('error: ') ? `error: ${file}: ${text.slice('error: '.length)}` : `error in ${file}:\n${text}`;
+  }
+  if (e instanceof StrictError) return `${e.warnings.map((w) => `error: ${w}`).join('\n')}\n  help: a warning, made an error by --strict`;
   if (e instanceof SingularSystemError) return `error: ${e.message}${e.help ? `\n  help: ${e.help}` : ''}`;
   if (e instanceof ConversionError) return `error: ${e.message}\n  help: write S-parameters (--param S), which exist for every solvable network`;
   if (e instanceof OutputError) return `error: ${e.message}${e.help ? `\n  help: ${e.help}` : ''}`;
   if (e instanceof TouchstoneError) return `${e.describe()}`;
-  if (e instanceof RangeError || (e instanceof Error && e.name === 'TwoPortConversionError') || (e instanceof Error && e.name === 'FrequencyGridError')) return `error: ${e.message}`;
+  if (e instanceof RangeError || (e instanceof Error && e.name === 'TwoPortConversionError') || (e instanceof Error && e.name === 'FrequencyGridError')) return `error: ${withoutInternalName(e.message)}`;
   if (e instanceof FigureError) return `error: ${e.detail}${e.help ? `\n  help: ${e.help}` : ''}`;
   if (e instanceof CompareError || e instanceof InputsError) return `error: ${e.message}${'help' in e && e.help ? `\n  help: ${e.help}` : ''}`;
   const err = e as NodeJS.ErrnoException;
@@ -652,5 +706,181 @@ function describeError(e: unknown, quiet: boolean): string {
     const what = err.code === 'ENOENT' ? 'no such file or folder' : err.code === 'EACCES' ? 'permission denied' : err.message;
     return `error: ${err.path}: ${what}`;
   }
-  return `error: ${(e as Error).message ?? String(e)}`;
+  return `error: ${withoutInternalName((e as Error).message ?? String(e))}`;
+}
+
+/** A message from a model's argument check may begin with the function's name (`microstripWidth: …`): never shown. */
+function withoutInternalName(message: string): string {
+  return message.replace(/^[a-z]+[A-Z][A-Za-z0-9]*: /, '');
+}
+
+/** `--touchstone`: 1.1 or 2.0, also written 2, 2.00 or 1.10 (a script may pass the version as a number). */
+function touchstoneVersion(v: unknown): TouchstoneVersion | undefined {
+  if (v === undefined) return undefined;
+  if (Array.isArray(v)) throw new Error('--touchstone is given more than once');
+  const t = String(v).trim();
+  if (/^1\.10*$/.test(t)) return '1.1';
+  if (/^2(\.0*)?$/.test(t)) return '2.0';
+  throw new Error(`--touchstone is 1.1 or 2.0, got ${JSON.stringify(t)}`);
+}
+
+/** Numeric options and what they accept; checked before any command runs (a usage error names the option). */
+const NUMERIC_OPTIONS: [option: string, key: string, accepts: (x: number) => boolean, what: string][] = [
+  ['tol-db', 'tolDb', (x) => Number.isFinite(x) && x >= 0, 'a finite number ≥ 0 (dB)'],
+  ['tol-deg', 'tolDeg', (x) => Number.isFinite(x) && x >= 0, 'a finite number ≥ 0 (degrees)'],
+  ['tol-abs', 'tolAbs', (x) => Number.isFinite(x) && x >= 0, 'a finite number ≥ 0'],
+  ['floor-db', 'floorDb', (x) => Number.isFinite(x), 'a finite number (dB)'],
+  ['digits', 'digits', (x) => Number.isInteger(x) && x >= 1 && x <= 17, 'a whole number from 1 to 17'],
+  ['jobs', 'jobs', (x) => Number.isInteger(x) && x >= 1, 'a whole number ≥ 1'],
+];
+/** Numeric options of `plot` alone (`microstrip --height` is a length with units). */
+const PLOT_OPTIONS: typeof NUMERIC_OPTIONS = [
+  ['width', 'width', (x) => Number.isInteger(x) && x >= 1, 'a whole number of pixels ≥ 1'],
+  ['height', 'height', (x) => Number.isInteger(x) && x >= 1, 'a whole number of pixels ≥ 1'],
+];
+
+/** yargs check: every numeric option given is one value and within its range. */
+function checkNumericOptions(argv: Record<string, unknown>): true {
+  const command = Array.isArray(argv._) ? argv._[0] : undefined;
+  for (const [option, key, accepts, what] of command === 'plot' ? [...NUMERIC_OPTIONS, ...PLOT_OPTIONS] : NUMERIC_OPTIONS) {
+    const v = argv[key];
+    if (v === undefined) continue;
+    if (Array.isArray(v)) throw new Error(`--${option} is given more than once`);
+    if (typeof v !== 'number' || !accepts(v)) throw new Error(`--${option} must be ${what}, got ${String(v)}`);
+  }
+  return true;
+}
+
+/**
+ * Reads the comma-separated quantities of an option (`--at "2.4 GHz, 2.5 GHz"`), each with
+ * units as in a netlist; every bad item is reported, located in the option's text.
+ */
+function quantityList(text: string, unit: string | null, option: string): { value: number; column: number; length: number }[] {
+  const diagnostics: Diagnostic[] = [];
+  const items: { value: number; column: number; length: number }[] = [];
+  let start = 0;
+  for (const piece of text.split(',')) {
+    const item = piece.trim();
+    const column = start + (piece.length - piece.trimStart().length) + 1;
+    start += piece.length + 1;
+    if (!item) {
+      diagnostics.push({ severity: 'error', code: 'bad-value', message: `${option} has an empty item`, span: { file: option, line: 1, column: Math.max(1, Math.min(column, text.length)), length: 1 }, help: 'separate the values by single commas' });
+      continue;
+    }
+    try {
+      items.push({ value: evaluateQuantity(item, unit, option), column, length: item.length });
+    } catch (e) {
+      if (!(e instanceof InputError)) throw e;
+      for (const d of e.diagnostics) diagnostics.push(d.span ? { ...d, span: { ...d.span, file: option, line: 1, column: d.span.column + column - 1 } } : d);
+    }
+  }
+  if (diagnostics.length > 0) throw new InputError(diagnostics, new Map([[option, text]]));
+  return items;
+}
+
+/**
+ * `--at` of report: frequencies for the table, each inside the sweep (to 1e-9 relative). One
+ * between two sweep points shows the nearest point (marked with the frequency asked for); one
+ * outside the sweep is an error, located in the option's text.
+ */
+function frequenciesInSweep(text: string, sweep: Float64Array): number[] {
+  const items = quantityList(text, 'Hz', '--at');
+  const lo = sweep[0]!;
+  const hi = sweep[sweep.length - 1]!;
+  const slack = 1e-9 * Math.max(Math.abs(hi), 1);
+  const outside = items.filter((x) => !(x.value >= lo - slack && x.value <= hi + slack));
+  if (outside.length > 0) {
+    throw new InputError(
+      outside.map((x) => ({
+        severity: 'error' as const,
+        code: 'outside-sweep',
+        message: `${formatFrequency(x.value)} lies outside the sweep (${lo === hi ? formatFrequency(lo) : `${formatFrequency(lo)} to ${formatFrequency(hi)}`})`,
+        span: { file: '--at', line: 1, column: x.column, length: x.length },
+        help: 'pick frequencies inside the sweep, or widen the sweep (--sweep)',
+      })),
+      new Map([['--at', text]]),
+    );
+  }
+  return items.map((x) => x.value);
+}
+
+/** `--renormalize` of convert: reference impedances with units (ohm when none is written), each positive and finite. */
+function referenceList(text: string): number[] {
+  const items = quantityList(text, 'ohm', '--renormalize');
+  const bad = items.filter((x) => !(x.value > 0 && Number.isFinite(x.value)));
+  if (bad.length > 0) {
+    throw new InputError(
+      bad.map((x) => ({ severity: 'error' as const, code: 'bad-value', message: `a reference impedance must be positive and finite, got ${x.value} ohm`, span: { file: '--renormalize', line: 1, column: x.column, length: x.length } })),
+      new Map([['--renormalize', text]]),
+    );
+  }
+  return items.map((x) => x.value);
+}
+
+/**
+ * When `check` stops on an input error, its --junit and --json reports are still written (one
+ * case in error carrying the messages), so that CI shows the failure. Never over one of the
+ * run's inputs, and never over an existing file that is not such a report (or not a regular file).
+ */
+function writeErrorReports(a: CheckArgs, text: string, io: Io) {
+  const inputs = [a.netlist, a.against].filter((p): p is string => p !== undefined).map((p) => resolve(p));
+  const reports: [string | undefined, () => string, RegExp][] = [
+    [a.junit, () => formatJunit([errorSuite(a.netlist, text)]), /^<\?xml[^>]*>\s*<testsuites name="scatterbox"/],
+    [a.json, () => checkErrorJson({ netlist: a.netlist, error: text }), /^\{\s*"schema": "scatterbox\.check\/1"/],
+  ];
+  for (const [path, body, ours] of reports) {
+    if (!path || inputs.includes(resolve(path)) || !replaceable(path, ours)) continue;
+    try {
+      writeFileAtomicSync(path, body());
+    } catch (e) {
+      io.err(`${describeError(e, true).replace(/^error: /, `error: the report ${path} could not be written either: `)}\n`);
+    }
+  }
+}
+
+/** Whether `path` is absent, or a regular file beginning as `ours` does (a report of an earlier run). */
+function replaceable(path: string, ours: RegExp): boolean {
+  let st;
+  try {
+    st = lstatSync(path);
+  } catch {
+    return true;
+  }
+  if (!st.isFile()) return false;
+  const head = Buffer.alloc(256);
+  const fd = openSync(path, 'r');
+  try {
+    return ours.test(head.subarray(0, readSync(fd, head, 0, head.length, 0)).toString('utf8'));
+  } finally {
+    closeSync(fd);
+  }
+}
+
+/** The inputs of `microstrip`, each with units, checked for the range the models take; every bad one reported, located in its option. */
+function microstripInputs(a: MicrostripArgs): { z0: number; h: number; er: number; t: number; f: number } {
+  const inputs: [key: 'z0' | 'h' | 'er' | 't' | 'f', option: string, text: string, unit: string | null, accepts: (x: number) => boolean, what: string][] = [
+    ['z0', '--z0', a.z0, 'ohm', (x) => x > 0, 'above 0'],
+    ['h', '--height', a.height, 'm', (x) => x > 0, 'above 0'],
+    ['er', '--er', a.er, null, (x) => x >= 1, 'at least 1'],
+    ['t', '--thickness', a.thickness, 'm', (x) => x >= 0, '0 or more'],
+    ['f', '--freq', a.freq, 'Hz', (x) => x >= 0, '0 or more'],
+  ];
+  const diagnostics: Diagnostic[] = [];
+  const sources = new Map<string, string>();
+  const out = { z0: NaN, h: NaN, er: NaN, t: NaN, f: NaN };
+  for (const [key, option, text, unit, accepts, what] of inputs) {
+    sources.set(option, text);
+    try {
+      const v = evaluateQuantity(text, unit, option);
+      if (!(Number.isFinite(v) && accepts(v))) {
+        diagnostics.push({ severity: 'error', code: 'bad-value', message: `${option} must be a finite number ${what}, got ${v}`, span: { file: option, line: 1, column: 1, length: Math.max(1, text.length) } });
+      }
+      out[key] = v;
+    } catch (e) {
+      if (!(e instanceof InputError)) throw e;
+      diagnostics.push(...e.diagnostics);
+    }
+  }
+  if (diagnostics.length > 0) throw new InputError(diagnostics, sources);
+  return out;
 }

@@ -17,6 +17,8 @@ export interface LoadOptions {
   set?: string[];
   /** Sweep replacing the netlist's own: one or more segments separated by `;`, each written as after `sweep` (e.g. `linear start=1 MHz stop=1 GHz points=101`). */
   sweep?: string;
+  /** Every warning becomes an error (`--strict`). */
+  strict?: boolean;
   /** Reads an included file (default: from disk, UTF-8); paths are relative to the including file. */
   readFile?: (path: string) => string;
 }

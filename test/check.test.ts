@@ -554,14 +554,17 @@ describe('check --against a golden file', () => {
     expect(listing).toEqual(['match.s2p']); // the temporary file of the atomic write is gone
   });
 
-  it('a missing golden file is an input error (exit 3) and nothing is created', () => {
+  it('a missing golden file is an input error (exit 3) and is not created; the reports carry the error', () => {
     const out = fresh('golden-missing');
     const missing = join(out, 'match.s2p');
     const r = run(['check', demo, '--against', missing, '--junit', join(out, 'r.xml'), '--json', join(out, 'r.json')]);
     expect(r.code).toBe(3);
     expect(r.err).toContain(`the golden file ${missing} does not exist`);
     expect(r.err).toContain('--update');
-    expect(readdirSync(out)).toEqual([]);
+    // the golden file is never created; the JUnit and JSON reports say the run stopped on an input error
+    expect(readdirSync(out).sort()).toEqual(['r.json', 'r.xml']);
+    expect(readFileSync(join(out, 'r.xml'), 'utf8')).toMatch(/<error type="input" message="error: the golden file [^"]* does not exist/);
+    expect(JSON.parse(readFileSync(join(out, 'r.json'), 'utf8')).pass).toBe(false);
   });
 
   it('--update without --against is an input error (exit 3) and writes nothing', () => {

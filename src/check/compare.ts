@@ -1,3 +1,4 @@
+import { ConversionError, renormalizeNetwork } from '../network/convert.js';
 import type { NetworkData } from '../network/types.js';
 
 /** How closely two data sets must agree. */
@@ -126,4 +127,65 @@ export function compareNetworks(actual: NetworkData, expected: NetworkData, tol:
     }
   }
   return { entries, pass: allPass, tolerance };
+}
+
+/** A network brought to another's reference impedances for a comparison, and what was done. */
+export interface AlignedNetwork {
+  net: NetworkData;
+  /** Set when the references differed and `net` was renormalised: a plain sentence for the output. */
+  note?: string;
+}
+
+const REFERENCE_MATCH = 1e-12;
+
+function describeReferences(r: Float64Array): string {
+  const all = Array.from(r, (x) => `${x} Ω`);
+  return all.every((x) => x === all[0]) ? all[0]! : all.join(', ');
+}
+
+/**
+ * Brings `actual` to the reference impedances of `expected` (the reference side of a comparison),
+ * so that both describe the network seen from the same ports. S data is renormalised (Kurokawa
+ * power waves for real references, as {@link renormalizeNetwork} does); Z and Y do not depend on
+ * the references. When the references already agree (to 1e-12 relative), `actual` is returned as
+ * it is. When the two differ in their parameter or port count, nothing is done here
+ * ({@link compareNetworks} reports that). Throws {@link CompareError} when the renormalisation is
+ * impossible: complex references that differ, or S-parameters that do not exist for the new
+ * references. `names` are the labels of the two sides in messages.
+ */
+export function alignReferences(actual: NetworkData, expected: NetworkData, names: { actual: string; expected: string }): AlignedNetwork {
+  if (actual.parameter !== expected.parameter || actual.ports !== expected.ports) return { net: actual };
+  const n = actual.ports;
+  const xa = actual.referenceReactances;
+  const xb = expected.referenceReactances;
+  let sameR = true;
+  let sameX = true;
+  for (let p = 0; p < n; p++) {
+    const a = actual.references[p]!;
+    const b = expected.references[p]!;
+    if (Math.abs(a - b) > REFERENCE_MATCH * Math.max(Math.abs(a), Math.abs(b))) sameR = false;
+    if ((xa?.[p] ?? 0) !== (xb?.[p] ?? 0)) sameX = false;
+  }
+  if (sameR && sameX) return { net: actual };
+  if (xa?.some((x) => x !== 0) || xb?.some((x) => x !== 0)) {
+    throw new CompareError(
+      `${names.actual} and ${names.expected} have different reference impedances, some of them complex, and cannot be compared`,
+      'bring both to the same real reference impedances first (scatterbox convert --renormalize)',
+    );
+  }
+  const from = describeReferences(actual.references);
+  const to = describeReferences(expected.references);
+  if (actual.parameter !== 'S') {
+    return { net: { ...actual, references: expected.references.slice() }, note: `${names.actual} has references ${from}, ${names.expected} ${to}; ${actual.parameter}-parameters do not depend on them` };
+  }
+  try {
+    const net = renormalizeNetwork(actual, expected.references);
+    return { net, note: `${names.actual} renormalised from ${from} to ${to} (the references of ${names.expected}) before comparing` };
+  } catch (e) {
+    if (e instanceof ConversionError) {
+      const where = e.frequency === undefined ? '' : ` at ${e.frequency} Hz`;
+      throw new CompareError(`${names.actual} (references ${from}) cannot be renormalised to the references of ${names.expected} (${to})${where}: ${e.reason}`, 'compare files with the same reference impedances');
+    }
+    throw e;
+  }
 }

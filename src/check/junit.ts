@@ -3,13 +3,24 @@ import type { SpecResult } from './types.js';
 import { describeSpec, formatMargin, formatFrequency } from './format.js';
 
 function esc(s: string): string {
-  return s.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;').replace(/'/g, '&apos;');
+  // characters XML 1.0 does not allow (control characters, lone surrogates) become U+FFFD
+  return s.replace(/[\u0000-\u0008\u000B\u000C\u000E-\u001F\uFFFE\uFFFF]|[\uD800-\uDBFF](?![\uDC00-\uDFFF])|(?<![\uD800-\uDBFF])[\uDC00-\uDFFF]/g, '\uFFFD').replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;').replace(/'/g, '&apos;');
 }
 
 /** One group of results (a netlist, or a golden-file comparison) for a JUnit report. */
 export interface JunitSuite {
   name: string;
-  cases: { name: string; failure?: { message: string; detail: string } }[];
+  /** A case has at most one of `failure` (a check that failed) and `error` (the check could not run). */
+  cases: { name: string; failure?: { message: string; detail: string }; error?: { message: string; detail: string } }[];
+}
+
+/**
+ * A run that stopped on an input error (a bad netlist, an unreadable golden file…) as a JUnit
+ * suite: one test case in error, its text the messages as printed (file:line:column, the line, the caret).
+ */
+export function errorSuite(file: string, text: string): JunitSuite {
+  const first = text.split('\n').find((l) => /error/.test(l)) ?? text.split('\n')[0] ?? '';
+  return { name: file, cases: [{ name: 'load and solve', error: { message: first.trim(), detail: text } }] };
 }
 
 /** The spec results of one netlist as a JUnit suite: one test case per spec, named after it. */
@@ -53,24 +64,28 @@ export function comparisonSuite(file: string, c: Comparison): JunitSuite {
 
 /**
  * A JUnit XML report (the format CI systems ingest): a `<testsuites>` root, one `<testsuite>`
- * per group and one `<testcase>` per check, a failing one with a `<failure>` element.
+ * per group and one `<testcase>` per check, a failing one with a `<failure>` element, one that
+ * could not run (an input error) with an `<error>` element.
  * Deterministic: no timestamps, no host names.
  */
 export function formatJunit(suites: JunitSuite[]): string {
   const total = suites.reduce((n, s) => n + s.cases.length, 0);
   const failures = suites.reduce((n, s) => n + s.cases.filter((c) => c.failure).length, 0);
-  const out = ['<?xml version="1.0" encoding="UTF-8"?>', `<testsuites name="scatterbox" tests="${total}" failures="${failures}" errors="0">`];
+  const errors = suites.reduce((n, s) => n + s.cases.filter((c) => c.error).length, 0);
+  const out = ['<?xml version="1.0" encoding="UTF-8"?>', `<testsuites name="scatterbox" tests="${total}" failures="${failures}" errors="${errors}">`];
   for (const s of suites) {
     const f = s.cases.filter((c) => c.failure).length;
-    out.push(`  <testsuite name="${esc(s.name)}" tests="${s.cases.length}" failures="${f}" errors="0" skipped="0">`);
+    const e = s.cases.filter((c) => c.error).length;
+    out.push(`  <testsuite name="${esc(s.name)}" tests="${s.cases.length}" failures="${f}" errors="${e}" skipped="0">`);
     for (const c of s.cases) {
       const head = `    <testcase classname="${esc(s.name)}" name="${esc(c.name)}"`;
-      if (!c.failure) {
+      if (!c.failure && !c.error) {
         out.push(`${head}/>`);
         continue;
       }
       out.push(`${head}>`);
-      out.push(`      <failure type="spec" message="${esc(c.failure.message)}">${esc(c.failure.detail)}</failure>`);
+      if (c.error) out.push(`      <error type="input" message="${esc(c.error.message)}">${esc(c.error.detail)}</error>`);
+      else if (c.failure) out.push(`      <failure type="spec" message="${esc(c.failure.message)}">${esc(c.failure.detail)}</failure>`);
       out.push('    </testcase>');
     }
     out.push('  </testsuite>');

@@ -45,7 +45,7 @@ export function formatComparisonTable(c: Comparison, parameter = 'S'): string {
 }
 
 /** The machine-readable report of `scatterbox check --json`. */
-export function checkReportJson(input: { netlist: string; specs: readonly SpecResult[]; golden?: { file: string; comparison: Comparison } }): string {
+export function checkReportJson(input: { netlist: string; specs: readonly SpecResult[]; golden?: { file: string; comparison: Comparison; note?: string } }): string {
   const num = (x: number) => (Number.isFinite(x) ? x : Number.isNaN(x) ? null : x > 0 ? 'inf' : '-inf');
   const out = {
     schema: 'scatterbox.check/1',
@@ -69,6 +69,8 @@ export function checkReportJson(input: { netlist: string; specs: readonly SpecRe
     golden: input.golden
       ? {
           file: input.golden.file,
+          // set when the solved data was renormalised to the golden file's references
+          ...(input.golden.note ? { note: input.golden.note } : {}),
           pass: input.golden.comparison.pass,
           tolerance: input.golden.comparison.tolerance,
           entries: input.golden.comparison.entries.map((e) => ({
@@ -86,4 +88,12 @@ export function checkReportJson(input: { netlist: string; specs: readonly SpecRe
       : null,
   };
   return JSON.stringify(out, null, 2) + '\n';
+}
+
+/**
+ * The JSON report of a `scatterbox check` that stopped on an input error: `pass` false, no
+ * results, and `error` the messages as printed.
+ */
+export function checkErrorJson(input: { netlist: string; error: string }): string {
+  return JSON.stringify({ schema: 'scatterbox.check/1', netlist: input.netlist, pass: false, error: input.error, specs: [], golden: null }, null, 2) + '\n';
 }
