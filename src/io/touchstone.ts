@@ -51,7 +51,8 @@
  * - Output is made only of ECMAScript-specified conversions (toExponential, toPrecision, String)
  *   and Math functions, with "\n" line ends: no locale, no clock, so the same bytes every run.
  */
-import type { NetworkData, ParameterKind } from '../network/types.js';
+import { MAX_NETWORK_VALUES, MAX_PORTS, MAX_REFERENCE_OHM, MIN_REFERENCE_OHM } from '../limits.js';
+import type { NetworkData, NoiseParameters, ParameterKind } from '../network/types.js';
 
 /** Touchstone versions we read and write. */
 export type TouchstoneVersion = '1.1' | '2.0';
@@ -78,6 +79,11 @@ export interface TouchstoneReadOptions {
   fileName?: string;
   /** Port count; needed for version 1.1 when the file name gives none. */
   ports?: number;
+  /**
+   * Called for each warning of the file (line and column 1-based), e.g. noise parameters that are
+   * read but not used yet. Without it warnings are dropped.
+   */
+  onWarning?: (message: string, line: number, column: number) => void;
 }
 
 /** A reader error with its place in the file (line and column are 1-based). */
@@ -85,16 +91,26 @@ export class TouchstoneError extends Error {
   readonly file: string;
   readonly line: number;
   readonly column: number;
-  constructor(file: string, line: number, column: number, message: string) {
+  /** The text of the line the error points at, when known (for the caret display). */
+  readonly lineText: string | undefined;
+  constructor(file: string, line: number, column: number, message: string, lineText?: string) {
     super(message);
     this.name = 'TouchstoneError';
     this.file = file;
     this.line = line;
     this.column = column;
+    this.lineText = lineText;
   }
-  /** `file:line:column: message`. */
+  /** `file:line:column: message`, then the line and a caret under the column when the line is known. */
   describe(): string {
-    return `${this.file}:${this.line}:${this.column}: ${this.message}`;
+    const head = `${this.file}:${this.line}:${this.column}: ${this.message}`;
+    if (this.lineText === undefined) return head;
+    const text = this.lineText.length > 200 ? this.lineText.slice(0, 200) + ' …' : this.lineText;
+    const num = String(this.line);
+    const gutter = ' '.repeat(num.length);
+    const caretAt = Math.min(Math.max(this.column - 1, 0), text.length);
+    const pad = text.slice(0, caretAt).replace(/[^\t]/g, ' ');
+    return `${head}\n ${num} | ${text}\n ${gutter} | ${pad}^`;
   }
 }
 
@@ -399,6 +415,13 @@ function tokenize(text: string, offset: number): Token[] {
 
 type MatrixFormat = 'full' | 'lower' | 'upper';
 
+/** A copy of `a` with room for at least `need` elements (capacity doubled). */
+function grow(a: Float64Array, need: number): Float64Array<ArrayBuffer> {
+  const out = new Float64Array(Math.max(need, 2 * a.length));
+  out.set(a);
+  return out;
+}
+
 class Reader {
   private readonly file: string;
   private readonly lines: string[];
@@ -430,11 +453,19 @@ class Reader {
   private point: number[] = [];
   private pointLine = 0;
   private pointCol = 0;
-  private freqs: number[] = [];
-  private vals: number[] = [];
+  /** Line and column of each number of `point`: [line0, col0, line1, col1, …]. */
+  private pointAt: number[] = [];
+  // Typed arrays that grow by doubling: a plain array of numbers aborts the whole process (a fatal
+  // V8 error, not an exception) above about 1.3e8 elements, well below MAX_NETWORK_VALUES complex values.
+  private freqs = new Float64Array(16);
+  private nFreqs = 0;
+  private vals = new Float64Array(64);
+  private nVals = 0;
   private lastNoiseFreq = -Infinity;
   private noiseCount = 0;
   private noiseLine = 0;
+  /** Noise points as read: [f (Hz), NFmin dB, |Γopt|, ∠Γopt deg, Rn normalised] each. */
+  private readonly noise: number[] = [];
   private readonly comments: string[] = [];
 
   constructor(text: string, opts: TouchstoneReadOptions) {
@@ -445,7 +476,11 @@ class Reader {
   }
 
   private fail(line: number, col: number, msg: string): never {
-    throw new TouchstoneError(this.file, line, col, msg);
+    throw new TouchstoneError(this.file, line, col, msg, this.lines[line - 1]);
+  }
+
+  private warn(line: number, col: number, msg: string): void {
+    this.opts.onWarning?.(msg, line, col);
   }
 
   read(): NetworkData {
@@ -536,7 +571,11 @@ class Reader {
       }
       case 'number of ports': {
         if (!this.optionSeen) this.fail(line, col, 'the option line (# …) must come before [Number of Ports]');
-        this.ports = this.positiveInt(this.oneArg(args, shown), shown);
+        const a = this.oneArg(args, shown);
+        this.ports = this.positiveInt(a, shown);
+        if (this.ports > MAX_PORTS) {
+          this.fail(line, a.col, `${shown} ${a.text} is above the limit of ${MAX_PORTS} ports a data file may have`);
+        }
         if (this.opts.ports !== undefined && this.opts.ports !== this.ports) {
           this.fail(line, args[0]!.col, `file has ${this.ports} ports, but ${this.opts.ports} were expected`);
         }
@@ -550,10 +589,13 @@ class Reader {
         else this.fail(line, a.col, `[Two-Port Data Order] must be 12_21 or 21_12, got "${a.text}"`);
         return;
       }
-      case 'number of frequencies':
+      case 'number of frequencies': {
         needPorts();
-        this.declaredFreqs = this.positiveInt(this.oneArg(args, shown), shown);
+        const a = this.oneArg(args, shown);
+        this.declaredFreqs = this.positiveInt(a, shown);
+        this.checkSize(this.declaredFreqs, line, a.col);
         return;
+      }
       case 'number of noise frequencies':
         needPorts();
         this.declaredNoise = this.positiveInt(this.oneArg(args, shown), shown);
@@ -594,8 +636,7 @@ class Reader {
         if (!this.seen.has('network data')) this.fail(line, col, '[Noise Data] must come after [Network Data]');
         if (this.ports !== 2) this.fail(line, col, 'noise data are only defined for 2-port files');
         if (this.declaredNoise < 0) this.fail(line, col, '[Number of Noise Frequencies] is required before [Noise Data]');
-        this.section = 'noise';
-        this.noiseLine = line;
+        this.startNoise(line, col);
         return;
       case 'end':
         this.noArgs(args, shown);
@@ -613,6 +654,22 @@ class Reader {
 
   private noArgs(args: Token[], shown: string): void {
     if (args.length > 0) this.fail(this.lineNo, args[0]!.col, `${shown} takes no value, found "${args[0]!.text}"`);
+  }
+
+  /** Fails when `points` frequency points of this file's port count pass {@link MAX_NETWORK_VALUES}. */
+  private checkSize(points: number, line: number, col: number): void {
+    const n = this.ports;
+    if (points * n * n > MAX_NETWORK_VALUES) {
+      this.fail(line, col, `${points} frequency points of a ${n}-port are ${points * n * n} complex values, above the limit of ${MAX_NETWORK_VALUES} a data file may have`);
+    }
+  }
+
+  /** Fails unless `v` (from token `t`) lies in the documented range of reference impedances. */
+  private checkReference(v: number, t: Token, what: string): void {
+    if (!(v > 0)) this.fail(this.lineNo, t.col, `${what} must be positive, got ${t.text}`);
+    if (v < MIN_REFERENCE_OHM || v > MAX_REFERENCE_OHM) {
+      this.fail(this.lineNo, t.col, `${what} ${t.text} ohm is outside the range a data file may give, ${MIN_REFERENCE_OHM} to ${MAX_REFERENCE_OHM} ohm`);
+    }
   }
 
   private positiveInt(t: Token, shown: string): number {
@@ -636,7 +693,7 @@ class Reader {
         this.fail(this.lineNo, t.col, `[Reference] needs ${this.ports} values; "${t.text}" is one too many`);
       }
       const v = this.number(t);
-      if (!(v > 0)) this.fail(this.lineNo, t.col, `reference impedance must be positive, got ${t.text}`);
+      this.checkReference(v, t, 'reference impedance');
       refs.push(v);
     }
     if (refs.length === this.ports) this.refsPending = false;
@@ -674,7 +731,7 @@ class Reader {
           const v = tokens[q + 1];
           if (v === undefined) this.fail(this.lineNo, t.col, 'option-line R needs a resistance after it');
           const r = this.number(v);
-          if (!(r > 0)) this.fail(this.lineNo, v.col, `option-line R must be positive, got ${v.text}`);
+          this.checkReference(r, v, 'option-line R');
           this.optionR = r;
           q++;
           break;
@@ -715,18 +772,20 @@ class Reader {
 
     if (this.point.length === 0) {
       const f = nums[0]! * this.scale;
-      const last = this.freqs.length > 0 ? this.freqs[this.freqs.length - 1]! : -Infinity;
+      const last = this.nFreqs > 0 ? this.freqs[this.nFreqs - 1]! : -Infinity;
       if (!(f > last)) {
-        if (this.version === '1.1' && this.ports === 2) {
-          this.section = 'noise';
-          this.noiseLine = line;
+        if (this.version === '1.1' && this.ports === 2 && this.nFreqs > 0) {
+          this.startNoise(line, tokens[0]!.col);
           return this.noiseLineData(tokens);
         }
+        this.checkFrequency(f, tokens[0]!);
         this.fail(line, tokens[0]!.col, `frequencies must increase: ${tokens[0]!.text} is not above the previous frequency`);
       }
-      if (this.version === '2.0' && this.freqs.length === this.declaredFreqs) {
+      if (this.version === '2.0' && this.nFreqs === this.declaredFreqs) {
         this.fail(line, tokens[0]!.col, `more frequency points than [Number of Frequencies] ${this.declaredFreqs}`);
       }
+      this.checkFrequency(f, tokens[0]!);
+      this.checkSize(this.nFreqs + 1, line, tokens[0]!.col);
       this.pointLine = line;
       this.pointCol = tokens[0]!.col;
     }
@@ -737,8 +796,23 @@ class Reader {
       }
       this.fail(this.pointLine, this.pointCol, `wrong count of numbers: the frequency point starting here needs ${this.perPoint}, it has ${this.point.length} before line ${line}, and line ${line} brings ${nums.length} more`);
     }
-    for (const v of nums) this.point.push(v);
+    for (let q = 0; q < nums.length; q++) {
+      this.point.push(nums[q]!);
+      this.pointAt.push(line, tokens[q]!.col);
+    }
     if (this.point.length === this.perPoint) this.storePoint();
+  }
+
+  /** Fails unless the frequency `f` (Hz, from token `t`) is finite and not negative. */
+  private checkFrequency(f: number, t: Token): void {
+    if (!Number.isFinite(f)) {
+      this.fail(this.lineNo, t.col, `frequency ${t.text} ${this.unitName()} is beyond the range of double-precision numbers (about 1.8e308 Hz)`);
+    }
+    if (f < 0) this.fail(this.lineNo, t.col, `frequencies must not be negative, got ${t.text}`);
+  }
+
+  private unitName(): string {
+    return this.scale === 1 ? 'Hz' : this.scale === 1e3 ? 'kHz' : this.scale === 1e6 ? 'MHz' : 'GHz';
   }
 
   private portsFor11(line: number, col: number): number {
@@ -746,9 +820,13 @@ class Reader {
       if (!Number.isInteger(this.opts.ports) || this.opts.ports < 1) {
         this.fail(line, col, `port count must be a positive integer, got ${this.opts.ports}`);
       }
+      if (this.opts.ports > MAX_PORTS) this.fail(line, col, `${this.opts.ports} ports is above the limit of ${MAX_PORTS} a data file may have`);
       return this.opts.ports;
     }
     const m = /\.s(\d+)p$/i.exec(this.opts.fileName ?? '');
+    if (m && Number(m[1]) > MAX_PORTS) {
+      this.fail(line, col, `the file name says ${m[1]} ports (.s${m[1]}p), above the limit of ${MAX_PORTS} a data file may have`);
+    }
     if (m && Number(m[1]) >= 1) return Number(m[1]);
     this.fail(line, col, 'unknown port count: a version 1.1 file needs a name ending in .sNp (e.g. .s2p) or the ports option');
   }
@@ -758,12 +836,20 @@ class Reader {
   private storePoint(): void {
     const n = this.ports;
     const p = this.point;
-    this.freqs.push(p[0]! * this.scale);
-    const base = this.vals.length;
-    for (let x = 0; x < 2 * n * n; x++) this.vals.push(0);
+    if (this.nFreqs === this.freqs.length) this.freqs = grow(this.freqs, this.nFreqs + 1);
+    this.freqs[this.nFreqs++] = p[0]! * this.scale;
+    const base = this.nVals;
+    if (base + 2 * n * n > this.vals.length) this.vals = grow(this.vals, base + 2 * n * n);
+    this.vals.fill(0, base, base + 2 * n * n);
+    this.nVals += 2 * n * n;
     const order = this.order;
+    // Version 1.1 Z and Y are normalised to R (z = Z/R, y = Y·R; from memory); version 2.0 are not.
+    const norm = this.version === '1.1' && this.parameter !== 'S' ? (this.parameter === 'Z' ? this.optionR : 1 / this.optionR) : 1;
     for (let q = 0; q < order.length / 2; q++) {
       decodeComplex(this.format, p[1 + 2 * q]!, p[2 + 2 * q]!, this.pair);
+      this.pair[0] = this.pair[0]! * norm;
+      this.pair[1] = this.pair[1]! * norm;
+      if (!Number.isFinite(this.pair[0]!) || !Number.isFinite(this.pair[1]!)) this.overflow(q, norm);
       const i = order[2 * q]!;
       const j = order[2 * q + 1]!;
       this.vals[base + 2 * (i * n + j)] = this.pair[0]!;
@@ -774,21 +860,48 @@ class Reader {
       }
     }
     this.point = [];
+    this.pointAt = [];
+  }
+
+  /** Fails at the pair `q` of the current point, whose decoded value is not finite. */
+  private overflow(q: number, norm: number): never {
+    const line = this.pointAt[2 + 4 * q]!;
+    const col = this.pointAt[3 + 4 * q]!;
+    const text = (l: number, c: number): string => /^\S*/.exec(this.lines[l - 1]!.slice(c - 1))![0];
+    const a = text(line, col);
+    const b = text(this.pointAt[4 + 4 * q]!, this.pointAt[5 + 4 * q]!);
+    const i = this.order[2 * q]! + 1;
+    const j = this.order[2 * q + 1]! + 1;
+    const what = `${this.parameter}${i}${j > 9 || i > 9 ? ',' : ''}${j}`;
+    const range = 'beyond the range of double-precision numbers (about 1.8e308)';
+    if (norm !== 1) {
+      this.fail(line, col, `${what} = ${a} ${b} (${this.format}) times the reference normalisation ${this.parameter === 'Z' ? `R = ${this.optionR} ohm` : `1/R = ${1 / this.optionR} S`} is ${range}`);
+    }
+    if (this.format === 'DB') this.fail(line, col, `${what}: ${a} dB is a magnitude of 10^${this.point[1 + 2 * q]! / 20}, ${range}`);
+    this.fail(line, col, `${what}: ${a} ${b} (${this.format}) is ${range}`);
   }
 
   private endNetwork(line: number): void {
     if (this.point.length > 0) {
       this.fail(this.pointLine, this.pointCol, `wrong count of numbers: the frequency point starting here has ${this.point.length}, needs ${this.perPoint} (frequency + ${this.order.length / 2} complex pairs)`);
     }
-    if (this.version === '2.0' && this.freqs.length !== this.declaredFreqs) {
-      this.fail(line, 1, `[Number of Frequencies] (line ${this.seen.get('number of frequencies')}) says ${this.declaredFreqs}, but [Network Data] has ${this.freqs.length}`);
+    if (this.version === '2.0' && this.nFreqs !== this.declaredFreqs) {
+      this.fail(line, 1, `[Number of Frequencies] (line ${this.seen.get('number of frequencies')}) says ${this.declaredFreqs}, but [Network Data] has ${this.nFreqs}`);
     }
     this.section = 'header';
   }
 
+  /** Starts the noise section at (line, col) and warns that its data are not used yet. */
+  private startNoise(line: number, col: number): void {
+    this.section = 'noise';
+    this.noiseLine = line;
+    this.warn(line, col, 'noise parameters start here; they are read and checked but not used yet (only the network data are)');
+  }
+
   private noiseLineData(tokens: Token[]): void {
     const line = this.lineNo;
-    for (const t of tokens) this.number(t);
+    const nums: number[] = [];
+    for (const t of tokens) nums.push(this.number(t));
     if (tokens.length !== 5) {
       const why = this.version === '1.1' && this.noiseCount === 0
         ? ' (a frequency not above the previous one starts the noise data of a 2-port file)'
@@ -796,8 +909,11 @@ class Reader {
       this.fail(line, tokens[tokens.length > 5 ? 5 : 0]!.col,
         `a noise data line has 5 numbers (frequency, NFmin dB, |Γopt|, angle Γopt, Rn), this one has ${tokens.length}${why}`);
     }
-    const f = Number(tokens[0]!.text) * this.scale;
+    const f = nums[0]! * this.scale;
+    this.checkFrequency(f, tokens[0]!);
     if (!(f > this.lastNoiseFreq)) this.fail(line, tokens[0]!.col, `noise frequencies must increase: ${tokens[0]!.text} is not above the previous one`);
+    if (this.noise.length / 5 >= MAX_NETWORK_VALUES) this.fail(line, tokens[0]!.col, `more than ${MAX_NETWORK_VALUES} noise points`);
+    this.noise.push(f, nums[1]!, nums[2]!, nums[3]!, nums[4]!);
     if (this.version === '2.0' && this.noiseCount === this.declaredNoise) {
       this.fail(line, tokens[0]!.col, `more noise points than [Number of Noise Frequencies] ${this.declaredNoise}`);
     }
@@ -828,25 +944,36 @@ class Reader {
     } else {
       if (!this.optionSeen) this.fail(eof, 1, 'missing option line (# …)');
       if (this.point.length > 0) this.endNetwork(eof);
-      if (this.freqs.length === 0) this.fail(eof, 1, 'no network data in the file');
+      if (this.nFreqs === 0) this.fail(eof, 1, 'no network data in the file');
     }
     const n = this.ports;
     const refs = new Float64Array(n);
     for (let p = 0; p < n; p++) refs[p] = this.refs ? this.refs[p]! : this.optionR;
-    const values = Float64Array.from(this.vals);
-    // Version 1.1 Z and Y are normalised to R (from memory); version 2.0 are not.
-    if (this.version === '1.1' && this.parameter !== 'S') {
-      const k = this.parameter === 'Z' ? this.optionR : 1 / this.optionR;
-      for (let x = 0; x < values.length; x++) values[x] = values[x]! * k;
-    }
+    const values = this.vals.slice(0, this.nVals); // already denormalised in storePoint
     const net: NetworkData = {
       parameter: this.parameter,
       ports: n,
-      frequencies: Float64Array.from(this.freqs),
+      frequencies: this.freqs.slice(0, this.nFreqs),
       references: refs,
       values,
     };
     if (this.comments.length > 0) net.comments = this.comments;
+    if (this.noise.length > 0) {
+      const m = this.noise.length / 5;
+      const column = (c: number): Float64Array => {
+        const out = new Float64Array(m);
+        for (let k = 0; k < m; k++) out[k] = this.noise[5 * k + c]!;
+        return out;
+      };
+      const noise: NoiseParameters = {
+        frequencies: column(0),
+        nfMinDb: column(1),
+        gammaOptMagnitude: column(2),
+        gammaOptAngleDeg: column(3),
+        rnNormalised: column(4),
+      };
+      net.noise = noise;
+    }
     return net;
   }
 }

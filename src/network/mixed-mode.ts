@@ -89,6 +89,41 @@ function checkPairs(ports: number, pairs: readonly PortPair[], name: string): nu
   return pairs.length;
 }
 
+/**
+ * Whether `net` is mixed-mode data (made by {@link mixedMode} or read from a file that says so):
+ * it carries its pairs and mode labels, [D1, …, DN, C1, …, CN].
+ */
+export function isMixedMode(net: NetworkData): net is MixedModeData {
+  const m = net as Partial<MixedModeData>;
+  return Array.isArray(m.pairs) && Array.isArray(m.modes) && m.modes.length === net.ports && 2 * m.pairs.length === net.ports;
+}
+
+/**
+ * Name of entry (i, j) (0-based) of mixed-mode data of `pairs` pairs, without the parameter
+ * letter: `dd11`, `dc21`, `cd12`, `cc22` (response mode and pair first, then the drive's), as in
+ * Bockelman & Eisenstadt's Sdd21 etc. With 10 pairs or more the pair numbers are separated by an
+ * underscore (`dd10_2`) so that names stay unambiguous.
+ */
+export function modeEntryName(pairCount: number, i: number, j: number): string {
+  const mode = (r: number): [string, number] => (r < pairCount ? ['d', r + 1] : ['c', r - pairCount + 1]);
+  const [mi, ki] = mode(i);
+  const [mj, kj] = mode(j);
+  return `${mi}${mj}${ki}${pairCount >= 10 ? '_' : ''}${kj}`;
+}
+
+/**
+ * The mode list of the Touchstone 2.0 `[Mixed-Mode Order]` keyword for these pairs, in our row order
+ * [D1, …, DN, C1, …, CN]: `D p1,n1 … D pN,nN C p1,n1 … C pN,nN` written without spaces inside an
+ * entry (`D1,3 D2,4 C1,3 C2,4`). In the standard an entry `Dx,y` (or `Cx,y`) is the differential
+ * (common) mode of single-ended ports x and y, x the positive one (Touchstone 2.0 specification,
+ * [Mixed-Mode Order]; from memory).
+ */
+export function touchstoneModeOrder(pairs: readonly PortPair[]): string {
+  const d = pairs.map(([p, n]) => `D${p},${n}`);
+  const c = pairs.map(([p, n]) => `C${p},${n}`);
+  return [...d, ...c].join(' ');
+}
+
 /** Mode labels for N pairs: ['D1', …, 'DN', 'C1', …, 'CN']. */
 export function modeLabels(pairCount: number): string[] {
   const labels: string[] = [];
