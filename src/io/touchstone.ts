@@ -52,6 +52,7 @@
  *   and Math functions, with "\n" line ends: no locale, no clock, so the same bytes every run.
  */
 import { MAX_NETWORK_VALUES, MAX_PORTS, MAX_REFERENCE_OHM, MIN_REFERENCE_OHM } from '../limits.js';
+import { isMixedMode, modeLabels, PAIR_REFERENCE_TOLERANCE, touchstoneModeOrder, type MixedModeData, type PortPair } from '../network/mixed-mode.js';
 import type { NetworkData, NoiseParameters, ParameterKind } from '../network/types.js';
 
 /** Touchstone versions we read and write. */
@@ -202,6 +203,30 @@ export function checkNetworkData(net: NetworkData, what: string): void {
   }
 }
 
+/**
+ * Checks, before anything is written, that every value of `net` times `norm` gives two finite
+ * numbers in `format` (a magnitude can overflow where real and imaginary parts do not). Throws a
+ * plain Error naming the entry and the frequency otherwise.
+ */
+export function checkEncodedFinite(net: NetworkData, format: ComplexFormat, norm: number, what: string): void {
+  const n = net.ports;
+  const pair = new Float64Array(2);
+  for (let x = 0; x < net.values.length; x += 2) {
+    encodeComplex(format, net.values[x]! * norm, net.values[x + 1]! * norm, pair);
+    if (!Number.isFinite(pair[0]!) || !Number.isFinite(pair[1]!)) {
+      const q = x >> 1;
+      const k = Math.floor(q / (n * n));
+      const i = Math.floor((q % (n * n)) / n);
+      const j = q % n;
+      const scaled = norm !== 1 ? ' after the normalisation to the reference of version 1.1' : '';
+      throw new Error(
+        `${what}: ${net.parameter}(${i + 1},${j + 1}) at ${net.frequencies[k]} Hz is beyond the range of double-precision numbers in ${format}${scaled}; nothing was written` +
+          (format === 'RI' ? '' : ' (RI may still hold it)'),
+      );
+    }
+  }
+}
+
 /** Checks a significant-digit count (1..17) and returns it, or the default. */
 export function checkDigits(digits: number | undefined, fallback: number): number {
   if (digits === undefined) return fallback;
@@ -228,6 +253,16 @@ function formatExp(x: number, digits: number): string {
 
 // ---------------------------------------------------------------------------------------------
 // Writer
+
+/** Single-ended port references of mixed-mode data: Z0 of pair k = (its differential reference)/2 for both its ports. */
+function singleEndedReferences(net: MixedModeData): Float64Array {
+  const out = new Float64Array(net.ports);
+  net.pairs.forEach(([p, q], k) => {
+    out[p - 1] = net.references[k]! / 2;
+    out[q - 1] = net.references[k]! / 2;
+  });
+  return out;
+}
 
 /** Pair order of one frequency point: [i0, j0, i1, j1, …], 0-based. */
 function pairOrder(n: number): number[] {
@@ -292,7 +327,14 @@ export function touchstoneChunks(net: NetworkData, opts: TouchstoneWriteOptions 
   const n = net.ports;
   const nf = net.frequencies.length;
   if (nf === 0) throw new Error('Touchstone: no frequency points to write');
-  const r0 = net.references[0]!;
+  const mixed = isMixedMode(net);
+  if (mixed && version !== '2.0') {
+    throw new Error('Touchstone: mixed-mode data are written as version 2.0, whose [Mixed-Mode Order] says which row is which mode; version 1.1 cannot say it');
+  }
+  // Mixed-mode files give the single-ended references in [Reference]; the mode references are
+  // 2·Z0 (differential) and Z0/2 (common) of them (Touchstone 2.0, [Mixed-Mode Order]; from memory).
+  const fileRefs = mixed ? singleEndedReferences(net) : net.references;
+  const r0 = fileRefs[0]!;
   if (version === '1.1') {
     for (let p = 1; p < n; p++) {
       if (net.references[p] !== r0) {
@@ -308,6 +350,7 @@ export function touchstoneChunks(net: NetworkData, opts: TouchstoneWriteOptions 
     if (net.parameter === 'Z') norm = 1 / r0;
     else if (net.parameter === 'Y') norm = r0;
   }
+  checkEncodedFinite(net, format, norm, 'Touchstone');
 
   const lines: string[] = [];
   const header: string[] = [];
@@ -323,9 +366,10 @@ export function touchstoneChunks(net: NetworkData, opts: TouchstoneWriteOptions 
     if (n === 2) lines.push('[Two-Port Data Order] 21_12');
     lines.push(`[Number of Frequencies] ${nf}`);
     const refs: string[] = [];
-    for (let p = 0; p < n; p++) refs.push(formatShortest(net.references[p]!));
+    for (let p = 0; p < n; p++) refs.push(formatShortest(fileRefs[p]!));
     lines.push(`[Reference] ${refs.join(' ')}`);
     lines.push('[Matrix Format] Full');
+    if (mixed) lines.push(`[Mixed-Mode Order] ${touchstoneModeOrder(net.pairs)}`);
     lines.push('[Network Data]');
   } else {
     lines.push(optionLine);
@@ -445,6 +489,9 @@ class Reader {
   private refs: number[] | undefined;
   private refsPending = false;
   private matrixFormat: MatrixFormat = 'full';
+  /** Mixed-mode files: the pairs, and the row in our order of each row of the file. */
+  private modePairs: PortPair[] | undefined;
+  private modePerm: number[] | undefined;
 
   // network data
   private section: 'header' | 'network' | 'noise' | 'info' | 'after-end' = 'header';
@@ -614,7 +661,8 @@ class Reader {
         return;
       }
       case 'mixed-mode order':
-        return this.fail(line, col, 'mixed-mode files ([Mixed-Mode Order]) are not supported');
+        needPorts();
+        return this.mixedModeOrder(args, line, col);
       case 'begin information':
         this.noArgs(args, shown);
         this.section = 'info';
@@ -644,6 +692,53 @@ class Reader {
         this.section = 'after-end';
         return;
     }
+  }
+
+  /**
+   * Reads `[Mixed-Mode Order] D1,3 D2,4 C1,3 C2,4` (any order of the entries): every pair must
+   * appear once as D and once as C, and every port in one pair. Single-ended entries (`S5`) are
+   * not read. The rows are then stored in our order [D1, …, DN, C1, …, CN] (pairs numbered in the
+   * order of their D entries).
+   */
+  private mixedModeOrder(args: Token[], line: number, col: number): void {
+    const n = this.ports;
+    if (args.length !== n) this.fail(line, col, `[Mixed-Mode Order] needs ${n} entries, one per row of the ${n}-port matrix, found ${args.length}`);
+    const entries: { mode: 'D' | 'C'; p: number; q: number; t: Token }[] = [];
+    for (const t of args) {
+      const m = /^([DdCcSs])(\d+)(?:,(\d+))?$/.exec(t.text);
+      if (!m) this.fail(line, t.col, `"${t.text}" is not a mixed-mode entry: write D or C and two port numbers, e.g. D1,3`);
+      if (m[1]!.toUpperCase() === 'S') this.fail(line, t.col, `single-ended entries ("${t.text}") in [Mixed-Mode Order] are not supported; every port must belong to a pair`);
+      if (m[3] === undefined) this.fail(line, t.col, `"${t.text}" needs two port numbers, e.g. ${m[1]}1,3`);
+      const p = Number(m[2]);
+      const q = Number(m[3]);
+      for (const x of [p, q]) if (x < 1 || x > n) this.fail(line, t.col, `"${t.text}" names port ${x}; the ports are 1 to ${n}`);
+      if (p === q) this.fail(line, t.col, `"${t.text}" pairs a port with itself`);
+      entries.push({ mode: m[1]!.toUpperCase() as 'D' | 'C', p, q, t });
+    }
+    const pairs: PortPair[] = [];
+    const owner = new Map<number, number>();
+    for (const e of entries) {
+      if (e.mode !== 'D') continue;
+      for (const x of [e.p, e.q]) if (owner.has(x)) this.fail(line, e.t.col, `port ${x} belongs to more than one differential entry`);
+      owner.set(e.p, pairs.length);
+      owner.set(e.q, pairs.length);
+      pairs.push([e.p, e.q]);
+    }
+    if (2 * pairs.length !== n) this.fail(line, col, `[Mixed-Mode Order] needs ${n / 2} D entries and ${n / 2} C entries for ${n} ports`);
+    const perm: number[] = [];
+    const seenC = new Set<number>();
+    for (const e of entries) {
+      const k = owner.get(e.p)!;
+      if (e.mode === 'D') perm.push(k);
+      else {
+        const [p, q] = pairs[k]!;
+        if (!(e.p === p && e.q === q) || seenC.has(k)) this.fail(line, e.t.col, `"${e.t.text}" must be the common mode of a differential entry, written with its ports in the same order (C${p},${q})`);
+        seenC.add(k);
+        perm.push(pairs.length + k);
+      }
+    }
+    this.modePairs = pairs;
+    this.modePerm = perm;
   }
 
   private oneArg(args: Token[], shown: string): Token {
@@ -850,8 +945,9 @@ class Reader {
       this.pair[0] = this.pair[0]! * norm;
       this.pair[1] = this.pair[1]! * norm;
       if (!Number.isFinite(this.pair[0]!) || !Number.isFinite(this.pair[1]!)) this.overflow(q, norm);
-      const i = order[2 * q]!;
-      const j = order[2 * q + 1]!;
+      const perm = this.modePerm;
+      const i = perm ? perm[order[2 * q]!]! : order[2 * q]!;
+      const j = perm ? perm[order[2 * q + 1]!]! : order[2 * q + 1]!;
       this.vals[base + 2 * (i * n + j)] = this.pair[0]!;
       this.vals[base + 2 * (i * n + j) + 1] = this.pair[1]!;
       if (i !== j && this.matrixFormat !== 'full') {
@@ -928,6 +1024,23 @@ class Reader {
     this.section = 'header';
   }
 
+  /** Turns the single-ended references of a mixed-mode file into mode references (2·Z0, Z0/2) and labels the modes. */
+  private toModes(net: NetworkData, pairs: PortPair[]): void {
+    const count = pairs.length;
+    const refs = new Float64Array(net.ports);
+    pairs.forEach(([p, q], k) => {
+      const zp = net.references[p - 1]!;
+      const zq = net.references[q - 1]!;
+      if (Math.abs(zp - zq) > PAIR_REFERENCE_TOLERANCE * Math.max(zp, zq)) {
+        this.fail(this.seen.get('reference') ?? this.seen.get('mixed-mode order')!, 1, `ports ${p} and ${q} form a pair but have different references (${zp} and ${zq} ohm); mixed-mode waves need equal references within a pair`);
+      }
+      refs[k] = 2 * zp;
+      refs[count + k] = zp / 2;
+    });
+    net.references = refs;
+    Object.assign(net, { pairs, modes: modeLabels(count) });
+  }
+
   private finish(): NetworkData {
     const eof = Math.max(this.lines.length, 1);
     if (this.refsPending) {
@@ -958,6 +1071,7 @@ class Reader {
       values,
     };
     if (this.comments.length > 0) net.comments = this.comments;
+    if (this.modePairs) this.toModes(net, this.modePairs);
     if (this.noise.length > 0) {
       const m = this.noise.length / 5;
       const column = (c: number): Float64Array => {
