@@ -258,7 +258,7 @@ const ENTRY_NAMES: Readonly<Record<TwoPortKind, readonly string[]>> = {
 function overflowReason(to: TwoPortKind, m: Float64Array): string {
   let e = 0;
   while (e < 3 && Number.isFinite(m[2 * e]!) && Number.isFinite(m[2 * e + 1]!)) e++;
-  return `${ENTRY_NAMES[to][e]} is beyond the range of double-precision numbers (about 1.8e308); the data are too large for this representation`;
+  return `computing ${ENTRY_NAMES[to][e]} overflows the range of double-precision numbers (about 1.8e308); the data are too large for this representation`;
 }
 
 const REASONS = {
