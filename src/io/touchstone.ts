@@ -39,7 +39,21 @@
  * Our own choices (not from the standard):
  * - The reader accepts any split of one frequency point over lines, but each point must start on
  *   a new line and no line may hold numbers of two points; the count must be exact.
- * - We do not read H or G data, mixed-mode files, or 2.0 versions other than "2.0".
+ * - We do not read H or G data, mixed-mode files with single-ended entries (`S5` in
+ *   [Mixed-Mode Order]), or 2.0 versions other than "2.0".
+ * - Mixed mode (2.0 `[Mixed-Mode Order]`, from memory): each entry names a row of the matrix,
+ *   `Dx,y` the differential and `Cx,y` the common mode of single-ended ports x (positive) and y;
+ *   `[Reference]` keeps giving single-ended port references Z0, and the mode references are
+ *   2·Z0 and Z0/2. We write our row order [D1, …, DN, C1, …, CN] and read any order into it.
+ * - Limits (src/limits.ts): at most MAX_PORTS ports and MAX_NETWORK_VALUES complex values, checked
+ *   before anything is allocated; references within [MIN_REFERENCE_OHM, MAX_REFERENCE_OHM]. Every
+ *   number must stay finite once decoded (frequency × unit, 10^(dB/20), × R of version 1.1 Z):
+ *   otherwise an error at that number. Frequencies are >= 0 and strictly increasing.
+ * - Noise parameters are read, checked and kept (`NetworkData.noise`), and `onWarning` is told
+ *   that they are not used yet, at the first line of the noise block.
+ * - The writers check every number they would write (after MA/DB encoding and the 1.1
+ *   normalisation) before the first piece, and throw a plain Error rather than write NaN or
+ *   Infinity.
  * - The writer always writes [Matrix Format] Full and, for 2-ports, [Two-Port Data Order] 21_12
  *   so that the N11 N21 N12 N22 data order is the same in both versions.
  * - Data values are written in exponent form with `digits` significant digits (two-digit exponent
