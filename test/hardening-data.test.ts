@@ -105,7 +105,7 @@ describe('no non-finite value from the Touchstone reader', () => {
 
   it('the error display shows the line with a caret under the column', () => {
     const err = located(() => parseTouchstone(lines('# GHz S DB R 50', '1   7000 0'), { ports: 1, fileName: 'a.s1p' }), 2, 5, /dB/);
-    expect(err.describe().split('\n')).toEqual(['a.s1p:2:5: ' + err.message, ' 2 | 1   7000 0', '   |     ^']);
+    expect(err.describe().split('\n')).toEqual(['a.s1p:2:5: error: ' + err.message, ' 2 | 1   7000 0', '   |     ^']);
   });
 
   it('a netlist datafile statement reports the overflow at its place in the data file', () => {

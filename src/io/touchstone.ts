@@ -116,9 +116,9 @@ export class TouchstoneError extends Error {
     this.column = column;
     this.lineText = lineText;
   }
-  /** `file:line:column: message`, then the line and a caret under the column when the line is known. */
+  /** `file:line:column: error: message`, then the line and a caret under the column when the line is known. */
   describe(): string {
-    const head = `${this.file}:${this.line}:${this.column}: ${this.message}`;
+    const head = `${this.file}:${this.line}:${this.column}: error: ${this.message}`;
     if (this.lineText === undefined) return head;
     const text = this.lineText.length > 200 ? this.lineText.slice(0, 200) + ' …' : this.lineText;
     const num = String(this.line);
