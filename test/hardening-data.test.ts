@@ -215,3 +215,35 @@ describe('noise parameters of two-port files are read, kept and warned about', (
     expect([w[0]!.span!.line, w[0]!.span!.column]).toEqual([5, 1]);
   });
 });
+
+describe('loadNetworkFile: data-file errors and warnings as located diagnostics for the commands', () => {
+  it('a malformed file is an InputError rendered with the line and a caret; warnings come back located', async () => {
+    const { loadNetworkFile } = await import('../src/io/read.js');
+    const { formatDiagnostics } = await import('../src/diagnostics/diagnostic.js');
+    const dir = mkdtempSync(join(tmpdir(), 'sbx-hd-'));
+    const bad = join(dir, 'bad.s1p');
+    writeFileSync(bad, lines('# GHz S DB R 50', '1 7000 0'));
+    let caught: unknown;
+    try {
+      loadNetworkFile(bad);
+    } catch (e) {
+      caught = e;
+    }
+    expect(caught).toBeInstanceOf(InputError);
+    const text = formatDiagnostics((caught as InputError).diagnostics, (caught as InputError).sources!);
+    expect(text.split('\n').slice(0, 3)).toEqual([`${bad}:2:3: error: S11: 7000 dB is a magnitude of 10^350, beyond the range of double-precision numbers (about 1.8e308)`, ' 2 | 1 7000 0', '   |   ^']);
+    const amp = join(dir, 'amp.s2p');
+    writeFileSync(amp, lines('# GHz S MA R 50', '1 0.5 0 2 90 0.01 0 0.4 -30', '0.5 0.8 0.3 40 0.25'));
+    const r = loadNetworkFile(amp);
+    expect(r.net.noise?.frequencies.length).toBe(1);
+    expect(r.warnings.map((w) => [w.span?.line, w.span?.column])).toEqual([[3, 1]]);
+    const json = join(dir, 'big.json');
+    writeFileSync(json, '{\n  "schema": "scatterbox.network/1",\n  "parameter": "S",\n  "ports": 100000\n}\n');
+    try {
+      loadNetworkFile(json);
+      expect.unreachable();
+    } catch (e) {
+      expect((e as InputError).diagnostics[0]!.span).toEqual({ file: json, line: 4, column: 3, length: 1 });
+    }
+  });
+});
