@@ -9,6 +9,7 @@ import { DataFileError, elaborate, type Override } from './elaborate/elaborate.j
 import { evaluate, toSI } from './elaborate/evaluate.js';
 import { JsonNetworkError, parseJson } from './io/json.js';
 import { parseTouchstone, TouchstoneError } from './io/touchstone.js';
+import { isMixedMode, singleEnded } from './network/mixed-mode.js';
 import type { NetworkData } from './network/types.js';
 
 /** Options for turning a netlist into a circuit. */
@@ -61,6 +62,8 @@ export function loadNetlist(text: string, file: string, options: LoadOptions = {
       if (e instanceof JsonNetworkError && e.line !== undefined) throw new DataFileError(e.message, { file: path, line: e.line, column: e.column ?? 1, length: 1 });
       throw new DataFileError((e as Error).message);
     }
+    // a mixed-mode file's rows are modes; the element's terminals are the single-ended ports
+    if (isMixedMode(net)) net = singleEnded(net);
     dataCache.set(path, net);
     return net;
   };

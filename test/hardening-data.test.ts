@@ -247,3 +247,30 @@ describe('loadNetworkFile: data-file errors and warnings as located diagnostics 
     }
   });
 });
+
+describe('a mixed-mode data file used by a datafile statement', () => {
+  it('is turned back into single-ended S, so its terminals are the physical ports (S = Wᵀ·S_mm·W, Bockelman & Eisenstadt 1995)', async () => {
+    const { convertData } = await import('../src/io/convert-file.js');
+    const { formatTouchstone } = await import('../src/io/touchstone.js');
+    const { solveSweep } = await import('../src/solve/sweep.js');
+    const dir = mkdtempSync(join(tmpdir(), 'sbx-hd-'));
+    // a single-ended 4-port: two different matched attenuating paths 1→3 (S31 = 0.5) and 2→4 (S42 = 0.25j)
+    const v = new Float64Array(32);
+    const set = (i: number, j: number, re: number, im: number) => {
+      v[2 * (i * 4 + j)] = re;
+      v[2 * (i * 4 + j) + 1] = im;
+    };
+    set(2, 0, 0.5, 0);
+    set(0, 2, 0.5, 0);
+    set(3, 1, 0, 0.25);
+    set(1, 3, 0, 0.25);
+    const se: NetworkData = { parameter: 'S', ports: 4, frequencies: Float64Array.of(1e9, 2e9), references: Float64Array.of(50, 50, 50, 50), values: Float64Array.from([...v, ...v]) };
+    writeFileSync(join(dir, 'se.s4p'), formatTouchstone(se, { digits: 17 }));
+    writeFileSync(join(dir, 'mm.s4p'), convertData(se, { pairs: [[1, 2], [3, 4]], digits: 17 }, 'mm.s4p'));
+    const solve = (file: string) => solveSweep(loadNetlist(lines(`datafile d1 file="${file}" p1=a p2=b p3=c p4=d`, 'port 1 plus=a', 'port 2 plus=b', 'port 3 plus=c', 'port 4 plus=d', 'sweep list freqs=1.5 GHz'), join(dir, 'x.sbx')).circuit);
+    const a = solve('se.s4p');
+    const b = solve('mm.s4p');
+    a.values.forEach((x, i) => expect(Math.abs(x - b.values[i]!)).toBeLessThan(1e-12));
+    expect(a.values[2 * (2 * 4 + 0)]).toBeCloseTo(0.5, 12);
+  });
+});
