@@ -224,7 +224,7 @@ export class FrequencyGridError extends RangeError {
       const more = mismatchCount > mismatches.length ? ` (${mismatchCount} differing points in all)` : '';
       parts.push(listed.join('; ') + more);
     }
-    super(`section ${section + 1} (1-based) is not on the frequency grid of section 1: ${parts.join('; ')}`);
+    super(`section ${section + 1} of the cascade is not on the frequency grid of section 1: ${parts.join('; ')}`);
     this.name = 'FrequencyGridError';
     this.section = section;
     this.expectedPoints = expectedPoints;
