@@ -28,3 +28,10 @@ export const MAX_EXPRESSION_DEPTH = 200;
 
 /** Size of any file read: netlist, included file or data file (only regular files are read). */
 export const MAX_FILE_BYTES = 256 * 1024 * 1024;
+
+/**
+ * Range of the real reference impedances a network-data file may give (ohms). Wide for real data,
+ * and it keeps every S/Z/Y conversion and mixed-mode reference (2·Z0, Z0/2) of finite data finite.
+ */
+export const MIN_REFERENCE_OHM = 1e-9;
+export const MAX_REFERENCE_OHM = 1e12;

@@ -7,8 +7,9 @@ import { DiagnosticBag, InputError, type Diagnostic } from './diagnostics/diagno
 import type { Circuit } from './elaborate/circuit.js';
 import { DataFileError, elaborate, type Override } from './elaborate/elaborate.js';
 import { evaluate, toSI } from './elaborate/evaluate.js';
-import { parseJson } from './io/json.js';
+import { JsonNetworkError, parseJson } from './io/json.js';
 import { parseTouchstone, TouchstoneError } from './io/touchstone.js';
+import { isMixedMode, singleEnded } from './network/mixed-mode.js';
 import type { NetworkData } from './network/types.js';
 
 /** Options for turning a netlist into a circuit. */
@@ -56,11 +57,15 @@ export function loadNetlist(text: string, file: string, options: LoadOptions = {
     sources.set(path, body);
     let net: NetworkData;
     try {
-      net = extname(path).toLowerCase() === '.json' ? parseJson(body) : parseTouchstone(body, { fileName: path });
+      const onWarning = (message: string, line: number, column: number) => bag.warning('data-file', message, { file: path, line, column, length: 1 });
+      net = extname(path).toLowerCase() === '.json' ? parseJson(body) : parseTouchstone(body, { fileName: path, onWarning });
     } catch (e) {
       if (e instanceof TouchstoneError) throw new DataFileError(e.message, { file: path, line: e.line, column: e.column, length: 1 });
+      if (e instanceof JsonNetworkError && e.line !== undefined) throw new DataFileError(e.message, { file: path, line: e.line, column: e.column ?? 1, length: 1 });
       throw new DataFileError((e as Error).message);
     }
+    // a mixed-mode file's rows are modes; the element's terminals are the single-ended ports
+    if (isMixedMode(net)) net = singleEnded(net);
     dataCache.set(path, net);
     return net;
   };

@@ -84,7 +84,7 @@ export function renderNetworkChunks(net: NetworkData, options: OutputOptions = {
     case 'csv':
       return csvChunks(data, { format: options.data ?? 'RI', digits: options.digits });
     case 'json':
-      return [formatJson(data)];
+      return [formatJson(data, { digits: options.digits })];
   }
 }
 

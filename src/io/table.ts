@@ -1,4 +1,5 @@
 import type { NetworkData } from '../network/types.js';
+import { csvRow } from './csv.js';
 
 /** Picks the frequency unit that keeps the sweep's largest frequency readable. */
 export function pickFrequencyUnit(maxHz: number): { unit: string; scale: number } {
@@ -64,13 +65,17 @@ function figureCell(v: number, unit: string): string {
 /**
  * A table of derived figures per frequency (for `solve --figures`): aligned text for the
  * terminal, or CSV (`freq_hz` then one column per figure, full precision, SI units except
- * dB and degrees).
+ * dB and degrees). CSV fields are quoted as RFC 4180 §2 says (a heading such as `il(2,1)_dB`
+ * holds a comma, so it is written `"il(2,1)_dB"`), and a figure that has no finite value at a
+ * point (e.g. the maximum available gain of a potentially unstable device, shown `n/a` in the
+ * terminal) is an empty field, never NaN or Infinity.
  */
 export function formatFigureTable(frequencies: Float64Array, columns: FigureColumn[], csv = false): string {
   if (csv) {
     const head = ['freq_hz', ...columns.map((c) => (c.unit ? `${c.name}_${c.unit}` : c.name))];
-    const lines = [head.join(',')];
-    for (let k = 0; k < frequencies.length; k++) lines.push([String(frequencies[k]), ...columns.map((c) => String(c.values[k]))].join(','));
+    const lines = [csvRow(head)];
+    const cell = (v: number): string => (Number.isFinite(v) ? String(v) : '');
+    for (let k = 0; k < frequencies.length; k++) lines.push([cell(frequencies[k]!), ...columns.map((c) => cell(c.values[k]!))].join(','));
     return lines.join('\n') + '\n';
   }
   const { unit, scale } = pickFrequencyUnit(frequencies.length ? frequencies[frequencies.length - 1]! : 0);

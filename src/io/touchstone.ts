@@ -39,7 +39,21 @@
  * Our own choices (not from the standard):
  * - The reader accepts any split of one frequency point over lines, but each point must start on
  *   a new line and no line may hold numbers of two points; the count must be exact.
- * - We do not read H or G data, mixed-mode files, or 2.0 versions other than "2.0".
+ * - We do not read H or G data, mixed-mode files with single-ended entries (`S5` in
+ *   [Mixed-Mode Order]), or 2.0 versions other than "2.0".
+ * - Mixed mode (2.0 `[Mixed-Mode Order]`, from memory): each entry names a row of the matrix,
+ *   `Dx,y` the differential and `Cx,y` the common mode of single-ended ports x (positive) and y;
+ *   `[Reference]` keeps giving single-ended port references Z0, and the mode references are
+ *   2·Z0 and Z0/2. We write our row order [D1, …, DN, C1, …, CN] and read any order into it.
+ * - Limits (src/limits.ts): at most MAX_PORTS ports and MAX_NETWORK_VALUES complex values, checked
+ *   before anything is allocated; references within [MIN_REFERENCE_OHM, MAX_REFERENCE_OHM]. Every
+ *   number must stay finite once decoded (frequency × unit, 10^(dB/20), × R of version 1.1 Z):
+ *   otherwise an error at that number. Frequencies are >= 0 and strictly increasing.
+ * - Noise parameters are read, checked and kept (`NetworkData.noise`), and `onWarning` is told
+ *   that they are not used yet, at the first line of the noise block.
+ * - The writers check every number they would write (after MA/DB encoding and the 1.1
+ *   normalisation) before the first piece, and throw a plain Error rather than write NaN or
+ *   Infinity.
  * - The writer always writes [Matrix Format] Full and, for 2-ports, [Two-Port Data Order] 21_12
  *   so that the N11 N21 N12 N22 data order is the same in both versions.
  * - Data values are written in exponent form with `digits` significant digits (two-digit exponent
@@ -51,7 +65,9 @@
  * - Output is made only of ECMAScript-specified conversions (toExponential, toPrecision, String)
  *   and Math functions, with "\n" line ends: no locale, no clock, so the same bytes every run.
  */
-import type { NetworkData, ParameterKind } from '../network/types.js';
+import { MAX_NETWORK_VALUES, MAX_PORTS, MAX_REFERENCE_OHM, MIN_REFERENCE_OHM } from '../limits.js';
+import { isMixedMode, modeLabels, PAIR_REFERENCE_TOLERANCE, touchstoneModeOrder, type MixedModeData, type PortPair } from '../network/mixed-mode.js';
+import type { NetworkData, NoiseParameters, ParameterKind } from '../network/types.js';
 
 /** Touchstone versions we read and write. */
 export type TouchstoneVersion = '1.1' | '2.0';
@@ -78,6 +94,11 @@ export interface TouchstoneReadOptions {
   fileName?: string;
   /** Port count; needed for version 1.1 when the file name gives none. */
   ports?: number;
+  /**
+   * Called for each warning of the file (line and column 1-based), e.g. noise parameters that are
+   * read but not used yet. Without it warnings are dropped.
+   */
+  onWarning?: (message: string, line: number, column: number) => void;
 }
 
 /** A reader error with its place in the file (line and column are 1-based). */
@@ -85,16 +106,26 @@ export class TouchstoneError extends Error {
   readonly file: string;
   readonly line: number;
   readonly column: number;
-  constructor(file: string, line: number, column: number, message: string) {
+  /** The text of the line the error points at, when known (for the caret display). */
+  readonly lineText: string | undefined;
+  constructor(file: string, line: number, column: number, message: string, lineText?: string) {
     super(message);
     this.name = 'TouchstoneError';
     this.file = file;
     this.line = line;
     this.column = column;
+    this.lineText = lineText;
   }
-  /** `file:line:column: message`. */
+  /** `file:line:column: error: message`, then the line and a caret under the column when the line is known. */
   describe(): string {
-    return `${this.file}:${this.line}:${this.column}: ${this.message}`;
+    const head = `${this.file}:${this.line}:${this.column}: error: ${this.message}`;
+    if (this.lineText === undefined) return head;
+    const text = this.lineText.length > 200 ? this.lineText.slice(0, 200) + ' …' : this.lineText;
+    const num = String(this.line);
+    const gutter = ' '.repeat(num.length);
+    const caretAt = Math.min(Math.max(this.column - 1, 0), text.length);
+    const pad = text.slice(0, caretAt).replace(/[^\t]/g, ' ');
+    return `${head}\n ${num} | ${text}\n ${gutter} | ${pad}^`;
   }
 }
 
@@ -186,6 +217,30 @@ export function checkNetworkData(net: NetworkData, what: string): void {
   }
 }
 
+/**
+ * Checks, before anything is written, that every value of `net` times `norm` gives two finite
+ * numbers in `format` (a magnitude can overflow where real and imaginary parts do not). Throws a
+ * plain Error naming the entry and the frequency otherwise.
+ */
+export function checkEncodedFinite(net: NetworkData, format: ComplexFormat, norm: number, what: string): void {
+  const n = net.ports;
+  const pair = new Float64Array(2);
+  for (let x = 0; x < net.values.length; x += 2) {
+    encodeComplex(format, net.values[x]! * norm, net.values[x + 1]! * norm, pair);
+    if (!Number.isFinite(pair[0]!) || !Number.isFinite(pair[1]!)) {
+      const q = x >> 1;
+      const k = Math.floor(q / (n * n));
+      const i = Math.floor((q % (n * n)) / n);
+      const j = q % n;
+      const scaled = norm !== 1 ? ' after the normalisation to the reference of version 1.1' : '';
+      throw new Error(
+        `${what}: ${net.parameter}(${i + 1},${j + 1}) at ${net.frequencies[k]} Hz is beyond the range of double-precision numbers in ${format}${scaled}; nothing was written` +
+          (format === 'RI' ? '' : ' (RI may still hold it)'),
+      );
+    }
+  }
+}
+
 /** Checks a significant-digit count (1..17) and returns it, or the default. */
 export function checkDigits(digits: number | undefined, fallback: number): number {
   if (digits === undefined) return fallback;
@@ -212,6 +267,16 @@ function formatExp(x: number, digits: number): string {
 
 // ---------------------------------------------------------------------------------------------
 // Writer
+
+/** Single-ended port references of mixed-mode data: Z0 of pair k = (its differential reference)/2 for both its ports. */
+function singleEndedReferences(net: MixedModeData): Float64Array {
+  const out = new Float64Array(net.ports);
+  net.pairs.forEach(([p, q], k) => {
+    out[p - 1] = net.references[k]! / 2;
+    out[q - 1] = net.references[k]! / 2;
+  });
+  return out;
+}
 
 /** Pair order of one frequency point: [i0, j0, i1, j1, …], 0-based. */
 function pairOrder(n: number): number[] {
@@ -276,7 +341,14 @@ export function touchstoneChunks(net: NetworkData, opts: TouchstoneWriteOptions 
   const n = net.ports;
   const nf = net.frequencies.length;
   if (nf === 0) throw new Error('Touchstone: no frequency points to write');
-  const r0 = net.references[0]!;
+  const mixed = isMixedMode(net);
+  if (mixed && version !== '2.0') {
+    throw new Error('Touchstone: mixed-mode data are written as version 2.0, whose [Mixed-Mode Order] says which row is which mode; version 1.1 cannot say it');
+  }
+  // Mixed-mode files give the single-ended references in [Reference]; the mode references are
+  // 2·Z0 (differential) and Z0/2 (common) of them (Touchstone 2.0, [Mixed-Mode Order]; from memory).
+  const fileRefs = mixed ? singleEndedReferences(net) : net.references;
+  const r0 = fileRefs[0]!;
   if (version === '1.1') {
     for (let p = 1; p < n; p++) {
       if (net.references[p] !== r0) {
@@ -292,6 +364,7 @@ export function touchstoneChunks(net: NetworkData, opts: TouchstoneWriteOptions 
     if (net.parameter === 'Z') norm = 1 / r0;
     else if (net.parameter === 'Y') norm = r0;
   }
+  checkEncodedFinite(net, format, norm, 'Touchstone');
 
   const lines: string[] = [];
   const header: string[] = [];
@@ -307,9 +380,10 @@ export function touchstoneChunks(net: NetworkData, opts: TouchstoneWriteOptions 
     if (n === 2) lines.push('[Two-Port Data Order] 21_12');
     lines.push(`[Number of Frequencies] ${nf}`);
     const refs: string[] = [];
-    for (let p = 0; p < n; p++) refs.push(formatShortest(net.references[p]!));
+    for (let p = 0; p < n; p++) refs.push(formatShortest(fileRefs[p]!));
     lines.push(`[Reference] ${refs.join(' ')}`);
     lines.push('[Matrix Format] Full');
+    if (mixed) lines.push(`[Mixed-Mode Order] ${touchstoneModeOrder(net.pairs)}`);
     lines.push('[Network Data]');
   } else {
     lines.push(optionLine);
@@ -399,6 +473,13 @@ function tokenize(text: string, offset: number): Token[] {
 
 type MatrixFormat = 'full' | 'lower' | 'upper';
 
+/** A copy of `a` with room for at least `need` elements (capacity doubled). */
+function grow(a: Float64Array, need: number): Float64Array<ArrayBuffer> {
+  const out = new Float64Array(Math.max(need, 2 * a.length));
+  out.set(a);
+  return out;
+}
+
 class Reader {
   private readonly file: string;
   private readonly lines: string[];
@@ -422,6 +503,9 @@ class Reader {
   private refs: number[] | undefined;
   private refsPending = false;
   private matrixFormat: MatrixFormat = 'full';
+  /** Mixed-mode files: the pairs, and the row in our order of each row of the file. */
+  private modePairs: PortPair[] | undefined;
+  private modePerm: number[] | undefined;
 
   // network data
   private section: 'header' | 'network' | 'noise' | 'info' | 'after-end' = 'header';
@@ -430,11 +514,19 @@ class Reader {
   private point: number[] = [];
   private pointLine = 0;
   private pointCol = 0;
-  private freqs: number[] = [];
-  private vals: number[] = [];
+  /** Line and column of each number of `point`: [line0, col0, line1, col1, …]. */
+  private pointAt: number[] = [];
+  // Typed arrays that grow by doubling: a plain array of numbers aborts the whole process (a fatal
+  // V8 error, not an exception) above about 1.3e8 elements, well below MAX_NETWORK_VALUES complex values.
+  private freqs = new Float64Array(16);
+  private nFreqs = 0;
+  private vals = new Float64Array(64);
+  private nVals = 0;
   private lastNoiseFreq = -Infinity;
   private noiseCount = 0;
   private noiseLine = 0;
+  /** Noise points as read: [f (Hz), NFmin dB, |Γopt|, ∠Γopt deg, Rn normalised] each. */
+  private readonly noise: number[] = [];
   private readonly comments: string[] = [];
 
   constructor(text: string, opts: TouchstoneReadOptions) {
@@ -445,7 +537,11 @@ class Reader {
   }
 
   private fail(line: number, col: number, msg: string): never {
-    throw new TouchstoneError(this.file, line, col, msg);
+    throw new TouchstoneError(this.file, line, col, msg, this.lines[line - 1]);
+  }
+
+  private warn(line: number, col: number, msg: string): void {
+    this.opts.onWarning?.(msg, line, col);
   }
 
   read(): NetworkData {
@@ -536,7 +632,11 @@ class Reader {
       }
       case 'number of ports': {
         if (!this.optionSeen) this.fail(line, col, 'the option line (# …) must come before [Number of Ports]');
-        this.ports = this.positiveInt(this.oneArg(args, shown), shown);
+        const a = this.oneArg(args, shown);
+        this.ports = this.positiveInt(a, shown);
+        if (this.ports > MAX_PORTS) {
+          this.fail(line, a.col, `${shown} ${a.text} is above the limit of ${MAX_PORTS} ports a data file may have`);
+        }
         if (this.opts.ports !== undefined && this.opts.ports !== this.ports) {
           this.fail(line, args[0]!.col, `file has ${this.ports} ports, but ${this.opts.ports} were expected`);
         }
@@ -550,10 +650,13 @@ class Reader {
         else this.fail(line, a.col, `[Two-Port Data Order] must be 12_21 or 21_12, got "${a.text}"`);
         return;
       }
-      case 'number of frequencies':
+      case 'number of frequencies': {
         needPorts();
-        this.declaredFreqs = this.positiveInt(this.oneArg(args, shown), shown);
+        const a = this.oneArg(args, shown);
+        this.declaredFreqs = this.positiveInt(a, shown);
+        this.checkSize(this.declaredFreqs, line, a.col);
         return;
+      }
       case 'number of noise frequencies':
         needPorts();
         this.declaredNoise = this.positiveInt(this.oneArg(args, shown), shown);
@@ -572,7 +675,8 @@ class Reader {
         return;
       }
       case 'mixed-mode order':
-        return this.fail(line, col, 'mixed-mode files ([Mixed-Mode Order]) are not supported');
+        needPorts();
+        return this.mixedModeOrder(args, line, col);
       case 'begin information':
         this.noArgs(args, shown);
         this.section = 'info';
@@ -594,8 +698,7 @@ class Reader {
         if (!this.seen.has('network data')) this.fail(line, col, '[Noise Data] must come after [Network Data]');
         if (this.ports !== 2) this.fail(line, col, 'noise data are only defined for 2-port files');
         if (this.declaredNoise < 0) this.fail(line, col, '[Number of Noise Frequencies] is required before [Noise Data]');
-        this.section = 'noise';
-        this.noiseLine = line;
+        this.startNoise(line, col);
         return;
       case 'end':
         this.noArgs(args, shown);
@@ -603,6 +706,53 @@ class Reader {
         this.section = 'after-end';
         return;
     }
+  }
+
+  /**
+   * Reads `[Mixed-Mode Order] D1,3 D2,4 C1,3 C2,4` (any order of the entries): every pair must
+   * appear once as D and once as C, and every port in one pair. Single-ended entries (`S5`) are
+   * not read. The rows are then stored in our order [D1, …, DN, C1, …, CN] (pairs numbered in the
+   * order of their D entries).
+   */
+  private mixedModeOrder(args: Token[], line: number, col: number): void {
+    const n = this.ports;
+    if (args.length !== n) this.fail(line, col, `[Mixed-Mode Order] needs ${n} entries, one per row of the ${n}-port matrix, found ${args.length}`);
+    const entries: { mode: 'D' | 'C'; p: number; q: number; t: Token }[] = [];
+    for (const t of args) {
+      const m = /^([DdCcSs])(\d+)(?:,(\d+))?$/.exec(t.text);
+      if (!m) this.fail(line, t.col, `"${t.text}" is not a mixed-mode entry: write D or C and two port numbers, e.g. D1,3`);
+      if (m[1]!.toUpperCase() === 'S') this.fail(line, t.col, `single-ended entries ("${t.text}") in [Mixed-Mode Order] are not supported; every port must belong to a pair`);
+      if (m[3] === undefined) this.fail(line, t.col, `"${t.text}" needs two port numbers, e.g. ${m[1]}1,3`);
+      const p = Number(m[2]);
+      const q = Number(m[3]);
+      for (const x of [p, q]) if (x < 1 || x > n) this.fail(line, t.col, `"${t.text}" names port ${x}; the ports are 1 to ${n}`);
+      if (p === q) this.fail(line, t.col, `"${t.text}" pairs a port with itself`);
+      entries.push({ mode: m[1]!.toUpperCase() as 'D' | 'C', p, q, t });
+    }
+    const pairs: PortPair[] = [];
+    const owner = new Map<number, number>();
+    for (const e of entries) {
+      if (e.mode !== 'D') continue;
+      for (const x of [e.p, e.q]) if (owner.has(x)) this.fail(line, e.t.col, `port ${x} belongs to more than one differential entry`);
+      owner.set(e.p, pairs.length);
+      owner.set(e.q, pairs.length);
+      pairs.push([e.p, e.q]);
+    }
+    if (2 * pairs.length !== n) this.fail(line, col, `[Mixed-Mode Order] needs ${n / 2} D entries and ${n / 2} C entries for ${n} ports`);
+    const perm: number[] = [];
+    const seenC = new Set<number>();
+    for (const e of entries) {
+      const k = owner.get(e.p)!;
+      if (e.mode === 'D') perm.push(k);
+      else {
+        const [p, q] = pairs[k]!;
+        if (!(e.p === p && e.q === q) || seenC.has(k)) this.fail(line, e.t.col, `"${e.t.text}" must be the common mode of a differential entry, written with its ports in the same order (C${p},${q})`);
+        seenC.add(k);
+        perm.push(pairs.length + k);
+      }
+    }
+    this.modePairs = pairs;
+    this.modePerm = perm;
   }
 
   private oneArg(args: Token[], shown: string): Token {
@@ -613,6 +763,22 @@ class Reader {
 
   private noArgs(args: Token[], shown: string): void {
     if (args.length > 0) this.fail(this.lineNo, args[0]!.col, `${shown} takes no value, found "${args[0]!.text}"`);
+  }
+
+  /** Fails when `points` frequency points of this file's port count pass {@link MAX_NETWORK_VALUES}. */
+  private checkSize(points: number, line: number, col: number): void {
+    const n = this.ports;
+    if (points * n * n > MAX_NETWORK_VALUES) {
+      this.fail(line, col, `${points} frequency points of a ${n}-port are ${points * n * n} complex values, above the limit of ${MAX_NETWORK_VALUES} a data file may have`);
+    }
+  }
+
+  /** Fails unless `v` (from token `t`) lies in the documented range of reference impedances. */
+  private checkReference(v: number, t: Token, what: string): void {
+    if (!(v > 0)) this.fail(this.lineNo, t.col, `${what} must be positive, got ${t.text}`);
+    if (v < MIN_REFERENCE_OHM || v > MAX_REFERENCE_OHM) {
+      this.fail(this.lineNo, t.col, `${what} ${t.text} ohm is outside the range a data file may give, ${MIN_REFERENCE_OHM} to ${MAX_REFERENCE_OHM} ohm`);
+    }
   }
 
   private positiveInt(t: Token, shown: string): number {
@@ -636,7 +802,7 @@ class Reader {
         this.fail(this.lineNo, t.col, `[Reference] needs ${this.ports} values; "${t.text}" is one too many`);
       }
       const v = this.number(t);
-      if (!(v > 0)) this.fail(this.lineNo, t.col, `reference impedance must be positive, got ${t.text}`);
+      this.checkReference(v, t, 'reference impedance');
       refs.push(v);
     }
     if (refs.length === this.ports) this.refsPending = false;
@@ -674,7 +840,7 @@ class Reader {
           const v = tokens[q + 1];
           if (v === undefined) this.fail(this.lineNo, t.col, 'option-line R needs a resistance after it');
           const r = this.number(v);
-          if (!(r > 0)) this.fail(this.lineNo, v.col, `option-line R must be positive, got ${v.text}`);
+          this.checkReference(r, v, 'option-line R');
           this.optionR = r;
           q++;
           break;
@@ -715,18 +881,20 @@ class Reader {
 
     if (this.point.length === 0) {
       const f = nums[0]! * this.scale;
-      const last = this.freqs.length > 0 ? this.freqs[this.freqs.length - 1]! : -Infinity;
+      const last = this.nFreqs > 0 ? this.freqs[this.nFreqs - 1]! : -Infinity;
       if (!(f > last)) {
-        if (this.version === '1.1' && this.ports === 2) {
-          this.section = 'noise';
-          this.noiseLine = line;
+        if (this.version === '1.1' && this.ports === 2 && this.nFreqs > 0) {
+          this.startNoise(line, tokens[0]!.col);
           return this.noiseLineData(tokens);
         }
+        this.checkFrequency(f, tokens[0]!);
         this.fail(line, tokens[0]!.col, `frequencies must increase: ${tokens[0]!.text} is not above the previous frequency`);
       }
-      if (this.version === '2.0' && this.freqs.length === this.declaredFreqs) {
+      if (this.version === '2.0' && this.nFreqs === this.declaredFreqs) {
         this.fail(line, tokens[0]!.col, `more frequency points than [Number of Frequencies] ${this.declaredFreqs}`);
       }
+      this.checkFrequency(f, tokens[0]!);
+      this.checkSize(this.nFreqs + 1, line, tokens[0]!.col);
       this.pointLine = line;
       this.pointCol = tokens[0]!.col;
     }
@@ -737,8 +905,23 @@ class Reader {
       }
       this.fail(this.pointLine, this.pointCol, `wrong count of numbers: the frequency point starting here needs ${this.perPoint}, it has ${this.point.length} before line ${line}, and line ${line} brings ${nums.length} more`);
     }
-    for (const v of nums) this.point.push(v);
+    for (let q = 0; q < nums.length; q++) {
+      this.point.push(nums[q]!);
+      this.pointAt.push(line, tokens[q]!.col);
+    }
     if (this.point.length === this.perPoint) this.storePoint();
+  }
+
+  /** Fails unless the frequency `f` (Hz, from token `t`) is finite and not negative. */
+  private checkFrequency(f: number, t: Token): void {
+    if (!Number.isFinite(f)) {
+      this.fail(this.lineNo, t.col, `frequency ${t.text} ${this.unitName()} is beyond the range of double-precision numbers (about 1.8e308 Hz)`);
+    }
+    if (f < 0) this.fail(this.lineNo, t.col, `frequencies must not be negative, got ${t.text}`);
+  }
+
+  private unitName(): string {
+    return this.scale === 1 ? 'Hz' : this.scale === 1e3 ? 'kHz' : this.scale === 1e6 ? 'MHz' : 'GHz';
   }
 
   private portsFor11(line: number, col: number): number {
@@ -746,9 +929,13 @@ class Reader {
       if (!Number.isInteger(this.opts.ports) || this.opts.ports < 1) {
         this.fail(line, col, `port count must be a positive integer, got ${this.opts.ports}`);
       }
+      if (this.opts.ports > MAX_PORTS) this.fail(line, col, `${this.opts.ports} ports is above the limit of ${MAX_PORTS} a data file may have`);
       return this.opts.ports;
     }
     const m = /\.s(\d+)p$/i.exec(this.opts.fileName ?? '');
+    if (m && Number(m[1]) > MAX_PORTS) {
+      this.fail(line, col, `the file name says ${m[1]} ports (.s${m[1]}p), above the limit of ${MAX_PORTS} a data file may have`);
+    }
     if (m && Number(m[1]) >= 1) return Number(m[1]);
     this.fail(line, col, 'unknown port count: a version 1.1 file needs a name ending in .sNp (e.g. .s2p) or the ports option');
   }
@@ -758,14 +945,23 @@ class Reader {
   private storePoint(): void {
     const n = this.ports;
     const p = this.point;
-    this.freqs.push(p[0]! * this.scale);
-    const base = this.vals.length;
-    for (let x = 0; x < 2 * n * n; x++) this.vals.push(0);
+    if (this.nFreqs === this.freqs.length) this.freqs = grow(this.freqs, this.nFreqs + 1);
+    this.freqs[this.nFreqs++] = p[0]! * this.scale;
+    const base = this.nVals;
+    if (base + 2 * n * n > this.vals.length) this.vals = grow(this.vals, base + 2 * n * n);
+    this.vals.fill(0, base, base + 2 * n * n);
+    this.nVals += 2 * n * n;
     const order = this.order;
+    // Version 1.1 Z and Y are normalised to R (z = Z/R, y = Y·R; from memory); version 2.0 are not.
+    const norm = this.version === '1.1' && this.parameter !== 'S' ? (this.parameter === 'Z' ? this.optionR : 1 / this.optionR) : 1;
     for (let q = 0; q < order.length / 2; q++) {
       decodeComplex(this.format, p[1 + 2 * q]!, p[2 + 2 * q]!, this.pair);
-      const i = order[2 * q]!;
-      const j = order[2 * q + 1]!;
+      this.pair[0] = this.pair[0]! * norm;
+      this.pair[1] = this.pair[1]! * norm;
+      if (!Number.isFinite(this.pair[0]!) || !Number.isFinite(this.pair[1]!)) this.overflow(q, norm);
+      const perm = this.modePerm;
+      const i = perm ? perm[order[2 * q]!]! : order[2 * q]!;
+      const j = perm ? perm[order[2 * q + 1]!]! : order[2 * q + 1]!;
       this.vals[base + 2 * (i * n + j)] = this.pair[0]!;
       this.vals[base + 2 * (i * n + j) + 1] = this.pair[1]!;
       if (i !== j && this.matrixFormat !== 'full') {
@@ -774,21 +970,48 @@ class Reader {
       }
     }
     this.point = [];
+    this.pointAt = [];
+  }
+
+  /** Fails at the pair `q` of the current point, whose decoded value is not finite. */
+  private overflow(q: number, norm: number): never {
+    const line = this.pointAt[2 + 4 * q]!;
+    const col = this.pointAt[3 + 4 * q]!;
+    const text = (l: number, c: number): string => /^\S*/.exec(this.lines[l - 1]!.slice(c - 1))![0];
+    const a = text(line, col);
+    const b = text(this.pointAt[4 + 4 * q]!, this.pointAt[5 + 4 * q]!);
+    const i = this.order[2 * q]! + 1;
+    const j = this.order[2 * q + 1]! + 1;
+    const what = `${this.parameter}${i}${j > 9 || i > 9 ? ',' : ''}${j}`;
+    const range = 'beyond the range of double-precision numbers (about 1.8e308)';
+    if (norm !== 1) {
+      this.fail(line, col, `${what} = ${a} ${b} (${this.format}) times the reference normalisation ${this.parameter === 'Z' ? `R = ${this.optionR} ohm` : `1/R = ${1 / this.optionR} S`} is ${range}`);
+    }
+    if (this.format === 'DB') this.fail(line, col, `${what}: ${a} dB is a magnitude of 10^${this.point[1 + 2 * q]! / 20}, ${range}`);
+    this.fail(line, col, `${what}: ${a} ${b} (${this.format}) is ${range}`);
   }
 
   private endNetwork(line: number): void {
     if (this.point.length > 0) {
       this.fail(this.pointLine, this.pointCol, `wrong count of numbers: the frequency point starting here has ${this.point.length}, needs ${this.perPoint} (frequency + ${this.order.length / 2} complex pairs)`);
     }
-    if (this.version === '2.0' && this.freqs.length !== this.declaredFreqs) {
-      this.fail(line, 1, `[Number of Frequencies] (line ${this.seen.get('number of frequencies')}) says ${this.declaredFreqs}, but [Network Data] has ${this.freqs.length}`);
+    if (this.version === '2.0' && this.nFreqs !== this.declaredFreqs) {
+      this.fail(line, 1, `[Number of Frequencies] (line ${this.seen.get('number of frequencies')}) says ${this.declaredFreqs}, but [Network Data] has ${this.nFreqs}`);
     }
     this.section = 'header';
   }
 
+  /** Starts the noise section at (line, col) and warns that its data are not used yet. */
+  private startNoise(line: number, col: number): void {
+    this.section = 'noise';
+    this.noiseLine = line;
+    this.warn(line, col, 'noise parameters start here; they are read and checked but not used yet (only the network data are)');
+  }
+
   private noiseLineData(tokens: Token[]): void {
     const line = this.lineNo;
-    for (const t of tokens) this.number(t);
+    const nums: number[] = [];
+    for (const t of tokens) nums.push(this.number(t));
     if (tokens.length !== 5) {
       const why = this.version === '1.1' && this.noiseCount === 0
         ? ' (a frequency not above the previous one starts the noise data of a 2-port file)'
@@ -796,8 +1019,11 @@ class Reader {
       this.fail(line, tokens[tokens.length > 5 ? 5 : 0]!.col,
         `a noise data line has 5 numbers (frequency, NFmin dB, |Γopt|, angle Γopt, Rn), this one has ${tokens.length}${why}`);
     }
-    const f = Number(tokens[0]!.text) * this.scale;
+    const f = nums[0]! * this.scale;
+    this.checkFrequency(f, tokens[0]!);
     if (!(f > this.lastNoiseFreq)) this.fail(line, tokens[0]!.col, `noise frequencies must increase: ${tokens[0]!.text} is not above the previous one`);
+    if (this.noise.length / 5 >= MAX_NETWORK_VALUES) this.fail(line, tokens[0]!.col, `more than ${MAX_NETWORK_VALUES} noise points`);
+    this.noise.push(f, nums[1]!, nums[2]!, nums[3]!, nums[4]!);
     if (this.version === '2.0' && this.noiseCount === this.declaredNoise) {
       this.fail(line, tokens[0]!.col, `more noise points than [Number of Noise Frequencies] ${this.declaredNoise}`);
     }
@@ -810,6 +1036,23 @@ class Reader {
       this.fail(line, 1, `[Number of Noise Frequencies] says ${this.declaredNoise}, but [Noise Data] (line ${this.noiseLine}) has ${this.noiseCount}`);
     }
     this.section = 'header';
+  }
+
+  /** Turns the single-ended references of a mixed-mode file into mode references (2·Z0, Z0/2) and labels the modes. */
+  private toModes(net: NetworkData, pairs: PortPair[]): void {
+    const count = pairs.length;
+    const refs = new Float64Array(net.ports);
+    pairs.forEach(([p, q], k) => {
+      const zp = net.references[p - 1]!;
+      const zq = net.references[q - 1]!;
+      if (Math.abs(zp - zq) > PAIR_REFERENCE_TOLERANCE * Math.max(zp, zq)) {
+        this.fail(this.seen.get('reference') ?? this.seen.get('mixed-mode order')!, 1, `ports ${p} and ${q} form a pair but have different references (${zp} and ${zq} ohm); mixed-mode waves need equal references within a pair`);
+      }
+      refs[k] = 2 * zp;
+      refs[count + k] = zp / 2;
+    });
+    net.references = refs;
+    Object.assign(net, { pairs, modes: modeLabels(count) });
   }
 
   private finish(): NetworkData {
@@ -828,25 +1071,37 @@ class Reader {
     } else {
       if (!this.optionSeen) this.fail(eof, 1, 'missing option line (# …)');
       if (this.point.length > 0) this.endNetwork(eof);
-      if (this.freqs.length === 0) this.fail(eof, 1, 'no network data in the file');
+      if (this.nFreqs === 0) this.fail(eof, 1, 'no network data in the file');
     }
     const n = this.ports;
     const refs = new Float64Array(n);
     for (let p = 0; p < n; p++) refs[p] = this.refs ? this.refs[p]! : this.optionR;
-    const values = Float64Array.from(this.vals);
-    // Version 1.1 Z and Y are normalised to R (from memory); version 2.0 are not.
-    if (this.version === '1.1' && this.parameter !== 'S') {
-      const k = this.parameter === 'Z' ? this.optionR : 1 / this.optionR;
-      for (let x = 0; x < values.length; x++) values[x] = values[x]! * k;
-    }
+    const values = this.vals.slice(0, this.nVals); // already denormalised in storePoint
     const net: NetworkData = {
       parameter: this.parameter,
       ports: n,
-      frequencies: Float64Array.from(this.freqs),
+      frequencies: this.freqs.slice(0, this.nFreqs),
       references: refs,
       values,
     };
     if (this.comments.length > 0) net.comments = this.comments;
+    if (this.modePairs) this.toModes(net, this.modePairs);
+    if (this.noise.length > 0) {
+      const m = this.noise.length / 5;
+      const column = (c: number): Float64Array => {
+        const out = new Float64Array(m);
+        for (let k = 0; k < m; k++) out[k] = this.noise[5 * k + c]!;
+        return out;
+      };
+      const noise: NoiseParameters = {
+        frequencies: column(0),
+        nfMinDb: column(1),
+        gammaOptMagnitude: column(2),
+        gammaOptAngleDeg: column(3),
+        rnNormalised: column(4),
+      };
+      net.noise = noise;
+    }
     return net;
   }
 }

@@ -66,6 +66,7 @@ import {
   zToSMatrix,
   type ConvertWorkspace,
 } from './convert.js';
+import { formatFrequency } from '../format/frequency.js';
 import type { NetworkData, ParameterKind } from './types.js';
 
 // --- data shapes ---------------------------------------------------------------------------------
@@ -153,14 +154,13 @@ export class TwoPortConversionError extends Error {
 
   constructor(details: TwoPortConversionErrorDetails, options?: { cause?: unknown }) {
     const where =
-      (details.section === undefined ? '' : ` in section ${details.section + 1} (1-based)`) +
-      (details.frequencyIndex === undefined
-        ? ''
-        : ` at frequency point ${details.frequencyIndex}` +
-          (details.frequency === undefined ? '' : ` (${details.frequency} Hz)`));
+      (details.section === undefined ? '' : ` in section ${details.section + 1} of the cascade`) +
+      (details.frequency === undefined ? '' : ` at ${formatFrequency(details.frequency)}`) +
+      (details.frequencyIndex === undefined ? '' : ` (frequency point ${details.frequencyIndex})`);
+    const plural = details.to === 'S' || details.to === 'Z' || details.to === 'Y';
     super(
-      `${details.to} matrix does not exist (converting from ${details.from})${where}: ${details.reason} ` +
-        `[relative size of the divisor ${details.rcond.toExponential(2)}]`,
+      `${KIND_NAMES[details.to]} ${plural ? 'do' : 'does'} not exist${where}, converting from ${details.from}: ${details.reason}` +
+        (details.rcond > 0 ? ` [relative size of the divisor ${details.rcond.toExponential(2)}]` : ''),
       options,
     );
     this.name = 'TwoPortConversionError';
@@ -224,7 +224,7 @@ export class FrequencyGridError extends RangeError {
       const more = mismatchCount > mismatches.length ? ` (${mismatchCount} differing points in all)` : '';
       parts.push(listed.join('; ') + more);
     }
-    super(`cascade: section ${section + 1} (1-based) is not on the frequency grid of section 1: ${parts.join('; ')}`);
+    super(`section ${section + 1} of the cascade is not on the frequency grid of section 1: ${parts.join('; ')}`);
     this.name = 'FrequencyGridError';
     this.section = section;
     this.expectedPoints = expectedPoints;
@@ -232,6 +232,33 @@ export class FrequencyGridError extends RangeError {
     this.mismatchCount = mismatchCount;
     this.mismatches = mismatches;
   }
+}
+
+/** Plain names of the matrices, for messages. */
+const KIND_NAMES: Readonly<Record<TwoPortKind, string>> = {
+  ABCD: 'the chain matrix (ABCD)',
+  T: 'the transfer matrix (T)',
+  H: 'the hybrid matrix (H)',
+  S: 'S-parameters',
+  Z: 'Z-parameters',
+  Y: 'Y-parameters',
+};
+
+/** Entry names of each two-port matrix in storage order (11, 12, 21, 22), for messages. */
+const ENTRY_NAMES: Readonly<Record<TwoPortKind, readonly string[]>> = {
+  ABCD: ['A', 'B', 'C', 'D'],
+  T: ['T11', 'T12', 'T21', 'T22'],
+  H: ['H11', 'H12', 'H21', 'H22'],
+  S: ['S11', 'S12', 'S21', 'S22'],
+  Z: ['Z11', 'Z12', 'Z21', 'Z22'],
+  Y: ['Y11', 'Y12', 'Y21', 'Y22'],
+};
+
+/** Why a result with a non-finite entry does not exist: that entry overflows the range of doubles. */
+function overflowReason(to: TwoPortKind, m: Float64Array): string {
+  let e = 0;
+  while (e < 3 && Number.isFinite(m[2 * e]!) && Number.isFinite(m[2 * e + 1]!)) e++;
+  return `computing ${ENTRY_NAMES[to][e]} overflows the range of double-precision numbers (about 1.8e308); the data are too large for this representation`;
 }
 
 const REASONS = {
@@ -285,11 +312,11 @@ export function createTwoPortWorkspace(options: TwoPortOptions = {}): TwoPortWor
 const UNIT_REFERENCES = new Float64Array([1, 1]);
 
 function checkTwoPortReferences(z0: Float64Array, name: string): void {
-  if (z0.length < 2) throw new RangeError(`${name}: need 2 reference impedances, got ${z0.length}`);
+  if (z0.length < 2) throw new RangeError(`need 2 reference impedances, got ${z0.length}`);
   for (let i = 0; i < 2; i++) {
     const z = z0[i]!;
     if (!(z > 0) || !Number.isFinite(z)) {
-      throw new RangeError(`${name}: reference impedance of port ${i + 1} must be finite and > 0, got ${z}`);
+      throw new RangeError(`reference impedance of port ${i + 1} must be finite and > 0, got ${z}`);
     }
   }
 }
@@ -334,7 +361,7 @@ export function chainFromScattering(
   const qi = -s21i / d2;
   const z1 = z0[0]!;
   const z2 = z0[1]!;
-  const r = Math.sqrt(z1 * z2);
+  const r = Math.sqrt(z1) * Math.sqrt(z2); // not √(z1·z2), which overflows for z above 1.3e154
   const kA = Math.sqrt(z1 / z2);
   const kD = Math.sqrt(z2 / z1);
   // (1 ± S11), (1 ± S22)
@@ -380,7 +407,7 @@ export function scatteringFromChain(
   }
   const z1 = z0[0]!;
   const z2 = z0[1]!;
-  const r = Math.sqrt(z1 * z2);
+  const r = Math.sqrt(z1) * Math.sqrt(z2); // not √(z1·z2), which overflows for z above 1.3e154
   // terms of N: a = A·z2, b = B, c = C·z1·z2, d = D·z1
   const ar = abcd[0]! * z2, ai = abcd[1]! * z2;
   const br = abcd[2]!, bi = abcd[3]!;
@@ -566,13 +593,13 @@ export function scatteringFromHybrid(
 
 /** Checks a two-port NetworkData and returns it as S (converting Z or Y data with convertNetwork). */
 function asTwoPortS(net: NetworkData, name: string, options: TwoPortOptions): NetworkData {
-  if (net.ports !== 2) throw new RangeError(`${name}: need a two-port, got ${net.ports} ports`);
+  if (net.ports !== 2) throw new RangeError(`${name} has ${net.ports} ports; the two-port matrices (ABCD, T, H) and cascades need two-ports`);
   const points = net.frequencies.length;
   if (net.values.length !== 8 * points) {
-    throw new RangeError(`${name}: values has length ${net.values.length}, expected 8·${points} = ${8 * points}`);
+    throw new RangeError(`${name} holds ${net.values.length} numbers, expected 8·${points} = ${8 * points}`);
   }
   if (net.references.length !== 2) {
-    throw new RangeError(`${name}: references has length ${net.references.length}, expected 2`);
+    throw new RangeError(`${name} has ${net.references.length} reference impedances, expected 2`);
   }
   checkTwoPortReferences(net.references, name);
   if (net.parameter === 'S') return net;
@@ -583,7 +610,7 @@ function asTwoPortS(net: NetworkData, name: string, options: TwoPortOptions): Ne
 function checkTwoPortData(data: TwoPortData, name: string): void {
   const points = data.frequencies.length;
   if (data.values.length !== 8 * points) {
-    throw new RangeError(`${name}: values has length ${data.values.length}, expected 8·${points} = ${8 * points}`);
+    throw new RangeError(`the two-port data hold ${data.values.length} numbers, expected 8·${points} = ${8 * points}`);
   }
 }
 
@@ -608,6 +635,8 @@ function mapPoints(
   z0: Float64Array,
   convert: PerMatrix,
   work: TwoPortWorkspace,
+  from: TwoPortKind,
+  to: TwoPortKind,
 ): Float64Array {
   const points = frequencies.length;
   const result = new Float64Array(8 * points);
@@ -620,6 +649,9 @@ function mapPoints(
     } catch (e) {
       if (e instanceof TwoPortConversionError) throw e.at({ frequencyIndex: k, frequency: frequencies[k]! });
       throw e;
+    }
+    if (!allFinite(buffer)) {
+      throw new TwoPortConversionError({ from, to, reason: overflowReason(to, buffer), rcond: 0, frequencyIndex: k, frequency: frequencies[k]! });
     }
     for (let t = 0; t < 8; t++) result[offset + t] = buffer[t]!;
   }
@@ -642,10 +674,10 @@ export function toTwoPort(
   options: TwoPortOptions = {},
 ): TwoPortData {
   const convert = PER_MATRIX_FROM_S[representation];
-  if (!convert) throw new RangeError(`toTwoPort: unknown representation ${String(representation)}`);
-  const s = asTwoPortS(net, 'toTwoPort', options);
+  if (!convert) throw new RangeError(`unknown representation ${String(representation)}`);
+  const s = asTwoPortS(net, 'the network data', options);
   const work = createTwoPortWorkspace(options);
-  const values = mapPoints(s.frequencies, s.values, s.references, convert, work);
+  const values = mapPoints(s.frequencies, s.values, s.references, convert, work, 'S', representation);
   const result: TwoPortData = {
     representation,
     frequencies: s.frequencies.slice(),
@@ -667,26 +699,26 @@ export function toTwoPort(
 export function fromTwoPort(data: TwoPortData, references?: Float64Array, options: TwoPortOptions = {}): NetworkData {
   checkTwoPortData(data, 'fromTwoPort');
   const convert = PER_MATRIX_TO_S[data.representation];
-  if (!convert) throw new RangeError(`fromTwoPort: unknown representation ${String(data.representation)}`);
+  if (!convert) throw new RangeError(`unknown representation ${String(data.representation)}`);
   const z0 = references ?? data.references;
   if (z0 === undefined) {
     throw new RangeError(
-      `fromTwoPort: ${data.representation} data carries no references; pass the references of the S to return`,
+      `${data.representation} data carries no references; pass the references of the S to return`,
     );
   }
-  if (z0.length !== 2) throw new RangeError(`fromTwoPort: need 2 references, got ${z0.length}`);
+  if (z0.length !== 2) throw new RangeError(`need 2 references, got ${z0.length}`);
   checkTwoPortReferences(z0, 'fromTwoPort');
   if (data.representation === 'T' && references !== undefined) {
     const own = data.references;
     if (own[0] !== references[0] || own[1] !== references[1]) {
       throw new RangeError(
-        `fromTwoPort: T data is defined for references ${own[0]}, ${own[1]} ohm and gives S only for those; ` +
+        `T data is defined for references ${own[0]}, ${own[1]} ohm and gives S only for those; ` +
           'convert with them and renormalise the S data',
       );
     }
   }
   const work = createTwoPortWorkspace(options);
-  const values = mapPoints(data.frequencies, data.values, z0, convert, work);
+  const values = mapPoints(data.frequencies, data.values, z0, convert, work, data.representation, 'S');
   const result: NetworkData = {
     parameter: 'S',
     ports: 2,
@@ -701,7 +733,7 @@ export function fromTwoPort(data: TwoPortData, references?: Float64Array, option
 
 function expectRepresentation(data: TwoPortData, want: TwoPortRepresentation, name: string): void {
   if (data.representation !== want) {
-    throw new RangeError(`${name}: expected ${want} data, got ${data.representation}`);
+    throw new RangeError(`${want} data are needed here, got ${data.representation}`);
   }
 }
 
@@ -780,11 +812,11 @@ function checkGrid(first: Float64Array, other: Float64Array, section: number): v
  * through it, e.g. a shunt short circuit) or when the result has no S (active networks only).
  */
 export function cascade(...nets: NetworkData[]): NetworkData {
-  if (nets.length === 0) throw new RangeError('cascade: need at least one section');
+  if (nets.length === 0) throw new RangeError('a cascade needs at least one section');
   const options: TwoPortOptions = {};
   const sections = nets.map((net, i) => {
     try {
-      return asTwoPortS(net, `cascade (section ${i + 1})`, options);
+      return asTwoPortS(net, `section ${i + 1} of the cascade`, options);
     } catch (e) {
       if (e instanceof ConversionError) {
         const details: TwoPortConversionErrorDetails = { from: e.from, to: 'S', reason: e.reason, rcond: e.rcond, section: i };
@@ -813,6 +845,9 @@ export function cascade(...nets: NetworkData[]): NetworkData {
       for (let t = 0; t < 8; t++) target[t] = section.values[offset + t]!;
       try {
         chainFromScattering(target, section.references, target, work);
+        if (!allFinite(target)) {
+          throw new TwoPortConversionError({ from: 'S', to: 'ABCD', reason: overflowReason('ABCD', target), rcond: 0 });
+        }
       } catch (e) {
         if (e instanceof TwoPortConversionError) {
           throw e.at({ section: i, frequencyIndex: k, frequency: first.frequencies[k]! });
@@ -828,6 +863,7 @@ export function cascade(...nets: NetworkData[]): NetworkData {
     }
     try {
       scatteringFromChain(acc, outer, acc, work);
+      if (!allFinite(acc)) throw new TwoPortConversionError({ from: 'ABCD', to: 'S', reason: overflowReason('S', acc), rcond: 0 });
     } catch (e) {
       if (e instanceof TwoPortConversionError) throw e.at({ frequencyIndex: k, frequency: first.frequencies[k]! });
       throw e;

@@ -76,7 +76,7 @@ export function scaleMatrix(n: number, a: Float64Array, re: number, im: number, 
  * `out` must not share memory with `a` or `b` (throws RangeError if it is the same array).
  */
 export function multiply(n: number, a: Float64Array, b: Float64Array, out: Float64Array): Float64Array {
-  if (out === a || out === b) throw new RangeError('multiply: out must not be an input');
+  if (out === a || out === b) throw new RangeError('the product matrix must not be one of its factors');
   for (let i = 0; i < n; i++) {
     const rowOut = 2 * i * n;
     for (let j = 0; j < 2 * n; j++) out[rowOut + j] = 0;
@@ -200,7 +200,7 @@ export class SingularMatrixError extends Error {
  * in `f.status`.
  */
 export function luFactor(n: number, a: Float64Array, f: LuFactors, pivotTolerance = 0): number {
-  if (f.n !== n) throw new RangeError(`luFactor: workspace is for n=${f.n}, not ${n}`);
+  if (f.n !== n) throw new RangeError(`workspace is for n=${f.n}, not ${n}`);
   const lu = f.lu;
   if (lu !== a) copyInto(a, lu, 2 * n * n);
   const norm = norm1(n, lu);
@@ -503,7 +503,7 @@ export function hermitianEigen(
   vectors: Float64Array | null,
   work: EigenWorkspace,
 ): number {
-  if (work.n !== n) throw new RangeError(`hermitianEigen: workspace is for n=${work.n}, not ${n}`);
+  if (work.n !== n) throw new RangeError(`workspace is for n=${work.n}, not ${n}`);
   const a = work.a;
   // symmetric fill from the upper triangle
   let big = 0;
@@ -600,7 +600,7 @@ export function hermitianEigen(
     if (rotations === 0) break;
     sweeps++;
     if (sweeps >= MAX_JACOBI_SWEEPS) {
-      throw new Error(`hermitianEigen: no convergence after ${MAX_JACOBI_SWEEPS} sweeps (non-finite input?)`);
+      throw new Error(`the eigenvalue iteration did not converge after ${MAX_JACOBI_SWEEPS} sweeps (non-finite input?)`);
     }
   }
   for (let i = 0; i < n; i++) values[i] = a[2 * (i * n + i)]!;
@@ -634,7 +634,7 @@ export function hermitianEigen(
  * power at that frequency (not passive); all values equal to 1 means lossless. Returns the sweeps used.
  */
 export function gramEigenvalues(n: number, a: Float64Array, values: Float64Array, work: EigenWorkspace): number {
-  if (work.n !== n) throw new RangeError(`gramEigenvalues: workspace is for n=${work.n}, not ${n}`);
+  if (work.n !== n) throw new RangeError(`workspace is for n=${work.n}, not ${n}`);
   const g = work.g;
   // g_ij = Σ_k conj(a_ki)·a_kj, upper triangle is enough
   for (let i = 0; i < n; i++) {

@@ -124,9 +124,11 @@ export class ConversionError extends Error {
           (details.frequency === undefined ? '' : ` (${details.frequency} Hz)`);
     const cond =
       details.pivot >= 0
-        ? `zero pivot at step ${details.pivot}`
-        : `reciprocal condition number ${details.rcond.toExponential(2)}`;
-    super(`${what}${where}: ${details.reason} [${cond}]`, options);
+        ? ` [zero pivot at step ${details.pivot}]`
+        : details.rcond > 0
+          ? ` [reciprocal condition number ${details.rcond.toExponential(2)}]`
+          : '';
+    super(`${what}${where}: ${details.reason}${cond}`, options);
     this.name = 'ConversionError';
     this.from = details.from;
     this.to = details.to;
@@ -180,17 +182,17 @@ const REASONS = {
 } as const;
 
 function checkReferences(n: number, z0: Float64Array, name: string): void {
-  if (z0.length < n) throw new RangeError(`${name}: need ${n} reference impedances, got ${z0.length}`);
+  if (z0.length < n) throw new RangeError(`need ${n} reference impedances, got ${z0.length}`);
   for (let i = 0; i < n; i++) {
     const z = z0[i]!;
     if (!(z > 0) || !Number.isFinite(z)) {
-      throw new RangeError(`${name}: reference impedance of port ${i + 1} must be finite and > 0, got ${z}`);
+      throw new RangeError(`reference impedance of port ${i + 1} must be finite and > 0, got ${z}`);
     }
   }
 }
 
 function checkWorkspace(n: number, work: ConvertWorkspace, name: string): void {
-  if (work.n !== n) throw new RangeError(`${name}: workspace is for ${work.n} ports, not ${n}`);
+  if (work.n !== n) throw new RangeError(`workspace is for ${work.n} ports, not ${n}`);
 }
 
 /**
@@ -532,21 +534,41 @@ const CONVERSIONS: Readonly<Record<string, MatrixConversion>> = {
 
 function checkNetwork(net: NetworkData, name: string): number {
   const n = net.ports;
-  if (!Number.isInteger(n) || n < 1) throw new RangeError(`${name}: ports must be a positive integer, got ${n}`);
+  if (!Number.isInteger(n) || n < 1) throw new RangeError(`the port count must be a positive integer, got ${n}`);
   const points = net.frequencies.length;
   if (net.values.length !== 2 * n * n * points) {
     throw new RangeError(
-      `${name}: values has length ${net.values.length}, expected 2·${n}²·${points} = ${2 * n * n * points}`,
+      `the network data hold ${net.values.length} numbers, expected 2·${n}²·${points} = ${2 * n * n * points}`,
     );
   }
   if (net.references.length !== n) {
-    throw new RangeError(`${name}: references has length ${net.references.length}, expected ${n}`);
+    throw new RangeError(`the network data have ${net.references.length} reference impedances for ${n} ports`);
   }
   checkReferences(n, net.references, name);
   if (net.referenceReactances?.some((x) => x !== 0)) {
-    throw new RangeError(`${name}: the data has complex reference impedances; turn them real first (fromComplexReferences in power-waves.ts)`);
+    throw new RangeError(`the data has complex reference impedances; turn them real first (in the library: fromComplexReferences)`);
   }
   return points;
+}
+
+/**
+ * Throws a {@link ConversionError} when a converted matrix (its first `size` numbers) holds a
+ * non-finite number: finite data can still overflow, e.g. Z = z0·(U + S)(U − S)⁻¹ of entries near 1e308.
+ */
+function checkFiniteResult(m: Float64Array, size: number, from: ParameterKind, to: ParameterKind, k: number, f: number): void {
+  for (let t = 0; t < size; t++) {
+    if (!Number.isFinite(m[t]!)) {
+      throw new ConversionError({
+        from,
+        to,
+        reason: 'the result is beyond the range of double-precision numbers (about 1.8e308); the data are too large for these parameters',
+        rcond: 0,
+        pivot: -1,
+        frequencyIndex: k,
+        frequency: f,
+      });
+    }
+  }
 }
 
 function copyNetwork(net: NetworkData, parameter: ParameterKind, values: Float64Array): NetworkData {
@@ -581,7 +603,7 @@ export function convertNetwork(
     return copyNetwork(net, to, values);
   }
   const convert = CONVERSIONS[net.parameter + to];
-  if (!convert) throw new RangeError(`convertNetwork: unknown conversion ${net.parameter} → ${to}`);
+  if (!convert) throw new RangeError(`unknown conversion ${net.parameter} → ${to}`);
   const work = createConvertWorkspace(n, options);
   const size = 2 * n * n;
   const buffer = createMatrix(n);
@@ -594,6 +616,7 @@ export function convertNetwork(
       if (e instanceof ConversionError) throw e.atFrequency(k, net.frequencies[k]!);
       throw e;
     }
+    checkFiniteResult(buffer, size, net.parameter, to, k, net.frequencies[k]!);
     for (let t = 0; t < size; t++) values[offset + t] = buffer[t]!;
   }
   return copyNetwork(net, to, values);
@@ -612,7 +635,7 @@ export function renormalizeNetwork(
 ): NetworkData {
   const points = checkNetwork(net, 'renormalizeNetwork');
   const n = net.ports;
-  if (toZ0.length !== n) throw new RangeError(`renormalizeNetwork: need ${n} new references, got ${toZ0.length}`);
+  if (toZ0.length !== n) throw new RangeError(`need ${n} new references, got ${toZ0.length}`);
   checkReferences(n, toZ0, 'renormalizeNetwork');
   const values = new Float64Array(net.values.length);
   if (net.parameter !== 'S') {
@@ -630,6 +653,7 @@ export function renormalizeNetwork(
         if (e instanceof ConversionError) throw e.atFrequency(k, net.frequencies[k]!);
         throw e;
       }
+      checkFiniteResult(buffer, size, 'S', 'S', k, net.frequencies[k]!);
       for (let t = 0; t < size; t++) values[offset + t] = buffer[t]!;
     }
   }

@@ -32,6 +32,7 @@
  * @module
  */
 
+import { formatFrequency } from '../format/frequency.js';
 import { createMatrix, multiply } from './complex.js';
 import { convertNetwork } from './convert.js';
 import type { NetworkData } from './types.js';
@@ -68,25 +69,60 @@ export interface ModeTransform {
 
 /** Checks that `pairs` uses every one of the ports 1..ports exactly once; returns N. */
 function checkPairs(ports: number, pairs: readonly PortPair[], name: string): number {
-  if (!Array.isArray(pairs) || pairs.length === 0) throw new RangeError(`${name}: need at least one port pair`);
+  if (!Array.isArray(pairs) || pairs.length === 0) throw new RangeError(`mixed-mode data need at least one pair of ports`);
   if (ports !== 2 * pairs.length) {
     throw new RangeError(
-      `${name}: ${pairs.length} pair(s) need a ${2 * pairs.length}-port, the network has ${ports} ports ` +
+      `${pairs.length} pair(s) need a ${2 * pairs.length}-port, the network has ${ports} ports ` +
         '(every single-ended port must belong to exactly one pair)',
     );
   }
   const seen = new Array<number>(ports + 1).fill(0);
   pairs.forEach((pair, k) => {
-    if (!Array.isArray(pair) || pair.length !== 2) throw new RangeError(`${name}: pair ${k + 1} must be [positive, negative]`);
+    if (!Array.isArray(pair) || pair.length !== 2) throw new RangeError(`pair ${k + 1} must be [positive, negative]`);
     for (const port of pair) {
       if (!Number.isInteger(port) || port < 1 || port > ports) {
-        throw new RangeError(`${name}: pair ${k + 1} names port ${port}; ports are numbered 1..${ports}`);
+        throw new RangeError(`pair ${k + 1} names port ${port}; ports are numbered 1..${ports}`);
       }
-      if (seen[port]) throw new RangeError(`${name}: port ${port} appears in more than one place in the pairs`);
+      if (seen[port]) throw new RangeError(`port ${port} appears in more than one place in the pairs`);
       seen[port] = k + 1;
     }
   });
   return pairs.length;
+}
+
+/**
+ * Whether `net` is mixed-mode data (made by {@link mixedMode} or read from a file that says so):
+ * it carries its pairs and mode labels, [D1, …, DN, C1, …, CN].
+ */
+export function isMixedMode(net: NetworkData): net is MixedModeData {
+  const m = net as Partial<MixedModeData>;
+  return Array.isArray(m.pairs) && Array.isArray(m.modes) && m.modes.length === net.ports && 2 * m.pairs.length === net.ports;
+}
+
+/**
+ * Name of entry (i, j) (0-based) of mixed-mode data of `pairs` pairs, without the parameter
+ * letter: `dd11`, `dc21`, `cd12`, `cc22` (response mode and pair first, then the drive's), as in
+ * Bockelman & Eisenstadt's Sdd21 etc. With 10 pairs or more the pair numbers are separated by an
+ * underscore (`dd10_2`) so that names stay unambiguous.
+ */
+export function modeEntryName(pairCount: number, i: number, j: number): string {
+  const mode = (r: number): [string, number] => (r < pairCount ? ['d', r + 1] : ['c', r - pairCount + 1]);
+  const [mi, ki] = mode(i);
+  const [mj, kj] = mode(j);
+  return `${mi}${mj}${ki}${pairCount >= 10 ? '_' : ''}${kj}`;
+}
+
+/**
+ * The mode list of the Touchstone 2.0 `[Mixed-Mode Order]` keyword for these pairs, in our row order
+ * [D1, …, DN, C1, …, CN]: `D p1,n1 … D pN,nN C p1,n1 … C pN,nN` written without spaces inside an
+ * entry (`D1,3 D2,4 C1,3 C2,4`). In the standard an entry `Dx,y` (or `Cx,y`) is the differential
+ * (common) mode of single-ended ports x and y, x the positive one (Touchstone 2.0 specification,
+ * [Mixed-Mode Order]; from memory).
+ */
+export function touchstoneModeOrder(pairs: readonly PortPair[]): string {
+  const d = pairs.map(([p, n]) => `D${p},${n}`);
+  const c = pairs.map(([p, n]) => `C${p},${n}`);
+  return [...d, ...c].join(' ');
 }
 
 /** Mode labels for N pairs: ['D1', …, 'DN', 'C1', …, 'CN']. */
@@ -140,15 +176,15 @@ function checkData(net: NetworkData, name: string): void {
   const n = net.ports;
   const points = net.frequencies.length;
   if (net.values.length !== 2 * n * n * points) {
-    throw new RangeError(`${name}: values has length ${net.values.length}, expected 2·${n}²·${points} = ${2 * n * n * points}`);
+    throw new RangeError(`the network data hold ${net.values.length} numbers, expected 2·${n}²·${points} = ${2 * n * n * points}`);
   }
   if (net.references.length !== n) {
-    throw new RangeError(`${name}: references has length ${net.references.length}, expected ${n}`);
+    throw new RangeError(`the network data have ${net.references.length} reference impedances for ${n} ports`);
   }
   for (let i = 0; i < n; i++) {
     const z = net.references[i]!;
     if (!(z > 0) || !Number.isFinite(z)) {
-      throw new RangeError(`${name}: reference impedance ${i + 1} must be finite and > 0, got ${z}`);
+      throw new RangeError(`reference impedance ${i + 1} must be finite and > 0, got ${z}`);
     }
   }
 }
@@ -167,7 +203,15 @@ function mapMatrices(
     const offset = k * size;
     for (let t = 0; t < size; t++) buffer[t] = net.values[offset + t]!;
     apply(transform, buffer, buffer);
-    for (let t = 0; t < size; t++) values[offset + t] = buffer[t]!;
+    for (let t = 0; t < size; t++) {
+      if (!Number.isFinite(buffer[t]!)) {
+        throw new RangeError(
+          `the mode conversion overflows at ${formatFrequency(net.frequencies[k]!)} (frequency point ${k}): ` +
+            'a sum of entries is beyond the range of double-precision numbers (about 1.8e308)',
+        );
+      }
+      values[offset + t] = buffer[t]!;
+    }
   }
   return values;
 }
@@ -189,7 +233,7 @@ export function mixedMode(net: NetworkData, pairs: readonly PortPair[]): MixedMo
     const zn = net.references[m - 1]!;
     if (!sameReference(zp, zn)) {
       throw new RangeError(
-        `mixedMode: pair ${k + 1} has unequal references (port ${p}: ${zp} ohm, port ${m}: ${zn} ohm); ` +
+        `pair ${k + 1} has unequal references (port ${p}: ${zp} ohm, port ${m}: ${zn} ohm); ` +
           'mixed-mode waves need equal references within a pair, renormalise first',
       );
     }
@@ -219,7 +263,7 @@ export function mixedMode(net: NetworkData, pairs: readonly PortPair[]): MixedMo
  */
 export function singleEnded(mm: MixedModeData): NetworkData {
   checkData(mm, 'singleEnded');
-  if (mm.parameter !== 'S') throw new RangeError(`singleEnded: mixed-mode data must be S, got ${mm.parameter}`);
+  if (mm.parameter !== 'S') throw new RangeError(`mixed-mode data must be S, got ${mm.parameter}`);
   const transform = createModeTransform(mm.ports, mm.pairs);
   const count = mm.pairs.length;
   const references = new Float64Array(mm.ports);
@@ -228,7 +272,7 @@ export function singleEnded(mm: MixedModeData): NetworkData {
     const zc = mm.references[count + k]!;
     if (!sameReference(zd, 4 * zc)) {
       throw new RangeError(
-        `singleEnded: pair ${k + 1} has differential reference ${zd} ohm and common-mode reference ${zc} ohm; ` +
+        `pair ${k + 1} has differential reference ${zd} ohm and common-mode reference ${zc} ohm; ` +
           'they must be 2·Z0 and Z0/2 for one Z0',
       );
     }

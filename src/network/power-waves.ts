@@ -104,10 +104,10 @@ function scattering(n: number, z: Float64Array, frequencies: Float64Array, re: F
  * real ones), from whatever references it has now, real or complex. Goes through Z.
  */
 export function renormalizeComplex(net: NetworkData, re: Float64Array, im?: Float64Array): NetworkData {
-  if (net.parameter !== 'S') throw new RangeError('renormalizeComplex: give S-parameters');
+  if (net.parameter !== 'S') throw new RangeError('renormalising to complex references needs S-parameters');
   const n = net.ports;
-  if (re.length !== n || (im && im.length !== n)) throw new RangeError(`renormalizeComplex: need ${n} references`);
-  if (re.some((r) => !(r > 0))) throw new RangeError('renormalizeComplex: the real part of every reference must be above 0');
+  if (re.length !== n || (im && im.length !== n)) throw new RangeError(`${n} reference impedances are needed, one per port`);
+  if (re.some((r) => !(r > 0))) throw new RangeError('the real part of every reference must be above 0');
   const x = im ?? new Float64Array(n);
   const values = scattering(n, impedances(net), net.frequencies, re, x);
   const result: NetworkData = { ...net, frequencies: net.frequencies.slice(), references: Float64Array.from(re), values };

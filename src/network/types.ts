@@ -27,6 +27,25 @@ export interface NetworkData {
   title?: string;
   /** Optional free-text comment lines carried to writers. */
   comments?: string[];
+  /**
+   * Noise parameters of a two-port data file, as read (not used by any computation yet; the
+   * writers do not write them).
+   */
+  noise?: NoiseParameters;
+}
+
+/** Two-port noise parameters over frequency, as a Touchstone file gives them. */
+export interface NoiseParameters {
+  /** Frequencies in Hz, ascending. */
+  frequencies: Float64Array;
+  /** Minimum noise figure, dB. */
+  nfMinDb: Float64Array;
+  /** Magnitude of the optimum source reflection coefficient. */
+  gammaOptMagnitude: Float64Array;
+  /** Angle of the optimum source reflection coefficient, degrees. */
+  gammaOptAngleDeg: Float64Array;
+  /** Effective noise resistance as written in the file (normalised to the reference). */
+  rnNormalised: Float64Array;
 }
 
 /** Index of the real part of entry (i, j) at frequency k. */
