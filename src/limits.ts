@@ -28,3 +28,7 @@ export const MAX_EXPRESSION_DEPTH = 200;
 
 /** Size of any file read: netlist, included file or data file (only regular files are read). */
 export const MAX_FILE_BYTES = 256 * 1024 * 1024;
+
+/** Smallest and largest port reference resistance, Ω: the power-wave normalisation takes √R and 1/√R. */
+export const MIN_REFERENCE_OHMS = 1e-6;
+export const MAX_REFERENCE_OHMS = 1e9;

@@ -773,9 +773,9 @@ describe('warnings', () => {
     expect(loading(t, { set: ['x=4 ohm'] }).warnings).toEqual([]);
   });
 
-  it('port-on-bare-node: a port on a node no element touches', () => {
+  it('port-on-bare-node: a port on a node no element touches (an error since issue 14: always a mistake)', () => {
     const t = net(PORT, 'port 2 plus=out', LOAD, SWEEP);
-    expect(loading(t).warnings).toEqual([warn('port-on-bare-node', 'port 2 is on node `out`, which no element touches', find(t, 2, 'out'))]);
+    expect(errorsOf(t)).toEqual([err('port-on-bare-node', 'port 2 is on node `out`, which no element touches', find(t, 2, 'out'), 'connect an element to the node, or check its spelling')]);
   });
 
   it('ground-alias: `gnd` is an ordinary node', () => {

@@ -71,7 +71,8 @@ export function buildSweep(
     if (!tooMany && total > MAX_SWEEP_POINTS) {
       tooMany = true;
       const all = Number.isFinite(total) && total < 1e15 ? `${total}` : 'more than 10^15';
-      bag.error('too-many-points', `the sweep would have ${all} points in all (at most ${MAX_SWEEP_POINTS}, all segments together)`, span, 'use fewer points, a larger `step` or a smaller `per_decade`');
+      const what = segments.length > 0 ? `${all} points, all segments together` : `${all} points`;
+      bag.error('bad-sweep', `the sweep would have ${what} (at most ${MAX_SWEEP_POINTS})`, span);
     }
     if (!tooMany) segments.push(seg);
   };
