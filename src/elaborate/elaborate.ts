@@ -6,7 +6,7 @@ import { ELEMENTS, joinedNodes, outsideRange } from '../elements/registry.js';
 import { GROUND, GROUND_NAME, type ElementInstance, type ElementType, type PropertySpec, type TerminalSpec } from '../elements/types.js';
 import type { NetworkData } from '../network/types.js';
 import type { Circuit, ParameterValue, Port } from './circuit.js';
-import { describeUnit, evaluate, literalToSI, math, toSICached, type EvalScope, type Quantity } from './evaluate.js';
+import { describeQuantity, describeUnit, evaluate, literalToSI, math, toSICached, type EvalScope, type Quantity } from './evaluate.js';
 import { dirname, isAbsolute, join } from 'node:path';
 import { formatFrequency } from '../format/frequency.js';
 import { floatingGroups } from './islands.js';
@@ -422,7 +422,15 @@ export function elaborate(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, op
         continue;
       }
       const o = ctx.terminals ? undefined : overrides.get(a.key);
-      const value = finiteOrReport(evaluate(o ? o.expr : a.values[0]!, evalScope(ctx), bag), o ? o.expr.span : a.values[0]!.span, bag, a.key);
+      let value = finiteOrReport(evaluate(o ? o.expr : a.values[0]!, evalScope(ctx), bag), o ? o.expr.span : a.values[0]!.span, bag, a.key);
+      if (o && value !== undefined) {
+        // the override must be the same kind of quantity as the netlist's own value
+        const own = evaluate(a.values[0]!, evalScope(ctx), new DiagnosticBag());
+        if (own !== undefined && !sameDimension(own, value)) {
+          bag.error('wrong-unit', `\`--set ${a.key}\`: the netlist's \`${a.key}\` is ${describeQuantity(own)}, but this is ${describeQuantity(value)}`, o.expr.span, `line ${a.keySpan.line} of ${a.keySpan.file} defines it`);
+          value = undefined;
+        }
+      }
       const key = spanKey(a.keySpan);
       ctx.scope.entries.set(a.key, { value: value ?? null, span: a.keySpan, key });
       if (!definitions.has(key)) definitions.set(key, { name: a.key, span: a.keySpan, failed: value === undefined, what: 'parameter' });
@@ -996,6 +1004,13 @@ function finiteOrReport(q: Quantity | undefined, span: SourceSpan, bag: Diagnost
     return undefined;
   }
   return q;
+}
+
+/** Whether two values are the same kind of quantity (a plain number and a dimensionless unit are). */
+function sameDimension(a: Quantity, b: Quantity): boolean {
+  const plain = (q: Quantity) => typeof q === 'number' || q.dimensions.every((d) => d === 0);
+  if (plain(a) || plain(b)) return plain(a) && plain(b);
+  return (a as Exclude<Quantity, number>).equalBase(b as Exclude<Quantity, number>);
 }
 
 function signOk(p: PropertySpec, v: number): boolean {
