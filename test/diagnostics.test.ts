@@ -682,10 +682,10 @@ describe('--set and --sweep overrides', () => {
     expect(s.values[1]).toBeCloseTo(0, 12);
   });
 
-  it('an override with the wrong dimension is caught where the parameter is used', () => {
+  it('an override with the wrong dimension is reported at --set (issue 14: a bad --set value is located at --set)', () => {
     const ds = errorsOf(T, { set: ['fc=2 pF'] });
     expect(ds).toEqual([
-      err('wrong-unit', '`freqs` must be a frequency (Hz), but it is a capacitance (F)', find(T, 5, 'fc'), 'give a frequency (Hz), e.g. `433 MHz`; a bare number is read in Hz'),
+      err('wrong-unit', "`--set fc`: the netlist's `fc` is a frequency (Hz), but this is a capacitance (F)", { file: '--set', line: 1, column: 4, length: 4 }, 'line 1 of diag.sbx defines it'),
     ]);
   });
 
