@@ -641,7 +641,12 @@ export function elaborate(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, op
     // exact-length arrays (an array grown by push keeps room for 16): a large netlist keeps them all
     el.nodes = el.nodes.slice();
     el.nodeNames = el.nodeNames.slice();
-    type.validate?.(el, (message, key, help) => bag.error('bad-element', message, (key && args.get(key)?.span) || st.label!.span, help));
+    let valid = true;
+    type.validate?.(el, (message, key, help) => {
+      valid = false;
+      bag.error('bad-element', message, (key && args.get(key)?.span) || st.label!.span, help);
+    });
+    if (!valid) return;
     if (el.nodes.length === 2 && el.nodes[0] === el.nodes[1]) {
       const node = el.nodes[0] === GROUND ? GROUND_NAME : nodeNames[el.nodes[0]!]!;
       bag.warning('shorted-element', `both terminals of \`${name}\` are on node \`${node}\`: it has no effect`, st.span);
@@ -714,6 +719,14 @@ export function elaborate(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, op
     const hi = frequencies[frequencies.length - 1]!;
     for (const { element: el, range } of outsideRange(elements, lo, hi)) {
       bag.error('sweep-outside-data', `the sweep (${formatFrequency(lo)} to ${formatFrequency(hi)}) reaches outside the data of \`${el.name}\` (${formatFrequency(range[0])} to ${formatFrequency(range[1])})`, el.span, 'narrow the sweep, or let the element extrapolate with `extrapolate=hold`');
+    }
+  }
+
+  // Errors of the elements' own over the sweep (a model that cannot be evaluated somewhere).
+  if (frequencies.length > 0) {
+    for (const el of elements) {
+      const type = ELEMENTS.get(el.type)!;
+      type.checkSweep?.(el, frequencies, (message, _key, help) => bag.error('bad-element', `\`${el.name}\`: ${message}`, el.span, help));
     }
   }
 
