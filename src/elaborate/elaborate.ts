@@ -746,7 +746,8 @@ export function elaborate(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, op
   for (let k = 1; k <= highest; k++) if (!ports.has(k)) missingPorts.push(k);
   if (missingPorts.length > 0) {
     const after = portList.find((p) => p.number > missingPorts[0]!)!;
-    const list = missingPorts.length === 1 ? `port ${missingPorts[0]} is missing` : `ports ${missingPorts.join(', ')} are missing`;
+    const shown = missingPorts.length > 12 ? `${missingPorts.slice(0, 10).join(', ')} … ${missingPorts[missingPorts.length - 1]} (${missingPorts.length} in all)` : missingPorts.join(', ');
+    const list = missingPorts.length === 1 ? `port ${missingPorts[0]} is missing` : `ports ${shown} are missing`;
     bag.error('port-gap', `ports must be numbered from 1 without gaps; ${list}`, after.span);
   }
 
@@ -784,6 +785,17 @@ export function elaborate(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, op
   for (const [key, d] of definitions) {
     if (!usedKeys.has(key) && !usedEarly.has(key) && !d.failed) {
       bag.warning('unused-parameter', `${d.what} \`${d.name}\` is never used`, d.span);
+    }
+  }
+  // blocks used inside used blocks count as used, also where expansion stopped (a cycle, a limit)
+  const reach = [...blocks.values()].filter((b) => b.used);
+  while (reach.length > 0) {
+    for (const st of reach.pop()!.body) {
+      const c = blocks.get(st.keyword);
+      if (c && !c.used) {
+        c.used = true;
+        reach.push(c);
+      }
     }
   }
   for (const b of blocks.values()) {
