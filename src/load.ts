@@ -164,7 +164,7 @@ function expandIncludes(ast: NetlistItems, chain: string[], bag: DiagnosticBag, 
       text = read(path);
     } catch (e) {
       const code = (e as NodeJS.ErrnoException).code;
-      bag.error('bad-include', `cannot read ${JSON.stringify(arg.value)}: ${code === 'ENOENT' ? 'no such file' : (e as Error).message}`, arg.span, `the path is relative to ${dirname(ast.file) || '.'}`);
+      bag.error('bad-include', `cannot read ${JSON.stringify(arg.value)}: ${code === 'ENOENT' ? 'no such file' : (e as Error).message}`, arg.span, code === 'ENOENT' && !isAbsolute(arg.value) ? `the path is relative to ${dirname(ast.file) || '.'}` : undefined);
       continue;
     }
     sources.set(path, text);

@@ -391,7 +391,7 @@ export function elaborate(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, op
         bag.error('bad-data-file', `the network-data file ${JSON.stringify(path)} is malformed (see above)`, at);
       } else {
         const code = (e as NodeJS.ErrnoException).code;
-        bag.error('bad-data-file', `cannot read ${JSON.stringify(path)}: ${code === 'ENOENT' ? 'no such file' : (e as Error).message}`, at, `the path is relative to ${dirname(st.span.file) || '.'}`);
+        bag.error('bad-data-file', `cannot read ${JSON.stringify(path)}: ${code === 'ENOENT' ? 'no such file' : (e as Error).message}`, at, code === 'ENOENT' && !isAbsolute(path) ? `the path is relative to ${dirname(st.span.file) || '.'}` : undefined);
       }
       throw new ReportedError();
     }
