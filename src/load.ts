@@ -190,7 +190,9 @@ export function evaluateQuantity(text: string, unit: string | null, what: string
     const q = evaluate(arg.values[0]!, { lookup: () => undefined, names: () => [] }, bag);
     if (q !== undefined) {
       const r = toSI(q, unit);
-      if ('value' in r) return r.value;
+      if ('value' in r && Number.isFinite(r.value)) return r.value;
+      if ('value' in r) bag.error('bad-number', `${what} is not a finite number`, arg.values[0]!.span);
+      else
       bag.error('wrong-unit', `${what} must be ${unit === null ? 'a plain number' : `in ${unit}`}, but ${r.error}`, arg.values[0]!.span);
     }
   } else if (!bag.hasErrors) bag.error('bad-value', `${what} takes one value`, { file: what, line: 1, column: 1, length: Math.max(1, text.length) });

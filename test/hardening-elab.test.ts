@@ -10,7 +10,7 @@ import { expandInputs } from '../src/io/inputs.js';
 import { readNetworkFile } from '../src/io/read.js';
 import { InputFileError } from '../src/io/source-file.js';
 import { MAX_BLOCK_DEPTH, MAX_EXPANDED_ELEMENTS, MAX_FILE_BYTES, MAX_INCLUDE_DEPTH, MAX_PORTS, MAX_SWEEP_POINTS } from '../src/limits.js';
-import { loadNetlist, loadNetlistFile, type LoadOptions } from '../src/load.js';
+import { evaluateQuantity, loadNetlist, loadNetlistFile, type LoadOptions } from '../src/load.js';
 import { solveSweep } from '../src/solve/sweep.js';
 
 const lines = (...l: string[]) => l.join('\n') + '\n';
@@ -374,6 +374,26 @@ describe('microstrip outside its models', () => {
     expectLocated(ds);
     expect(ds).toEqual([expect.objectContaining({ code: 'bad-element', span: expect.objectContaining({ line: 1, column: 1 }) })]);
     expect(ds[0]!.message).toMatch(/^`m`: the microstrip model cannot be evaluated at 100 GHz: /);
+  });
+});
+
+describe('text arguments', () => {
+  it('`file=hemt` without quotes: file names are quoted', () => {
+    const ds = errorsOf(lines('datafile d file=hemt p1=in', LOAD, PORT, SWEEP));
+    expectLocated(ds);
+    expect(ds).toEqual([expect.objectContaining({ code: 'bad-value', message: '`file` takes a quoted string: file names are quoted', help: 'write `file="hemt"`', span: expect.objectContaining({ line: 1, column: 17, length: 4 }) })]);
+  });
+});
+
+describe('quantities of options', () => {
+  it('a value that overflows is an error at the option', () => {
+    expect(() => evaluateQuantity('1e300 m * 1e300', 'm', '--h')).toThrow(InputError);
+    try {
+      evaluateQuantity('1e300 m * 1e300', 'm', '--h');
+    } catch (e) {
+      expect((e as InputError).diagnostics).toEqual([expect.objectContaining({ code: 'bad-number', message: '--h is not a finite number', span: expect.objectContaining({ file: '--h', line: 1, column: 1 }) })]);
+    }
+    expect(evaluateQuantity('1.6 mm', 'm', '--h')).toBeCloseTo(1.6e-3, 15);
   });
 });
 

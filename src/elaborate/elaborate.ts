@@ -569,7 +569,13 @@ export function elaborate(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, op
           if (p.defaultValue !== undefined) (el.text === NONE_TEXT ? (el.text = {}) : el.text)[p.key] = p.defaultValue;
           continue;
         }
-        const word = a.text?.value ?? (a.values.length === 1 && a.values[0]!.kind === 'name' && !a.at ? (a.values[0] as { name: string }).name : undefined);
+        const bare = a.values.length === 1 && a.values[0]!.kind === 'name' && !a.at ? (a.values[0] as { name: string }).name : undefined;
+        if (!a.text && !p.choices && bare !== undefined) {
+          // a file name (or other text) written without quotes
+          bag.error('bad-value', `\`${p.key}\` takes a quoted string: ${p.key === 'file' ? 'file names are quoted' : 'text is quoted'}`, a.values[0]!.span, `write \`${p.key}="${bare}"\``);
+          return false;
+        }
+        const word = a.text?.value ?? bare;
         if (word === undefined) {
           bag.error('bad-value', p.choices ? `\`${p.key}\` is one of: ${p.choices.join(', ')}` : `\`${p.key}\` takes a quoted string`, a.span, p.choices ? undefined : `write \`${p.key}="…"\``);
           return false;
