@@ -46,6 +46,18 @@ export function tidyPoint(v: number, spacing: number): number {
   return v;
 }
 
+/** Two ascending arrays merged into one. */
+function mergeAscending(a: Float64Array, b: Float64Array): Float64Array {
+  const out = new Float64Array(a.length + b.length);
+  let i = 0;
+  let j = 0;
+  let k = 0;
+  while (i < a.length && j < b.length) out[k++] = a[i]! <= b[j]! ? a[i++]! : b[j++]!;
+  while (i < a.length) out[k++] = a[i++]!;
+  while (j < b.length) out[k++] = b[j++]!;
+  return out;
+}
+
 /**
  * Builds the sweep from `sweep` statements: each is a segment (linear, logarithmic or an
  * explicit list); segments are joined, sorted ascending and points that coincide (to 1e-12
@@ -162,33 +174,36 @@ export function buildSweep(
   }
   if (tooMany) return new Float64Array(0);
 
-  const all = new Float64Array(total);
-  let at = 0;
+  // each segment ascending, then merged (a typed-array sort of millions of points is slow)
+  let runs: Float64Array[] = [];
   for (const seg of segments) {
     if (seg.kind === 'list') {
-      for (const v of seg.values) all[at++] = v;
+      runs.push(Float64Array.from(seg.values.slice().sort((a, b) => a - b)));
       continue;
     }
     const { start, stop, count: n } = seg;
-    if (n === 1) {
-      all[at++] = start;
-      continue;
-    }
+    const run = new Float64Array(n);
+    runs.push(run);
+    run[0] = start;
+    if (n === 1) continue;
     if (seg.kind === 'linear') {
       const step = seg.step;
-      all[at++] = start;
-      for (let k = 1; k < n - 1; k++) all[at++] = step === undefined ? start + (stop - start) * (k / (n - 1)) : start + k * step;
+      for (let k = 1; k < n - 1; k++) run[k] = step === undefined ? start + (stop - start) * (k / (n - 1)) : start + k * step;
       // a `step` sweep ends where its steps end
-      all[at++] = step === undefined ? stop : start + (n - 1) * step;
+      run[n - 1] = step === undefined ? stop : start + (n - 1) * step;
       continue;
     }
     const lo = Math.log10(start);
     const decades = Math.log10(stop) - lo;
-    all[at++] = start;
-    for (let k = 1; k < n - 1; k++) all[at++] = Math.pow(10, lo + decades * (k / (n - 1)));
-    all[at++] = stop;
+    for (let k = 1; k < n - 1; k++) run[k] = Math.pow(10, lo + decades * (k / (n - 1)));
+    run[n - 1] = stop;
   }
-  const sorted = all.subarray(0, at).sort();
+  while (runs.length > 1) {
+    const next: Float64Array[] = [];
+    for (let i = 0; i < runs.length; i += 2) next.push(i + 1 < runs.length ? mergeAscending(runs[i]!, runs[i + 1]!) : runs[i]!);
+    runs = next;
+  }
+  const sorted = runs[0] ?? new Float64Array(0);
   // points that coincide are kept once (in place); then each is tidied against its neighbours
   let n = 0;
   for (let i = 0; i < sorted.length; i++) {
