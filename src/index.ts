@@ -72,6 +72,7 @@ export { compareNetworks, CompareError, type Comparison, type Tolerance, type En
 export { formatJunit, specSuite, comparisonSuite, type JunitSuite } from './check/junit.js';
 export { formatSpecTable, formatComparisonTable, checkReportJson } from './check/report.js';
 export { readNetworkFile } from './io/read.js';
+export { readInputText, InputFileError } from './io/source-file.js';
 export { convertData, type ConvertOptions, type ConvertTarget } from './io/convert-file.js';
 export { evaluateQuantity } from './load.js';
 export { microstripStatic, microstripDispersive, microstripWidth, microstripAt } from './models/microstrip.js';

@@ -29,9 +29,6 @@ export const MAX_EXPRESSION_DEPTH = 200;
 /** Size of any file read: netlist, included file or data file (only regular files are read). */
 export const MAX_FILE_BYTES = 256 * 1024 * 1024;
 
-/**
- * Range of the real reference impedances a network-data file may give (ohms). Wide for real data,
- * and it keeps every S/Z/Y conversion and mixed-mode reference (2·Z0, Z0/2) of finite data finite.
- */
-export const MIN_REFERENCE_OHM = 1e-9;
-export const MAX_REFERENCE_OHM = 1e12;
+/** Smallest and largest reference resistance, Ω, of a port or a network-data file: the power-wave normalisation takes √R and 1/√R, and mixed-mode references (2·R, R/2) stay finite. */
+export const MIN_REFERENCE_OHMS = 1e-6;
+export const MAX_REFERENCE_OHMS = 1e9;

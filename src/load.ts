@@ -1,4 +1,3 @@
-import { readFileSync } from 'node:fs';
 import { dirname, extname, isAbsolute, join, resolve } from 'node:path';
 import type { NetlistAst, NetlistItems, Statement, StatementItem } from './ast/ast.js';
 import { statementOf } from './ast/fast.js';
@@ -8,6 +7,8 @@ import type { Circuit } from './elaborate/circuit.js';
 import { DataFileError, elaborate, type Override } from './elaborate/elaborate.js';
 import { evaluate, toSI } from './elaborate/evaluate.js';
 import { JsonNetworkError, parseJson } from './io/json.js';
+import { readInputText } from './io/source-file.js';
+import { MAX_INCLUDE_DEPTH } from './limits.js';
 import { parseTouchstone, TouchstoneError } from './io/touchstone.js';
 import { isMixedMode, singleEnded } from './network/mixed-mode.js';
 import type { NetworkData } from './network/types.js';
@@ -18,10 +19,13 @@ export interface LoadOptions {
   set?: string[];
   /** Sweep replacing the netlist's own: one or more segments separated by `;`, each written as after `sweep` (e.g. `linear start=1 MHz stop=1 GHz points=101`). */
   sweep?: string;
-  /** Every warning becomes an error (`--strict`). */
-  strict?: boolean;
-  /** Reads an included file (default: from disk, UTF-8); paths are relative to the including file. */
+  /**
+   * Reads an included file or a data file (default: from disk, UTF-8, only regular files of at
+   * most MAX_FILE_BYTES); paths are relative to the including file.
+   */
   readFile?: (path: string) => string;
+  /** Every warning becomes an error (same code, message and place), so that the load throws. */
+  strict?: boolean;
 }
 
 export interface LoadResult {
@@ -47,7 +51,7 @@ const SWEEP_FILE = '--sweep';
 export function loadNetlist(text: string, file: string, options: LoadOptions = {}): LoadResult {
   const bag = new DiagnosticBag();
   const sources = new Map<string, string>([[file, text]]);
-  const read = options.readFile ?? ((p: string) => readFileSync(p, 'utf8'));
+  const read = options.readFile ?? readInputText;
   const ast = expandIncludes(parseNetlistItems(text, file, bag), [file], bag, sources, read);
   const dataCache = new Map<string, NetworkData>();
   const readNetwork = (path: string): NetworkData => {
@@ -74,13 +78,25 @@ export function loadNetlist(text: string, file: string, options: LoadOptions = {
   const setLines = options.set ?? [];
   if (setLines.length > 0) {
     sources.set(SET_FILE, setLines.join('\n'));
-    const good: number[] = [];
+    const good = new Set<number>();
+    const named = new Map<string, number>();
     setLines.forEach((line, i) => {
-      if (/^\s*[A-Za-z_][A-Za-z0-9_]*\s*=\s*\S/.test(line) && !/[\r\n]/.test(line)) good.push(i);
-      else bag.error('bad-override', `\`--set ${line}\`: write \`name=value\``, { file: SET_FILE, line: i + 1, column: 1, length: Math.max(1, line.length) }, 'e.g. `--set fc=915MHz`');
+      const m = /^\s*([A-Za-z_][A-Za-z0-9_]*)\s*=\s*\S/.exec(line);
+      const span = { file: SET_FILE, line: i + 1, column: 1, length: Math.max(1, line.length) };
+      if (!m || /[\r\n]/.test(line)) {
+        bag.error('bad-override', `\`--set ${line.length > 60 ? `${line.slice(0, 60)}…` : line}\`: write \`name=value\``, span, 'e.g. `--set fc=915MHz`');
+        return;
+      }
+      const first = named.get(m[1]!);
+      if (first !== undefined) {
+        bag.error('duplicate-override', `\`--set ${m[1]}\` is given twice (first as --set number ${first + 1})`, { ...span, column: line.indexOf(m[1]!) + 1, length: m[1]!.length }, 'give each parameter once');
+        return;
+      }
+      named.set(m[1]!, i);
+      good.add(i);
     });
     // Parsed as `let` lines of their own text, then moved back over the `let ` prefix.
-    const text = setLines.map((l, i) => (good.includes(i) ? `let ${l}` : '')).join('\n');
+    const text = setLines.map((l, i) => (good.has(i) ? `let ${l}` : '')).join('\n');
     const parsed = parseNetlist(text, SET_FILE, relay(bag, 4));
     for (const st of parsed.statements) {
       shiftSpans(st, 4);
@@ -103,6 +119,9 @@ export function loadNetlist(text: string, file: string, options: LoadOptions = {
   }
 
   const circuit = elaborate(ast, bag, { overrides, sweep, readNetwork, consume: true });
+  if (options.strict) {
+    for (let i = 0; i < bag.items.length; i++) if (bag.items[i]!.severity === 'warning') bag.items[i] = { ...bag.items[i]!, severity: 'error' };
+  }
   if (bag.hasErrors) throw new InputError(bag.items, sources);
   return { circuit, warnings: bag.items.filter((d) => d.severity === 'warning'), sources };
 }
@@ -133,6 +152,10 @@ function expandIncludes(ast: NetlistItems, chain: string[], bag: DiagnosticBag, 
       bag.error('bad-include', '`include` takes one quoted file name', st.keywordSpan, 'e.g. `include "parts/lowpass-section.sbx"`');
       continue;
     }
+    if (chain.length > MAX_INCLUDE_DEPTH) {
+      bag.error('too-deep', `includes nest more than ${MAX_INCLUDE_DEPTH} files deep here (the limit of nested includes)`, arg.span, `the chain starts ${chain.slice(0, 3).join(' → ')} → …`);
+      continue;
+    }
     const path = isAbsolute(arg.value) ? arg.value : join(dirname(ast.file), arg.value);
     const key = resolve(path);
     const seen = chain.map((c) => resolve(c));
@@ -146,7 +169,7 @@ function expandIncludes(ast: NetlistItems, chain: string[], bag: DiagnosticBag, 
       text = read(path);
     } catch (e) {
       const code = (e as NodeJS.ErrnoException).code;
-      bag.error('bad-include', `cannot read ${JSON.stringify(arg.value)}: ${code === 'ENOENT' ? 'no such file' : (e as Error).message}`, arg.span, `the path is relative to ${dirname(ast.file) || '.'}`);
+      bag.error('bad-include', `cannot read ${JSON.stringify(arg.value)}: ${code === 'ENOENT' ? 'no such file' : (e as Error).message}`, arg.span, code === 'ENOENT' && !isAbsolute(arg.value) ? `the path is relative to ${dirname(ast.file) || '.'}` : undefined);
       continue;
     }
     sources.set(path, text);
@@ -172,16 +195,21 @@ export function evaluateQuantity(text: string, unit: string | null, what: string
     const q = evaluate(arg.values[0]!, { lookup: () => undefined, names: () => [] }, bag);
     if (q !== undefined) {
       const r = toSI(q, unit);
-      if ('value' in r) return r.value;
+      if ('value' in r && Number.isFinite(r.value)) return r.value;
+      if ('value' in r) bag.error('bad-number', `${what} is not a finite number`, arg.values[0]!.span);
+      else
       bag.error('wrong-unit', `${what} must be ${unit === null ? 'a plain number' : `in ${unit}`}, but ${r.error}`, arg.values[0]!.span);
     }
   } else if (!bag.hasErrors) bag.error('bad-value', `${what} takes one value`, { file: what, line: 1, column: 1, length: Math.max(1, text.length) });
   throw new InputError(bag.items, sources);
 }
 
-/** Reads and loads a netlist file. */
+/**
+ * Reads and loads a netlist file. A file that cannot be read (missing, a folder, not a regular
+ * file, over MAX_FILE_BYTES) throws InputFileError (io/source-file.ts), naming the path.
+ */
 export function loadNetlistFile(path: string, options: LoadOptions = {}): LoadResult {
-  return loadNetlist(readFileSync(path, 'utf8'), path, options);
+  return loadNetlist(readInputText(path), path, options);
 }
 
 /** A bag that moves the spans of what it receives `columns` to the left before passing them on. */

@@ -682,10 +682,10 @@ describe('--set and --sweep overrides', () => {
     expect(s.values[1]).toBeCloseTo(0, 12);
   });
 
-  it('an override with the wrong dimension is caught where the parameter is used', () => {
+  it('an override with the wrong dimension is reported at --set (issue 14: a bad --set value is located at --set)', () => {
     const ds = errorsOf(T, { set: ['fc=2 pF'] });
     expect(ds).toEqual([
-      err('wrong-unit', '`freqs` must be a frequency (Hz), but it is a capacitance (F)', find(T, 5, 'fc'), 'give a frequency (Hz), e.g. `433 MHz`; a bare number is read in Hz'),
+      err('wrong-unit', "`--set fc`: the netlist's `fc` is a frequency (Hz), but this is a capacitance (F)", { file: '--set', line: 1, column: 4, length: 4 }, 'line 1 of diag.sbx defines it'),
     ]);
   });
 
@@ -773,9 +773,9 @@ describe('warnings', () => {
     expect(loading(t, { set: ['x=4 ohm'] }).warnings).toEqual([]);
   });
 
-  it('port-on-bare-node: a port on a node no element touches', () => {
+  it('port-on-bare-node: a port on a node no element touches (an error since issue 14: always a mistake)', () => {
     const t = net(PORT, 'port 2 plus=out', LOAD, SWEEP);
-    expect(loading(t).warnings).toEqual([warn('port-on-bare-node', 'port 2 is on node `out`, which no element touches', find(t, 2, 'out'))]);
+    expect(errorsOf(t)).toEqual([err('port-on-bare-node', 'port 2 is on node `out`, which no element touches', find(t, 2, 'out'), 'connect an element to the node, or check its spelling')]);
   });
 
   it('ground-alias: `gnd` is an ordinary node', () => {

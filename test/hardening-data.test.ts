@@ -8,7 +8,7 @@ import { describe, expect, it } from 'vitest';
 import { InputError } from '../src/diagnostics/diagnostic.js';
 import { JsonNetworkError, formatJson, parseJson } from '../src/io/json.js';
 import { parseTouchstone, TouchstoneError } from '../src/io/touchstone.js';
-import { MAX_NETWORK_VALUES, MAX_PORTS, MAX_REFERENCE_OHM } from '../src/limits.js';
+import { MAX_NETWORK_VALUES, MAX_PORTS, MAX_REFERENCE_OHMS } from '../src/limits.js';
 import { loadNetlist } from '../src/load.js';
 import type { NetworkData } from '../src/network/types.js';
 
@@ -91,7 +91,7 @@ describe('no non-finite value from the Touchstone reader', () => {
   });
 
   it('references outside the documented range are refused where they are written', () => {
-    located(() => parseTouchstone(lines('# GHz S RI R 1e300', '1 0 0'), { ports: 1 }), 1, 14, new RegExp(`option-line R 1e300 ohm is outside the range.*${MAX_REFERENCE_OHM}`));
+    located(() => parseTouchstone(lines('# GHz S RI R 1e300', '1 0 0'), { ports: 1 }), 1, 14, new RegExp(`option-line R 1e300 ohm is outside the range.*${MAX_REFERENCE_OHMS}`));
     located(() => parseTouchstone(lines('# GHz Y RI R 1e-320', '1 1 0'), { ports: 1 }), 1, 14, /outside the range/);
     const v2 = lines('[Version] 2.0', '# GHz S RI R 50', '[Number of Ports] 2', '[Two-Port Data Order] 21_12', '[Number of Frequencies] 1', '[Reference] 50 1e300', '[Network Data]', '1 0 0 0 0 0 0 0 0', '[End]');
     located(() => parseTouchstone(v2), 6, 16, /reference impedance 1e300 ohm is outside the range/);

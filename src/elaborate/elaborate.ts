@@ -6,13 +6,14 @@ import { ELEMENTS, joinedNodes, outsideRange } from '../elements/registry.js';
 import { GROUND, GROUND_NAME, type ElementInstance, type ElementType, type PropertySpec, type TerminalSpec } from '../elements/types.js';
 import type { NetworkData } from '../network/types.js';
 import type { Circuit, ParameterValue, Port } from './circuit.js';
-import { describeUnit, evaluate, literalToSI, math, toSICached, type EvalScope, type Quantity } from './evaluate.js';
+import { describeQuantity, describeUnit, evaluate, literalToSI, math, toSICached, type EvalScope, type Quantity } from './evaluate.js';
 import { dirname, isAbsolute, join } from 'node:path';
 import { formatFrequency } from '../format/frequency.js';
 import { floatingGroups } from './islands.js';
 import { elaborateSpec } from './spec.js';
 import { buildSweep } from './sweep.js';
 import type { SpecDefinition } from '../check/types.js';
+import { MAX_BLOCK_DEPTH, MAX_EXPANDED_ELEMENTS, MAX_PORTS, MAX_REFERENCE_OHMS, MIN_REFERENCE_OHMS } from '../limits.js';
 
 /** A parameter override from outside the netlist (`--set name=value`). */
 export interface Override {
@@ -98,6 +99,12 @@ interface BlockDefinition {
   params: Map<string, { expr: Expr; span: SourceSpan }>;
   body: Statement[];
   used: boolean;
+  /** Elements one instance expands to, counting nested instances (Infinity when it cannot be expanded). */
+  size: number;
+  /** Levels of block instances one instance opens, itself included. */
+  depth: number;
+  /** On a cycle of blocks using each other, or using such a block (already reported). */
+  broken: boolean;
 }
 
 function spanKey(s: SourceSpan): string {
@@ -207,6 +214,8 @@ export function elaborate(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, op
   /** Keys that a misspelt argument of the statement being read was taken to mean. */
   let suggestedKeys = new Set<string>();
 
+  /** Elements of the flattened netlist so far (instances counted whole when they are opened). */
+  let expanded = 0;
   run(topStatements, topContext);
 
   function run(statements: (StatementItem | undefined)[], ctx: Context) {
@@ -248,6 +257,10 @@ export function elaborate(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, op
         default: {
           const type = ELEMENTS.get(st.keyword);
           if (type) {
+            if (ctx === topContext && ++expanded === MAX_EXPANDED_ELEMENTS + 1) {
+              bag.error('too-many-elements', `the netlist has more than ${MAX_EXPANDED_ELEMENTS} elements (the limit of elements after blocks are expanded)`, st.keywordSpan);
+            }
+            if (expanded > MAX_EXPANDED_ELEMENTS) break;
             try {
               defineElement(st, type, ctx);
             } catch (e) {
@@ -285,6 +298,20 @@ export function elaborate(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, op
       bag.error('missing-name', `an instance of ${what} needs a name after the block name`, st.label?.span ?? st.keywordSpan, `e.g. \`${block.name} u1 ${block.terminals.map((t) => `${t}=<node>`).join(' ')}\``);
       return;
     }
+    if (block.broken) return; // a cycle, reported at the block
+    if (ctx === topContext) {
+      if (block.depth > MAX_BLOCK_DEPTH) {
+        bag.error('too-deep', `an instance of ${what} opens ${block.depth} levels of nested block instances (at most ${MAX_BLOCK_DEPTH})`, st.keywordSpan, 'flatten some of the blocks');
+        return;
+      }
+      if (expanded + block.size > MAX_EXPANDED_ELEMENTS) {
+        const size = block.size < 1e15 ? `${block.size}` : 'more than 10^15';
+        bag.error('too-many-elements', `an instance of ${what} expands to ${size} elements; with the others that is more than ${MAX_EXPANDED_ELEMENTS} (the limit of elements after blocks are expanded)`, st.keywordSpan, 'blocks that use other blocks several times multiply their elements');
+        expanded = Infinity;
+        return;
+      }
+      expanded += block.size;
+    }
     if (ctx.chain.includes(block.name)) {
       const chain = [...ctx.chain.slice(ctx.chain.indexOf(block.name)), block.name].join(' → ');
       bag.error('recursive-block', `${what} contains itself: ${chain}`, st.keywordSpan, 'a block cannot use itself, directly or through other blocks');
@@ -316,20 +343,23 @@ export function elaborate(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, op
         ok = false;
         continue;
       }
-      const value = a ? evaluate(a.values[0]!, outer, bag) : evaluate(def.expr, defaults, bag);
+      const value = finiteOrReport(a ? evaluate(a.values[0]!, outer, bag) : evaluate(def.expr, defaults, bag), a ? a.values[0]!.span : def.expr.span, bag, p);
       if (value === undefined) ok = false;
       const key = spanKey(def.span);
       scope.entries.set(p, { value: value ?? null, span: def.span, key });
-      if (!definitions.has(key)) definitions.set(key, { name: p, span: def.span, failed: false, what: `parameter of block \`${block.name}\`` });
+      if (!definitions.has(key)) definitions.set(key, { name: p, span: def.span, failed: value === undefined, what: `parameter of block \`${block.name}\`` });
     }
     if (!ok) return;
     // Findings inside the body say which instance they came from (the first one, when several
     // instances give the same finding, which is then reported once).
     const outerBag = bag;
     const bodyFile = block.header.span.file;
-    const bodyLines = block.body.map((b) => b.span.line);
-    const first = Math.min(...bodyLines);
-    const last = Math.max(...bodyLines);
+    let first = Infinity;
+    let last = -Infinity;
+    for (const b of block.body) {
+      first = Math.min(first, b.span.line);
+      last = Math.max(last, b.span.line);
+    }
     const note = `in instance \`${name}\` of block \`${block.name}\` (line ${st.span.line})`;
     bag = Object.create(outerBag, {
       add: {
@@ -361,7 +391,7 @@ export function elaborate(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, op
         bag.error('bad-data-file', `the network-data file ${JSON.stringify(path)} is malformed (see above)`, at);
       } else {
         const code = (e as NodeJS.ErrnoException).code;
-        bag.error('bad-data-file', `cannot read ${JSON.stringify(path)}: ${code === 'ENOENT' ? 'no such file' : (e as Error).message}`, at, `the path is relative to ${dirname(st.span.file) || '.'}`);
+        bag.error('bad-data-file', `cannot read ${JSON.stringify(path)}: ${code === 'ENOENT' ? 'no such file' : (e as Error).message}`, at, code === 'ENOENT' && !isAbsolute(path) ? `the path is relative to ${dirname(st.span.file) || '.'}` : undefined);
       }
       throw new ReportedError();
     }
@@ -392,7 +422,15 @@ export function elaborate(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, op
         continue;
       }
       const o = ctx.terminals ? undefined : overrides.get(a.key);
-      const value = evaluate(o ? o.expr : a.values[0]!, evalScope(ctx), bag);
+      let value = finiteOrReport(evaluate(o ? o.expr : a.values[0]!, evalScope(ctx), bag), o ? o.expr.span : a.values[0]!.span, bag, a.key);
+      if (o && value !== undefined) {
+        // the override must be the same kind of quantity as the netlist's own value
+        const own = evaluate(a.values[0]!, evalScope(ctx), new DiagnosticBag());
+        if (own !== undefined && !sameDimension(own, value)) {
+          bag.error('wrong-unit', `\`--set ${a.key}\`: the netlist's \`${a.key}\` is ${describeQuantity(own)}, but this is ${describeQuantity(value)}`, o.expr.span, `line ${a.keySpan.line} of ${a.keySpan.file} defines it`);
+          value = undefined;
+        }
+      }
       const key = spanKey(a.keySpan);
       ctx.scope.entries.set(a.key, { value: value ?? null, span: a.keySpan, key });
       if (!definitions.has(key)) definitions.set(key, { name: a.key, span: a.keySpan, failed: value === undefined, what: 'parameter' });
@@ -485,6 +523,10 @@ export function elaborate(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, op
       bag.error('wrong-unit', `the value after \`at\` must be a frequency (Hz), but ${r.error}`, a.at.span, unitHelp('Hz'));
       return undefined;
     }
+    if (!Number.isFinite(r.value) || r.value < 0) {
+      bag.error('bad-value', `the frequency after \`at\` must be a finite frequency of 0 Hz or more`, a.at.span);
+      return undefined;
+    }
     return r.value;
   }
 
@@ -527,7 +569,13 @@ export function elaborate(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, op
           if (p.defaultValue !== undefined) (el.text === NONE_TEXT ? (el.text = {}) : el.text)[p.key] = p.defaultValue;
           continue;
         }
-        const word = a.text?.value ?? (a.values.length === 1 && a.values[0]!.kind === 'name' && !a.at ? (a.values[0] as { name: string }).name : undefined);
+        const bare = a.values.length === 1 && a.values[0]!.kind === 'name' && !a.at ? (a.values[0] as { name: string }).name : undefined;
+        if (!a.text && !p.choices && bare !== undefined) {
+          // a file name (or other text) written without quotes
+          bag.error('bad-value', `\`${p.key}\` takes a quoted string: ${p.key === 'file' ? 'file names are quoted' : 'text is quoted'}`, a.values[0]!.span, `write \`${p.key}="${bare}"\``);
+          return false;
+        }
+        const word = a.text?.value ?? bare;
         if (word === undefined) {
           bag.error('bad-value', p.choices ? `\`${p.key}\` is one of: ${p.choices.join(', ')}` : `\`${p.key}\` takes a quoted string`, a.span, p.choices ? undefined : `write \`${p.key}="…"\``);
           return false;
@@ -599,7 +647,12 @@ export function elaborate(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, op
     // exact-length arrays (an array grown by push keeps room for 16): a large netlist keeps them all
     el.nodes = el.nodes.slice();
     el.nodeNames = el.nodeNames.slice();
-    type.validate?.(el, (message, key, help) => bag.error('bad-element', message, (key && args.get(key)?.span) || st.label!.span, help));
+    let valid = true;
+    type.validate?.(el, (message, key, help) => {
+      valid = false;
+      bag.error('bad-element', message, (key && args.get(key)?.span) || st.label!.span, help);
+    });
+    if (!valid) return;
     if (el.nodes.length === 2 && el.nodes[0] === el.nodes[1]) {
       const node = el.nodes[0] === GROUND ? GROUND_NAME : nodeNames[el.nodes[0]!]!;
       bag.warning('shorted-element', `both terminals of \`${name}\` are on node \`${node}\`: it has no effect`, st.span);
@@ -610,6 +663,11 @@ export function elaborate(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, op
   function definePort(st: Statement, ctx: Context) {
     if (!st.label || !st.label.isNumber || !/^\d+$/.test(st.label.text) || Number(st.label.text) < 1) {
       bag.error('bad-port', 'a port needs a number from 1 after `port`', st.label?.span ?? st.keywordSpan, 'e.g. `port 1 plus=in ref=50 ohm`');
+      return;
+    }
+    const digits = st.label.text.replace(/^0+/, '');
+    if (digits.length > String(MAX_PORTS).length || Number(digits) > MAX_PORTS) {
+      bag.error('too-many-ports', `port ${st.label.text.length > 20 ? `${st.label.text.slice(0, 20)}…` : st.label.text}: ports are numbered from 1 to at most ${MAX_PORTS} (the limit of ports)`, st.label.span, 'ports are numbered 1, 2, 3… without gaps');
       return;
     }
     const number = Number(st.label.text);
@@ -638,6 +696,14 @@ export function elaborate(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, op
       bag.error('bad-value', 'a reference impedance must be above 0 ohm', refArg!.values[0]!.span);
       return;
     }
+    if (reference < MIN_REFERENCE_OHMS || reference > MAX_REFERENCE_OHMS) {
+      bag.error('bad-value', `a reference resistance must lie from ${sci(MIN_REFERENCE_OHMS)} to ${sci(MAX_REFERENCE_OHMS)} ohm (got ${reference} ohm)`, refArg!.values[0]!.span, 'the limits keep the power-wave normalisation (√R, 1/√R) finite and accurate');
+      return;
+    }
+    if (Math.abs(reactance) > MAX_REFERENCE_OHMS) {
+      bag.error('bad-value', `a reference reactance must lie from −${sci(MAX_REFERENCE_OHMS)} to ${sci(MAX_REFERENCE_OHMS)} ohm (got ${reactance} ohm)`, xArg!.values[0]!.span);
+      return;
+    }
     if (plus === minus) {
       bag.error('bad-port', `port ${number} has both terminals on the same node`, st.span);
       return;
@@ -662,6 +728,14 @@ export function elaborate(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, op
     }
   }
 
+  // Errors of the elements' own over the sweep (a model that cannot be evaluated somewhere).
+  if (frequencies.length > 0) {
+    for (const el of elements) {
+      const type = ELEMENTS.get(el.type)!;
+      type.checkSweep?.(el, frequencies, (message, _key, help) => bag.error('bad-element', `\`${el.name}\`: ${message}`, el.span, help));
+    }
+  }
+
   // Warnings of the elements' own (models outside their ranges, lengths that look mistyped).
   if (frequencies.length > 0 && !bag.hasErrors) {
     const top = frequencies[frequencies.length - 1]!;
@@ -678,7 +752,8 @@ export function elaborate(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, op
   for (let k = 1; k <= highest; k++) if (!ports.has(k)) missingPorts.push(k);
   if (missingPorts.length > 0) {
     const after = portList.find((p) => p.number > missingPorts[0]!)!;
-    const list = missingPorts.length === 1 ? `port ${missingPorts[0]} is missing` : `ports ${missingPorts.join(', ')} are missing`;
+    const shown = missingPorts.length > 12 ? `${missingPorts.slice(0, 10).join(', ')} … ${missingPorts[missingPorts.length - 1]} (${missingPorts.length} in all)` : missingPorts.join(', ');
+    const list = missingPorts.length === 1 ? `port ${missingPorts[0]} is missing` : `ports ${shown} are missing`;
     bag.error('port-gap', `ports must be numbered from 1 without gaps; ${list}`, after.span);
   }
 
@@ -708,7 +783,7 @@ export function elaborate(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, op
   if (!bag.hasErrors) nodeUses.forEach((u, i) => {
     const name = nodeNames[i]!;
     if (u.elementUses === 0) {
-      bag.warning('port-on-bare-node', `${u.by} is on node \`${name}\`, which no element touches`, u.first);
+      bag.error('port-on-bare-node', `${u.by} is on node \`${name}\`, which no element touches`, u.first, didYouMean(name, nodeNames.filter((n) => n !== name)) ?? 'connect an element to the node, or check its spelling');
     } else if (u.count === 1) {
       bag.warning('dangling-node', `node \`${name}\` has a single connection (${u.by})`, u.first, didYouMean(name, nodeNames.filter((n) => n !== name)) ?? 'check the spelling of the node name');
     }
@@ -716,6 +791,17 @@ export function elaborate(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, op
   for (const [key, d] of definitions) {
     if (!usedKeys.has(key) && !usedEarly.has(key) && !d.failed) {
       bag.warning('unused-parameter', `${d.what} \`${d.name}\` is never used`, d.span);
+    }
+  }
+  // blocks used inside used blocks count as used, also where expansion stopped (a cycle, a limit)
+  const reach = [...blocks.values()].filter((b) => b.used);
+  while (reach.length > 0) {
+    for (const st of reach.pop()!.body) {
+      const c = blocks.get(st.keyword);
+      if (c && !c.used) {
+        c.used = true;
+        reach.push(c);
+      }
     }
   }
   for (const b of blocks.values()) {
@@ -795,7 +881,7 @@ function splitBlocks(statements: readonly StatementItem[], bag: DiagnosticBag): 
       }
       const def = blockHeader(st, bag);
       if (!def) {
-        open = { name: '?', header: st, terminals: [], params: new Map(), body: [], used: true };
+        open = { name: '?', header: st, terminals: [], params: new Map(), body: [], used: true, size: 0, depth: 1, broken: true };
         continue;
       }
       if (blocks.has(def.name) || ELEMENTS.has(def.name) || (STATEMENT_KEYWORDS as readonly string[]).includes(def.name)) {
@@ -807,7 +893,78 @@ function splitBlocks(statements: readonly StatementItem[], bag: DiagnosticBag): 
     open!.body.push(st);
   }
   if (open) bag.error('bad-block', `block \`${open.name}\` has no \`end\``, open.header.keywordSpan, 'close it with `end`');
+  measureBlocks(blocks, bag);
   return { top, blocks };
+}
+
+/** Shows a chain of block names, shortened in the middle when long. */
+function showChain(names: string[]): string {
+  if (names.length <= 12) return names.join(' → ');
+  return [...names.slice(0, 5), `… (${names.length - 10} more) …`, ...names.slice(-5)].join(' → ');
+}
+
+/**
+ * Finds cycles of blocks that use each other (each reported once, at the instance that closes
+ * it) and works out, bottom-up, how many elements one instance of each block expands to and how
+ * deep its instances nest — before anything is expanded, and without recursion (a chain of
+ * thousands of blocks must not overflow the stack).
+ */
+function measureBlocks(blocks: Map<string, BlockDefinition>, bag: DiagnosticBag): void {
+  const WHITE = 0;
+  const GREY = 1;
+  const BLACK = 2;
+  const colour = new Map<BlockDefinition, number>();
+  const children = new Map<BlockDefinition, { block: BlockDefinition; st: Statement }[]>();
+  for (const b of blocks.values()) {
+    const list: { block: BlockDefinition; st: Statement }[] = [];
+    for (const st of b.body) {
+      const c = blocks.get(st.keyword);
+      if (c) list.push({ block: c, st });
+    }
+    children.set(b, list);
+  }
+  for (const root of blocks.values()) {
+    if ((colour.get(root) ?? WHITE) !== WHITE) continue;
+    // explicit stack: the block and the index of its next child
+    const stack: { block: BlockDefinition; next: number }[] = [{ block: root, next: 0 }];
+    colour.set(root, GREY);
+    while (stack.length > 0) {
+      const top = stack[stack.length - 1]!;
+      const list = children.get(top.block)!;
+      if (top.next < list.length) {
+        const { block: c, st } = list[top.next++]!;
+        const cc = colour.get(c) ?? WHITE;
+        if (cc === WHITE) {
+          colour.set(c, GREY);
+          stack.push({ block: c, next: 0 });
+        } else if (cc === GREY) {
+          const from = stack.findIndex((f) => f.block === c);
+          const chain = [...stack.slice(from).map((f) => f.block.name), c.name];
+          for (let i = from; i < stack.length; i++) stack[i]!.block.broken = true;
+          bag.error('recursive-block', `block \`${c.name}\` contains itself: ${showChain(chain)}`, st.keywordSpan, 'a block cannot use itself, directly or through other blocks');
+        }
+        continue;
+      }
+      // all children done: measure this block
+      const b = top.block;
+      let size = 0;
+      let depth = 1;
+      for (const st of b.body) {
+        const c = blocks.get(st.keyword);
+        if (!c) {
+          if (ELEMENTS.has(st.keyword)) size += 1;
+          continue;
+        }
+        if (c.broken) b.broken = true;
+        size += c.size;
+        depth = Math.max(depth, c.depth + 1);
+      }
+      b.size = size;
+      b.depth = depth;
+      colour.set(b, BLACK);
+      stack.pop();
+    }
+  }
 }
 
 function blockHeader(st: Statement, bag: DiagnosticBag): BlockDefinition | undefined {
@@ -858,7 +1015,33 @@ function blockHeader(st: Statement, bag: DiagnosticBag): BlockDefinition | undef
       ok = false;
     }
   }
-  return ok ? { name: st.label.text, header: st, terminals, params, body: [], used: false } : undefined;
+  return ok ? { name: st.label.text, header: st, terminals, params, body: [], used: false, size: 0, depth: 1, broken: false } : undefined;
+}
+
+/** 1e-6, 1e9: a limit as written in the documentation. */
+function sci(x: number): string {
+  return x.toExponential().replace('e+', 'e');
+}
+
+/**
+ * The value itself when it is finite; otherwise undefined, reported at `span` (`1e308 * 10`,
+ * `1e300 ohm * 1e300`: arithmetic that overflows into Infinity).
+ */
+function finiteOrReport(q: Quantity | undefined, span: SourceSpan, bag: DiagnosticBag, name: string): Quantity | undefined {
+  if (q === undefined) return undefined;
+  const v = typeof q === 'number' ? q : (q as unknown as { value: number | null }).value;
+  if (typeof v === 'number' && !Number.isFinite(v)) {
+    bag.error('bad-number', `\`${name}\` is not a finite number`, span, 'the arithmetic overflows the range of numbers (about ±1.8e308)');
+    return undefined;
+  }
+  return q;
+}
+
+/** Whether two values are the same kind of quantity (a plain number and a dimensionless unit are). */
+function sameDimension(a: Quantity, b: Quantity): boolean {
+  const plain = (q: Quantity) => typeof q === 'number' || q.dimensions.every((d) => d === 0);
+  if (plain(a) || plain(b)) return plain(a) && plain(b);
+  return (a as Exclude<Quantity, number>).equalBase(b as Exclude<Quantity, number>);
 }
 
 function signOk(p: PropertySpec, v: number): boolean {

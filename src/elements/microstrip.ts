@@ -6,6 +6,7 @@ import {
   microstripStatic,
   type MicrostripSpec,
 } from '../models/microstrip.js';
+import { formatFrequency } from '../format/frequency.js';
 import { addChainStamp, chainSlots } from './line.js';
 import { GROUND, type ElementInstance, type ElementType } from './types.js';
 
@@ -53,6 +54,10 @@ export function microstripIssues(el: ElementInstance, maxFrequency: number): str
   return microstripRangeIssues(maxFrequency, microstripSpecOf(el));
 }
 
+function fmt(x: number): string {
+  return Number(x.toPrecision(4)).toString();
+}
+
 export const microstrip: ElementType = {
   warnings: (el, maxFrequency) => microstripIssues(el, maxFrequency),
   keyword: 'microstrip',
@@ -83,6 +88,35 @@ export const microstrip: ElementType = {
     const p = el.props;
     if (!(p.er! >= 1)) fail('`er` must be 1 or more', 'er');
     if (p.t! >= p.h!) fail('the strip must be thinner than the substrate (`t` below `h`)', 't');
+    if (!(p.er! >= 1) || !(p.t! < p.h!)) return;
+    // Outside their stated ranges the models are only warned about, as long as they still give a
+    // physical line; far outside (w/h below about 1e-9, say) the quasi-static fit itself leaves
+    // the bounds 1 ≤ εeff ≤ εr, and no number it gives means anything.
+    const s = microstripStatic(p.w!, p.h!, p.t!, p.er!);
+    if (!(s.eeff >= 1 && s.eeff <= p.er! && s.z0 > 0 && Number.isFinite(s.z0))) {
+      fail(`the microstrip model cannot be evaluated for w/h = ${fmt(p.w! / p.h!)}: its quasi-static εeff (${fmt(s.eeff)}) leaves the physical range 1…εr`, 'w', 'the models are stated for 0.01 ≤ w/h ≤ 100 (Hammerstad–Jensen); check the units of `w` and `h`');
+    }
+  },
+  checkSweep(el, frequencies, fail) {
+    const spec = microstripSpecOf(el);
+    const at = createMicrostripAt();
+    const n = frequencies.length;
+    // every point up to 100,000 points, then an even sample of that many (with the last point)
+    const stride = Math.max(1, Math.ceil(n / 100_000));
+    for (let i = 0; i < n; i += i + stride < n || i === n - 1 ? stride : n - 1 - i) {
+      const f = frequencies[i]!;
+      let why: string | undefined;
+      try {
+        microstripAt(f, spec, at);
+        if (![at.z0, at.eeff, at.beta, at.alphaConductor, at.alphaDielectric].every(Number.isFinite)) why = 'a value is not finite';
+      } catch (e) {
+        why = (e as Error).message;
+      }
+      if (why !== undefined) {
+        fail(`the microstrip model cannot be evaluated at ${formatFrequency(f)}: ${why}`, undefined, 'the dispersion models are stated for 0.1 ≤ w/h ≤ 10, εr ≤ 18 and f·h ≤ 15 GHz·mm (Jansen–Kirschning)');
+        return;
+      }
+    }
   },
   compile(el, b) {
     const spec = microstripSpecOf(el);

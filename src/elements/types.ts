@@ -131,6 +131,12 @@ export interface ElementType {
   resolve?(el: ElementInstance, ctx: ResolveContext): TerminalSpec[] | undefined;
   /** Warnings about the element for a sweep up to `maxFrequency` (Hz): models used outside their ranges, say. */
   warnings?(el: ElementInstance, maxFrequency: number): string[];
+  /**
+   * Errors of the element over the sweep (ascending frequencies, Hz): a model that cannot be
+   * evaluated at some of them, say. Called once the sweep is known; `fail` reports at the
+   * statement (or at the given key).
+   */
+  checkSweep?(el: ElementInstance, frequencies: Float64Array, fail: (message: string, key?: string, help?: string) => void): void;
   /** The frequency range (Hz) the element is defined over, if limited (measured data). */
   frequencyRange?(el: ElementInstance): [number, number] | undefined;
   /** Cross-property rules (e.g. two loss forms given at once); report problems through `fail`. */

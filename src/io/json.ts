@@ -29,7 +29,7 @@
  * number is checked to be finite before any text is made, so the output is always valid JSON. Layout: two-space indent, one frequency point of
  * `data` per line, "\n" line ends, a final newline. The same network always gives the same bytes.
  */
-import { MAX_NETWORK_VALUES, MAX_PORTS, MAX_REFERENCE_OHM, MIN_REFERENCE_OHM } from '../limits.js';
+import { MAX_NETWORK_VALUES, MAX_PORTS, MAX_REFERENCE_OHMS, MIN_REFERENCE_OHMS } from '../limits.js';
 import { isMixedMode, modeLabels, type MixedModeData, type PortPair } from '../network/mixed-mode.js';
 import type { NetworkData, ParameterKind } from '../network/types.js';
 import { checkDigits, checkNetworkData, formatShortest } from './touchstone.js';
@@ -220,8 +220,8 @@ export function parseJson(text: string): NetworkData {
   if (ports > MAX_PORTS) fail(text, `"ports" is ${ports}, above the limit of ${MAX_PORTS} ports a data file may have`, 'ports');
   const refs = numberArray(text, doc['references_ohm'], 'references_ohm', 'references_ohm', ports);
   refs.forEach((r, p) => {
-    if (!(r >= MIN_REFERENCE_OHM && r <= MAX_REFERENCE_OHM)) {
-      fail(text, `references_ohm[${p}] is ${r} ohm, outside the range a data file may give, ${MIN_REFERENCE_OHM} to ${MAX_REFERENCE_OHM} ohm`, 'references_ohm');
+    if (!(r >= MIN_REFERENCE_OHMS && r <= MAX_REFERENCE_OHMS)) {
+      fail(text, `references_ohm[${p}] is ${r} ohm, outside the range a data file may give, ${MIN_REFERENCE_OHMS} to ${MAX_REFERENCE_OHMS} ohm`, 'references_ohm');
     }
   });
   const freqs = numberArray(text, doc['frequency_hz'], 'frequency_hz', 'frequency_hz');

@@ -1,16 +1,18 @@
-import { readFileSync } from 'node:fs';
 import { extname } from 'node:path';
 import { InputError, type Diagnostic } from '../diagnostics/diagnostic.js';
 import type { NetworkData } from '../network/types.js';
 import { JsonNetworkError, parseJson } from './json.js';
+import { readInputText } from './source-file.js';
 import { parseTouchstone, TouchstoneError } from './touchstone.js';
 
 /**
- * Reads network data from a Touchstone (.sNp) or scatterbox JSON (.json) file. Warnings of the
- * file (e.g. noise parameters read but not used) go to `onWarning`, with their place in the file.
+ * Reads network data from a Touchstone (.sNp) or scatterbox JSON (.json) file. Only regular files
+ * of at most MAX_FILE_BYTES are read (throws InputFileError otherwise, see io/source-file.ts).
+ * Warnings of the file (e.g. noise parameters read but not used) go to `onWarning`, with their
+ * place in the file.
  */
 export function readNetworkFile(path: string, onWarning?: (message: string, line: number, column: number) => void): NetworkData {
-  const text = readFileSync(path, 'utf8');
+  const text = readInputText(path);
   if (extname(path).toLowerCase() === '.json') return parseJson(text);
   return parseTouchstone(text, { fileName: path, onWarning });
 }
@@ -32,7 +34,7 @@ export interface LoadedNetworkFile {
  * file…) are thrown as they are.
  */
 export function loadNetworkFile(path: string): LoadedNetworkFile {
-  const text = readFileSync(path, 'utf8');
+  const text = readInputText(path);
   const sources = new Map([[path, text]]);
   const warnings: Diagnostic[] = [];
   const onWarning = (message: string, line: number, column: number) =>

@@ -46,7 +46,7 @@
  *   `[Reference]` keeps giving single-ended port references Z0, and the mode references are
  *   2·Z0 and Z0/2. We write our row order [D1, …, DN, C1, …, CN] and read any order into it.
  * - Limits (src/limits.ts): at most MAX_PORTS ports and MAX_NETWORK_VALUES complex values, checked
- *   before anything is allocated; references within [MIN_REFERENCE_OHM, MAX_REFERENCE_OHM]. Every
+ *   before anything is allocated; references within [MIN_REFERENCE_OHMS, MAX_REFERENCE_OHMS]. Every
  *   number must stay finite once decoded (frequency × unit, 10^(dB/20), × R of version 1.1 Z):
  *   otherwise an error at that number. Frequencies are >= 0 and strictly increasing.
  * - Noise parameters are read, checked and kept (`NetworkData.noise`), and `onWarning` is told
@@ -65,7 +65,7 @@
  * - Output is made only of ECMAScript-specified conversions (toExponential, toPrecision, String)
  *   and Math functions, with "\n" line ends: no locale, no clock, so the same bytes every run.
  */
-import { MAX_NETWORK_VALUES, MAX_PORTS, MAX_REFERENCE_OHM, MIN_REFERENCE_OHM } from '../limits.js';
+import { MAX_NETWORK_VALUES, MAX_PORTS, MAX_REFERENCE_OHMS, MIN_REFERENCE_OHMS } from '../limits.js';
 import { isMixedMode, modeLabels, PAIR_REFERENCE_TOLERANCE, touchstoneModeOrder, type MixedModeData, type PortPair } from '../network/mixed-mode.js';
 import type { NetworkData, NoiseParameters, ParameterKind } from '../network/types.js';
 
@@ -776,8 +776,8 @@ class Reader {
   /** Fails unless `v` (from token `t`) lies in the documented range of reference impedances. */
   private checkReference(v: number, t: Token, what: string): void {
     if (!(v > 0)) this.fail(this.lineNo, t.col, `${what} must be positive, got ${t.text}`);
-    if (v < MIN_REFERENCE_OHM || v > MAX_REFERENCE_OHM) {
-      this.fail(this.lineNo, t.col, `${what} ${t.text} ohm is outside the range a data file may give, ${MIN_REFERENCE_OHM} to ${MAX_REFERENCE_OHM} ohm`);
+    if (v < MIN_REFERENCE_OHMS || v > MAX_REFERENCE_OHMS) {
+      this.fail(this.lineNo, t.col, `${what} ${t.text} ohm is outside the range a data file may give, ${MIN_REFERENCE_OHMS} to ${MAX_REFERENCE_OHMS} ohm`);
     }
   }
 

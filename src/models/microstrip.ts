@@ -162,7 +162,7 @@ export function microstripStatic(
   er: number,
   out: MicrostripStatic = createMicrostripStatic(),
 ): MicrostripStatic {
-  requireGeometry('microstripStatic', w, h, t, er);
+  requireGeometry('microstrip (Hammerstad–Jensen)', w, h, t, er);
   const u = w / h;
   hjThicknessIncrements(u, t / h, er, incr);
   const u1 = u + incr[0]!;
@@ -200,11 +200,11 @@ function fhGHzMm(f: number, h: number): number {
  * if wanted); u is the physical w/h. Range: 0.1 ≤ u ≤ 100, 1 ≤ εr ≤ 20, h/λ0 ≤ 0.13 (from memory).
  */
 export function kjEffectivePermittivity(f: number, w: number, h: number, er: number, eeff0: number): number {
-  requireFrequency('kjEffectivePermittivity', f);
-  requirePositive('kjEffectivePermittivity', 'strip width w (m)', w);
-  requirePositive('kjEffectivePermittivity', 'substrate height h (m)', h);
-  requirePermittivity('kjEffectivePermittivity', er);
-  if (!(eeff0 >= 1 && eeff0 <= er)) throw new RangeError(`kjEffectivePermittivity: eeff0 must lie in [1, εr], got ${eeff0}`);
+  requireFrequency('microstrip εeff(f) (Kirschning–Jansen)', f);
+  requirePositive('microstrip εeff(f) (Kirschning–Jansen)', 'strip width w (m)', w);
+  requirePositive('microstrip εeff(f) (Kirschning–Jansen)', 'substrate height h (m)', h);
+  requirePermittivity('microstrip εeff(f) (Kirschning–Jansen)', er);
+  if (!(eeff0 >= 1 && eeff0 <= er)) throw new RangeError(`microstrip εeff(f) (Kirschning–Jansen): the quasi-static εeff must lie in [1, εr], got ${eeff0}`);
   const u = w / h;
   const fn = fhGHzMm(f, h);
   const p1 = 0.27488 + (0.6315 + 0.525 / Math.pow(1 + 0.0157 * fn, 20)) * u - 0.065683 * Math.exp(-8.7513 * u);
@@ -247,11 +247,11 @@ export function jkImpedance(
   eeffF: number,
   z0Static: number,
 ): number {
-  requireFrequency('jkImpedance', f);
-  requirePositive('jkImpedance', 'strip width w (m)', w);
-  requirePositive('jkImpedance', 'substrate height h (m)', h);
-  requirePermittivity('jkImpedance', er);
-  requirePositive('jkImpedance', 'static impedance (Ω)', z0Static);
+  requireFrequency('microstrip Z0(f) (Jansen–Kirschning)', f);
+  requirePositive('microstrip Z0(f) (Jansen–Kirschning)', 'strip width w (m)', w);
+  requirePositive('microstrip Z0(f) (Jansen–Kirschning)', 'substrate height h (m)', h);
+  requirePermittivity('microstrip Z0(f) (Jansen–Kirschning)', er);
+  requirePositive('microstrip Z0(f) (Jansen–Kirschning)', 'static impedance (Ω)', z0Static);
   if (f === 0 || er === 1) return z0Static;
   const u = w / h;
   const fn = fhGHzMm(f, h);
@@ -277,7 +277,7 @@ export function jkImpedance(
   const q = r13 / r14;
   if (!(q > 0 && q < Infinity)) {
     throw new RangeError(
-      `jkImpedance: the Z0 dispersion model is undefined here (R13/R14 = ${q}); this happens for εr just above 1 (εr = ${er})`,
+      `microstrip Z0(f) (Jansen–Kirschning): the Z0 dispersion model is undefined here (R13/R14 = ${q}), as happens for εr just above 1 or far outside its ranges (εr = ${er}, w/h = ${u})`,
     );
   }
   return z0Static * Math.pow(q, r17);
@@ -317,7 +317,7 @@ export function microstripDispersive(
   er: number,
   out: MicrostripDispersive = createMicrostripDispersive(),
 ): MicrostripDispersive {
-  requireFrequency('microstripDispersive', f);
+  requireFrequency('microstrip dispersion', f);
   microstripStatic(w, h, t, er, stat);
   const eeffF = kjEffectivePermittivity(f, w, h, er, stat.eeff);
   out.z0Static = stat.z0;
@@ -333,8 +333,8 @@ export function microstripDispersive(
 
 /** Skin depth δ = 1/√(π·f·μ0·σ), m, of a non-magnetic conductor (common practice). f > 0, σ > 0. */
 export function skinDepth(f: number, sigma: number): number {
-  requirePositive('skinDepth', 'frequency f (Hz)', f);
-  requirePositive('skinDepth', 'conductivity σ (S/m)', sigma);
+  requirePositive('skin depth', 'frequency f (Hz)', f);
+  requirePositive('skin depth', 'conductivity σ (S/m)', sigma);
   return 1 / Math.sqrt(Math.PI * f * MU0 * sigma);
 }
 
@@ -343,8 +343,8 @@ export function skinDepth(f: number, sigma: number): number {
  * σ = Infinity (perfect conductor) gives 0.
  */
 export function surfaceResistance(f: number, sigma: number): number {
-  requireFrequency('surfaceResistance', f);
-  if (!(sigma > 0)) throw new RangeError(`surfaceResistance: conductivity σ (S/m) must be above 0, got ${sigma}`);
+  requireFrequency('surface resistance', f);
+  if (!(sigma > 0)) throw new RangeError(`surface resistance: conductivity σ (S/m) must be above 0, got ${sigma}`);
   return Math.sqrt((Math.PI * f * MU0) / sigma);
 }
 
@@ -354,8 +354,8 @@ export function surfaceResistance(f: number, sigma: number): number {
  * `rms` ≥ 0 in metres; at f = 0 (δ infinite) the factor is 1.
  */
 export function roughnessFactor(f: number, sigma: number, rms: number): number {
-  requireFrequency('roughnessFactor', f);
-  requireNonNegative('roughnessFactor', 'rms roughness (m)', rms);
+  requireFrequency('roughness factor', f);
+  requireNonNegative('roughness factor', 'rms roughness (m)', rms);
   if (rms === 0 || f === 0 || sigma === Infinity) return 1;
   const r = rms / skinDepth(f, sigma);
   return 1 + (2 / Math.PI) * Math.atan(1.4 * r * r);
@@ -390,7 +390,7 @@ export function microstripConductorLoss(
   sigma: number,
   rmsRoughness = 0,
 ): number {
-  const where = 'microstripConductorLoss';
+  const where = 'microstrip conductor loss';
   requireFrequency(where, f);
   requireGeometry(where, w, h, t, er);
   requirePositive(where, 'strip thickness t (m) (the incremental-inductance rule needs t > 0)', t);
@@ -415,7 +415,7 @@ export function microstripConductorLoss(
  * or dispersive). Requires 1 ≤ εeff ≤ εr, tan δ ≥ 0.
  */
 export function dielectricLoss(f: number, er: number, eeff: number, tanDelta: number): number {
-  const where = 'dielectricLoss';
+  const where = 'dielectric loss';
   requireFrequency(where, f);
   requirePermittivity(where, er);
   if (!(eeff >= 1 && eeff <= er)) throw new RangeError(`${where}: εeff must lie in [1, εr], got ${eeff}`);
@@ -501,8 +501,8 @@ export function microstripAt(f: number, spec: MicrostripSpec, out: MicrostripAt 
  * Used as the starting point of {@link microstripWidth}; stated accuracy about 1 % (from memory).
  */
 export function hammerstadWidthRatio(z0: number, er: number): number {
-  requirePositive('hammerstadWidthRatio', 'target impedance Z0 (Ω)', z0);
-  requirePermittivity('hammerstadWidthRatio', er);
+  requirePositive('microstrip synthesis (Hammerstad)', 'target impedance Z0 (Ω)', z0);
+  requirePermittivity('microstrip synthesis (Hammerstad)', er);
   const a = (z0 / 60) * Math.sqrt((er + 1) / 2) + ((er - 1) / (er + 1)) * (0.23 + 0.11 / er);
   const narrow = (8 * Math.exp(a)) / (Math.exp(2 * a) - 2);
   if (narrow > 0 && narrow < 2) return narrow;
@@ -585,7 +585,7 @@ const U_MAX = 1e6;
  * Throws RangeError on invalid input or when no width in that range gives the target.
  */
 export function microstripWidth(z0Target: number, h: number, t: number, er: number, f = 0): number {
-  const where = 'microstripWidth';
+  const where = 'microstrip synthesis';
   requirePositive(where, 'target impedance Z0 (Ω)', z0Target);
   requirePositive(where, 'substrate height h (m)', h);
   requireNonNegative(where, 'strip thickness t (m)', t);
@@ -641,8 +641,8 @@ export function microstripWidth(z0Target: number, h: number, t: number, er: numb
  */
 export function microstripRangeIssues(f: number, spec: MicrostripSpec): string[] {
   const { w, h, t, er } = spec;
-  requireGeometry('microstripRangeIssues', w, h, t, er);
-  requireFrequency('microstripRangeIssues', f);
+  requireGeometry('microstrip ranges', w, h, t, er);
+  requireFrequency('microstrip ranges', f);
   const u = w / h;
   const issues: string[] = [];
   if (u < 0.01 || u > 100) issues.push(`w/h = ${u} is outside 0.01…100, the range of the Hammerstad–Jensen εeff`);
