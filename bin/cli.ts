@@ -3,6 +3,7 @@ import { availableParallelism } from 'node:os';
 import { closeSweepPool, solveSweepParallel } from '../src/solve/parallel.js';
 import { solveSweep } from '../src/solve/sweep.js';
 import type { Circuit } from '../src/elaborate/circuit.js';
+import type { NetworkData } from '../src/network/types.js';
 import type { Diagnostic } from '../src/diagnostics/diagnostic.js';
 import { basename, extname, join, resolve } from 'node:path';
 import { Presets, SingleBar } from 'cli-progress';
@@ -14,7 +15,7 @@ import { checkErrorJson, checkReportJson, formatComparisonTable, formatSpecTable
 import { writeFileAtomicSync } from '../src/io/atomic.js';
 import { checkBatchNames, checkOutputs, ensureFolder } from '../src/io/guard.js';
 import { expandInputs, InputsError } from '../src/io/inputs.js';
-import { readNetworkFile } from '../src/io/read.js';
+import { loadNetworkFile } from '../src/io/read.js';
 import { touchstoneExtension } from '../src/io/touchstone.js';
 import { formatFigureTable } from '../src/io/table.js';
 import { convertData, parsePairs, parseReferences, type ConvertTarget } from '../src/io/convert-file.js';
@@ -462,10 +463,23 @@ interface ReportArgs {
   strict?: boolean;
 }
 
+/**
+ * Reads a network-data file for a command: a malformed file is an InputError located in the file;
+ * its warnings (e.g. noise data not used) go to stderr, or fail the run under --strict.
+ */
+function dataFile(path: string, io: Io, quiet = false, strict = false): NetworkData {
+  const { net, warnings, sources } = loadNetworkFile(path);
+  if (warnings.length > 0) {
+    if (strict) throw new InputError(warnings.map((w) => ({ ...w, severity: 'error' as const })), sources);
+    if (!quiet) io.err(`${formatDiagnostics(warnings, sources)}\n`);
+  }
+  return net;
+}
+
 /** Solves a netlist (with its specs) or reads a data file, for `report` and `plot`. */
 async function networkOf(a: { input: string; set?: string[]; sweep?: string; jobs: number; quiet: boolean; strict?: boolean }, io: Io) {
   if (formatFromPath(a.input) || extname(a.input).toLowerCase() === '.json') {
-    return { net: readNetworkFile(a.input), circuit: undefined, specs: undefined, inputs: [a.input] };
+    return { net: dataFile(a.input, io, a.quiet, a.strict), circuit: undefined, specs: undefined, inputs: [a.input] };
   }
   const { circuit, sources } = load(a, a.input, io);
   const net = await solveWith(circuit, a.jobs, a.quiet, a.quiet ? undefined : io, { strict: a.strict });
@@ -544,7 +558,7 @@ interface ConvertArgs {
 function runConvert(a: ConvertArgs, io: Io): number {
   try {
     checkOutputs([a.out], [a.input]);
-    const net = readNetworkFile(a.input);
+    const net = dataFile(a.input, io);
     const text = convertData(
       net,
       {
@@ -641,7 +655,7 @@ async function runCheck(a: CheckArgs, io: Io): Promise<number> {
       if (!existsSync(a.against)) {
         throw new OutputError(`the golden file ${a.against} does not exist`, `run with --update to create it from this solve`);
       }
-      const expected = readNetworkFile(a.against);
+      const expected = dataFile(a.against, io, a.quiet, a.strict);
       const aligned = alignReferences(net, expected, { actual: `the solve of ${a.netlist}`, expected: a.against });
       golden = { file: a.against, comparison: compareNetworks(aligned.net, expected, tolerance(a)), note: aligned.note };
     }
@@ -669,8 +683,8 @@ interface DiffArgs extends ToleranceArgs {
 
 function runDiff(a: DiffArgs, io: Io): number {
   try {
-    const expected = readNetworkFile(a.b);
-    const aligned = alignReferences(readNetworkFile(a.a), expected, { actual: a.a, expected: a.b });
+    const expected = dataFile(a.b, io);
+    const aligned = alignReferences(dataFile(a.a, io), expected, { actual: a.a, expected: a.b });
     if (aligned.note) io.out(`note: ${aligned.note}\n`);
     const c = compareNetworks(aligned.net, expected, tolerance(a));
     io.out(formatComparisonTable(c));

@@ -25,7 +25,7 @@ export { ELEMENTS } from './elements/registry.js';
 export type { ElementType, ElementInstance, PropertySpec, TerminalSpec, StampBuilder, Stamper } from './elements/types.js';
 export { buildPlan, lowestOf, stampAt, type PlanOptions, type StampPlan } from './plan/plan.js';
 export { solveSweep, solveSweep as solve, SweepRunner, SingularSystemError, type SweepOptions, type SolveMethod } from './solve/sweep.js';
-export type { NetworkData, ParameterKind } from './network/types.js';
+export type { NetworkData, ParameterKind, NoiseParameters } from './network/types.js';
 export { entryIndex } from './network/types.js';
 export { convertNetwork, renormalizeNetwork, ConversionError } from './network/convert.js';
 export {
@@ -39,8 +39,8 @@ export {
   type TouchstoneWriteOptions,
   type TouchstoneReadOptions,
 } from './io/touchstone.js';
-export { formatCsv, type CsvWriteOptions } from './io/csv.js';
-export { formatJson, parseJson } from './io/json.js';
+export { formatCsv, csvField, csvRow, type CsvWriteOptions } from './io/csv.js';
+export { formatJson, parseJson, JsonNetworkError } from './io/json.js';
 export { writeFileAtomic, writeFileAtomicSync, sweepTempFiles } from './io/atomic.js';
 export { checkOutputs, checkOutputTarget, ensureFolder, checkDistinctOutputs, checkBatchNames, explainWriteError, resolveWriteTarget, WriteError, type WriteTarget } from './io/guard.js';
 export { renderNetwork, renderNetworkChunks, writeNetwork, formatFromPath, OutputError, type OutputFormat, type OutputOptions } from './io/output.js';
@@ -63,7 +63,7 @@ export {
   type HybridData,
   type TwoPortRepresentation,
 } from './network/algebra.js';
-export { mixedMode, singleEnded, modeLabels, type MixedModeData, type PortPair } from './network/mixed-mode.js';
+export { mixedMode, singleEnded, modeLabels, isMixedMode, modeEntryName, type MixedModeData, type PortPair } from './network/mixed-mode.js';
 export { renormalizeComplex, fromComplexReferences } from './network/power-waves.js';
 export * from './figures/index.js';
 export { evaluateSpecs, limitAt } from './check/evaluate.js';
@@ -71,7 +71,7 @@ export type { SpecDefinition, SpecResult } from './check/types.js';
 export { compareNetworks, CompareError, type Comparison, type Tolerance, type EntryDeviation } from './check/compare.js';
 export { formatJunit, specSuite, comparisonSuite, type JunitSuite } from './check/junit.js';
 export { formatSpecTable, formatComparisonTable, checkReportJson } from './check/report.js';
-export { readNetworkFile } from './io/read.js';
+export { readNetworkFile, loadNetworkFile, type LoadedNetworkFile } from './io/read.js';
 export { readInputText, InputFileError } from './io/source-file.js';
 export { convertData, type ConvertOptions, type ConvertTarget } from './io/convert-file.js';
 export { evaluateQuantity } from './load.js';
