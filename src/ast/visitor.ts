@@ -1,5 +1,6 @@
 import type { CstNode, IToken, IRecognitionException } from 'chevrotain';
 import { parseLines, type ParsedLine } from '../parse/parser.js';
+import { MAX_EXPRESSION_DEPTH } from '../limits.js';
 import { DiagnosticBag, type SourceSpan } from '../diagnostics/diagnostic.js';
 import { joinSpans, unquote, type Arg, type Expr, type NetlistAst, type NetlistItems, type PendingLine, type Statement, type StatementItem } from './ast.js';
 import { BLANK, internKeyword, readSimpleLine, statementOf } from './fast.js';
@@ -84,18 +85,10 @@ class AstBuilder {
   }
 
   private chain(operands: Expr[], ops: readonly IToken[]): Expr {
-    let acc = operands[0]!;
-    for (let i = 0; i < ops.length; i++) {
-      const right = operands[i + 1]!;
-      acc = {
-        kind: 'binary',
-        op: ops[i]!.image as '+' | '-' | '*' | '/',
-        left: acc,
-        right,
-        span: joinSpans(acc.span, right.span),
-      };
-    }
-    return acc;
+    // the span a left fold of the operands would have: from the first to the last on its line
+    let span = operands[0]!.span;
+    for (let i = 1; i < operands.length; i++) span = joinSpans(span, operands[i]!.span);
+    return { kind: 'chain', operands, ops: ops.map((o) => o.image as '+' | '-' | '*' | '/'), span };
   }
 
   factor(node: CstNode): Expr {
@@ -282,6 +275,16 @@ function parseWithGrammar(text: string, file: string, bag: DiagnosticBag): Netli
   const lexErrors = parseLines(text, (line: ParsedLine) => {
     if (line.openString) {
       bag.error('syntax', 'this quoted string is not closed', tokSpan(file, line.openString), 'end it with `"` on the same line');
+      failedKeywords.push(line.tokens[0]!.image);
+      return;
+    }
+    if (line.tooDeep) {
+      bag.error(
+        'too-deep',
+        `this expression nests more than ${MAX_EXPRESSION_DEPTH} levels deep (parentheses, function calls, signs and powers)`,
+        tokSpan(file, line.tooDeep),
+        `the limit is ${MAX_EXPRESSION_DEPTH} levels; give parts of the expression names with \`let\``,
+      );
       failedKeywords.push(line.tokens[0]!.image);
       return;
     }

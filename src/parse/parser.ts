@@ -1,4 +1,5 @@
 import type { CstNode, IToken, IRecognitionException } from 'chevrotain';
+import { MAX_EXPRESSION_DEPTH } from '../limits.js';
 import { CstParser, EOF } from './chevrotain.js';
 import {
   allTokens,
@@ -193,6 +194,57 @@ export interface ParsedLine {
   errors: IRecognitionException[];
   /** A quoted string left open at the end of the line (the line is then not parsed). */
   openString?: IToken;
+  /**
+   * The token at which the line's expressions nest deeper than MAX_EXPRESSION_DEPTH (the line is
+   * then not parsed: the grammar descends once per level, and the stack is finite).
+   */
+  tooDeep?: IToken;
+}
+
+/**
+ * The first token at which an expression of the line nests more than `limit` levels deep, or
+ * undefined. A level is an open parenthesis (a function call's included), a sign in front of an
+ * operand (`--x`) or a power (`^`, right-associative: `a^b^c` is `a^(b^c)`); a sign or a power
+ * stays open until the operand it applies to ends (at `+`, `-`, `*`, `/`, `,`, `)` or the end of
+ * the value). One pass, no recursion: this is how a line is kept from the grammar's recursive
+ * descent when it would go too deep.
+ */
+export function tooDeepAt(tokens: readonly IToken[], limit: number = MAX_EXPRESSION_DEPTH): IToken | undefined {
+  const outer: number[] = []; // signs and powers open at the enclosing parenthesis levels
+  let open = 0; // signs and powers open at this level
+  let depth = 0; // parentheses + every open sign and power
+  let operandNext = true; // a `+` or `-` here is a sign, not an operator
+  for (const t of tokens) {
+    const type = t.tokenType;
+    if (type === LParen) {
+      outer.push(open);
+      open = 0;
+      depth++;
+      operandNext = true;
+    } else if (type === RParen) {
+      depth -= open + (outer.length > 0 ? 1 : 0);
+      open = outer.pop() ?? 0;
+      operandNext = false;
+      continue;
+    } else if ((type === Minus || type === Plus) && operandNext) {
+      open++;
+      depth++;
+    } else if (type === Caret) {
+      open++;
+      depth++;
+      operandNext = true;
+    } else if (type === Plus || type === Minus || type === Star || type === Slash || type === Comma || type === Equals || type === At) {
+      depth -= open;
+      open = 0;
+      operandNext = true;
+      continue;
+    } else {
+      operandNext = false;
+      continue;
+    }
+    if (depth > limit) return t;
+  }
+  return undefined;
 }
 
 export interface CstFile {
@@ -232,8 +284,23 @@ export function parseLines(text: string, onLine: (line: ParsedLine) => void): Le
       current = [];
       return;
     }
+    const deep = tooDeepAt(current);
+    if (deep) {
+      onLine({ cst: undefined, tokens: current, errors: [], tooDeep: deep });
+      current = [];
+      return;
+    }
     parser.input = current;
-    const cst = parser.line();
+    // the grammar reports a mistake by throwing an exception it catches itself: no stack trace
+    // is wanted from it, and capturing one made a file of many bad lines several times slower
+    const traces = Error.stackTraceLimit;
+    Error.stackTraceLimit = 0;
+    let cst: CstNode;
+    try {
+      cst = parser.line();
+    } finally {
+      Error.stackTraceLimit = traces;
+    }
     const errors = parser.errors.slice();
     onLine({ cst: errors.length ? undefined : cst, tokens: current, errors });
     current = [];
