@@ -125,7 +125,7 @@ export function formatDiagnostic(d: Diagnostic, sources?: SourceMap): string {
   if (d.span && src !== undefined) {
     const num = String(d.span.line);
     const pad = ' '.repeat(num.length);
-    let shown = src.replace(/\t/g, ' ');
+    let shown = src;
     let column = Math.max(1, d.span.column);
     if (shown.length > SHOWN_WIDTH) {
       // a window of the line around the caret, with … where it is cut
@@ -134,6 +134,7 @@ export function formatDiagnostic(d: Diagnostic, sources?: SourceMap): string {
       shown = `${start > 0 ? '…' : ''}${shown.slice(start, end)}${end < shown.length ? '…' : ''}`;
       column = column - start + (start > 0 ? 1 : 0);
     }
+    shown = shown.replace(/\t/g, ' ');
     const width = Math.max(1, Math.min(d.span.length, Math.max(1, shown.length - column + 1)));
     out.push(` ${num} | ${shown}`);
     out.push(` ${pad} | ${' '.repeat(column - 1)}${'^'.repeat(width)}`);

@@ -70,7 +70,7 @@ function isUnit(x: unknown): x is Unit {
 
 /** mathjs's own Unit check, so that only genuine units are accepted. */
 export function unitOf(text: string): Unit | undefined {
-  if (notUnits.has(text)) return undefined;
+  if (text.length > 64 || notUnits.has(text)) return undefined; // no unit is written that long
   try {
     return math.unit(1, normaliseUnit(text));
   } catch {
