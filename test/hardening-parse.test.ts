@@ -227,6 +227,13 @@ describe('error rendering', () => {
     });
   }
 
+  it('a backslash continues a line before a lone carriage return too', () => {
+    for (const br of ['\r', '\r\n', '\n']) {
+      const text = [...BASE, `let a = 1 + \\${br}  2`, 'resistor r2 a=in b=out value=a*1 ohm'].join(br) + br;
+      expect(parameter(text, 'a')).toBe(3);
+    }
+  });
+
   it('a mix of line breaks in one file: each error quotes its own line', () => {
     const text = 'let a = (1\rlet b = (2\r\nlet c = (3\nlet d = (4';
     const bag = new DiagnosticBag();

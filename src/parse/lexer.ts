@@ -8,7 +8,8 @@ import { stringBodyEnd } from './scan.js';
 export const WhiteSpace = createToken({ name: 'WhiteSpace', pattern: /[ \t]+/, group: Lexer.SKIPPED });
 export const Continuation = createToken({
   name: 'Continuation',
-  pattern: /\\[ \t]*(?:#[^\n\r]*)?\r?\n/,
+  // a backslash before any line break the grammar knows: `\n`, `\r\n` or a lone `\r`
+  pattern: /\\[ \t]*(?:#[^\n\r]*)?(?:\r\n?|\n)/,
   group: Lexer.SKIPPED,
   line_breaks: true,
 });
