@@ -159,6 +159,19 @@ describe('deep and long expressions', () => {
     }
   });
 
+  it('stray characters: a run of ten million is one error; a thousand apart are ten and a count of the rest', () => {
+    let text = netlist(`let x = 1 ${'!'.repeat(10_000_000)}`, 'resistor r2 a=in b=out value=x*1 ohm');
+    let e = inputError(text);
+    expect(errors(e).map((d) => [d.message, d.span])).toEqual([['unexpected character "!"', { file: FILE, line: BASE.length + 1, column: 11, length: 10_000_000 }]]);
+    text = netlist(`let x = 1 ${'! '.repeat(1000)}`, 'resistor r2 a=in b=out value=x*1 ohm', 'title "a!b" # c!d');
+    e = inputError(text);
+    const es = errors(e);
+    expect(es.length).toBe(11);
+    expect(es.slice(0, 10).map((d) => d.span!.column)).toEqual(Array.from({ length: 10 }, (_, i) => 11 + 2 * i));
+    expect(es[10]!.message).toBe('990 more unexpected characters on this line');
+    expectLocated(e, new Map([[FILE, text]]));
+  });
+
   it('random deep and long expressions (fast-check): the value computed in plain arithmetic, or a located too-deep error', () => {
     // wrappers around a sum of integers, each with its nesting cost: `(` 1, `abs(` 1, `-(` 2 (a sign and a parenthesis)
     const wrapper = fc.constantFrom(['(', 1, (x: number) => x], ['abs(', 1, Math.abs], ['-(', 2, (x: number) => -x], ['+(', 2, (x: number) => x]) as fc.Arbitrary<[string, number, (x: number) => number]>;

@@ -1,5 +1,6 @@
 import type { CstNode, IToken, IRecognitionException } from 'chevrotain';
 import { MAX_EXPRESSION_DEPTH } from '../limits.js';
+import { stringBodyEnd } from './scan.js';
 import { CstParser, EOF } from './chevrotain.js';
 import {
   allTokens,
@@ -178,6 +179,73 @@ export class NetlistParser extends CstParser {
   });
 }
 
+/** Characters that can start a token or a line break: the rest can never be read. */
+function canStart(c: number): boolean {
+  return (
+    (c >= 48 && c <= 57) || // 0-9
+    (c >= 65 && c <= 90) || // A-Z
+    (c >= 97 && c <= 122) || // a-z
+    c === 95 || // _
+    c === 32 || c === 9 || c === 10 || c === 13 || // space, tab, line breaks
+    c === 92 || c === 35 || c === 34 || c === 46 || // \ # " .
+    c === 61 || c === 44 || c === 40 || c === 41 || // = , ( )
+    c === 43 || c === 45 || c === 42 || c === 47 || c === 94 || // + - * / ^
+    c === 0xb5 || c === 0x3bc || c === 0x3a9 || c === 0x2126 // µ μ Ω Ω
+  );
+}
+
+const unexpectedMessages = new Map<number, string>();
+
+function unexpected(text: string, offset: number): string {
+  const c = text.codePointAt(offset) ?? 32;
+  let m = unexpectedMessages.get(c);
+  if (m === undefined) {
+    m = `unexpected character ${JSON.stringify(String.fromCodePoint(c))}`;
+    if (unexpectedMessages.size < 1000) unexpectedMessages.set(c, m);
+  }
+  return m;
+}
+
+/**
+ * Finds runs of characters that no token can start, outside quoted strings and comments, and
+ * blanks them (same length, so positions stay). The lexer's own recovery from such a character
+ * tries every token pattern at every following offset: on a line of millions of stray
+ * characters it took seconds. Each run is one error, as the lexer would report it.
+ */
+function strayCharacters(text: string): { text: string; errors: LexError[] } {
+  const errors: LexError[] = [];
+  const pieces: string[] = [];
+  let kept = 0; // text before this offset is in `pieces` (only once a run is found)
+  let line = 1;
+  let lineStart = 0;
+  const n = text.length;
+  let i = 0;
+  while (i < n) {
+    const c = text.charCodeAt(i);
+    if (c === 10 || c === 13) {
+      i += c === 13 && text.charCodeAt(i + 1) === 10 ? 2 : 1;
+      line++;
+      lineStart = i;
+    } else if (c === 34) {
+      i = stringBodyEnd(text, i);
+      if (text.charCodeAt(i) === 34) i++;
+    } else if (c === 35) {
+      while (i < n && text.charCodeAt(i) !== 10 && text.charCodeAt(i) !== 13) i++;
+    } else if (canStart(c)) {
+      i++;
+    } else {
+      const from = i;
+      while (i < n && !canStart(text.charCodeAt(i))) i++;
+      errors.push({ line, column: from - lineStart + 1, length: i - from, message: unexpected(text, from) });
+      pieces.push(text.slice(kept, from), i - from === 1 ? ' ' : ' '.repeat(i - from));
+      kept = i;
+    }
+  }
+  if (errors.length === 0) return { text, errors };
+  pieces.push(text.slice(kept));
+  return { text: pieces.join(''), errors };
+}
+
 /** One parser instance serves every parse (chevrotain parsers are reusable by resetting their input). */
 export const parser = new NetlistParser();
 
@@ -268,13 +336,18 @@ export function parseToCst(text: string): CstFile {
  * Returns the lexical errors.
  */
 export function parseLines(text: string, onLine: (line: ParsedLine) => void): LexError[] {
-  const lexed = netlistLexer.tokenize(text);
+  const stray = strayCharacters(text);
+  const lexed = netlistLexer.tokenize(stray.text);
   const lexErrors: LexError[] = lexed.errors.map((e) => ({
     line: e.line ?? 1,
     column: e.column ?? 1,
     length: e.length,
-    message: `unexpected character ${JSON.stringify(text.substr(e.offset, 1))}`,
+    message: unexpected(text, e.offset),
   }));
+  if (stray.errors.length > 0) {
+    for (const e of stray.errors) lexErrors.push(e);
+    lexErrors.sort((a, b) => a.line - b.line || a.column - b.column);
+  }
   let current: IToken[] = [];
   const flush = () => {
     if (current.length === 0) return;
