@@ -247,6 +247,15 @@ describe('error rendering', () => {
     }
   });
 
+  it('a long line is shown as a window around the caret, the caret still under its text', () => {
+    const line = `${'x'.repeat(500)}ERR${'y'.repeat(10)}`;
+    const out = formatDiagnostics([{ severity: 'error', code: 'c', message: 'm', span: { file: FILE, line: 2, column: 501, length: 3 } }], new Map([[FILE, `a\n${line}\n`]]));
+    const [, shown, caret] = out.split('\n');
+    expect(shown!.length).toBeLessThan(130);
+    expect(shown!.startsWith(' 2 | …')).toBe(true);
+    expect(shown!.slice(caret!.indexOf('^'), caret!.lastIndexOf('^') + 1)).toBe('ERR');
+  });
+
   it('a mix of line breaks in one file: each error quotes its own line', () => {
     const text = 'let a = (1\rlet b = (2\r\nlet c = (3\nlet d = (4';
     const bag = new DiagnosticBag();
