@@ -149,6 +149,13 @@ const TOKEN_WORDS = new Map(Object.entries({
   LParen: '`(`',
   RParen: '`)`',
   At: '`at`',
+  Plus: '`+`',
+  Minus: '`-`',
+  Star: '`*`',
+  Slash: '`/`',
+  Caret: '`^`',
+  OpenString: 'a quoted string',
+  Newline: 'the end of the line',
   EOF: 'the end of the line',
 }));
 
@@ -191,7 +198,7 @@ function explain(e: IRecognitionException, line: IToken[]): { message: string; h
     return { message: `unexpected ${found}`, at };
   }
   const m = /Expecting token of type --> (\w+) <--/.exec(e.message);
-  const want = m ? TOKEN_WORDS.get(m[1]!) ?? m[1]! : 'a value';
+  const want = (m && TOKEN_WORDS.get(m[1]!)) ?? 'a value';
   if (atEnd) {
     return { message: `the line ends where ${want} was expected`, help: prev?.image === '=' ? 'give a value after `=`' : undefined, at, pastEnd: true };
   }

@@ -371,6 +371,13 @@ export function parseLines(text: string, onLine: (line: ParsedLine) => void): Le
     let cst: CstNode;
     try {
       cst = parser.line();
+    } catch (e) {
+      // the depth check above keeps the descent within the stack; should a line still exhaust it
+      // (a caller already deep in its own stack), the line is reported as too deep, not thrown
+      if (!(e instanceof RangeError)) throw e;
+      onLine({ cst: undefined, tokens: current, errors: [], tooDeep: current[0] });
+      current = [];
+      return;
     } finally {
       Error.stackTraceLimit = traces;
     }
