@@ -324,7 +324,7 @@ describe('elements', () => {
 
   it('bad-value: a value that overflows', () => {
     const t = net(PORT, 'resistor r1 a=in b=ground value=1e308 ohm * 10', SWEEP);
-    expect(errorsOf(t)).toEqual([err('bad-value', '`value` is not finite', find(t, 2, '1e308 ohm * 10'))]);
+    expect(errorsOf(t)).toEqual([err('bad-number', 'the result is not a finite number', find(t, 2, '1e308 ohm * 10'))]);
   });
 
   it('bad-value: sign rules (resistance nonzero, capacitance positive, esr nonnegative)', () => {

@@ -6,7 +6,13 @@ export type Expr =
   | { kind: 'name'; name: string; span: SourceSpan }
   | { kind: 'call'; callee: string; args: Expr[]; span: SourceSpan }
   | { kind: 'unary'; op: '-' | '+'; operand: Expr; span: SourceSpan }
-  | { kind: 'binary'; op: '+' | '-' | '*' | '/' | '^'; left: Expr; right: Expr; span: SourceSpan };
+  | { kind: 'binary'; op: '+' | '-' | '*' | '/' | '^'; left: Expr; right: Expr; span: SourceSpan }
+  /**
+   * Operands joined left to right by operators of one precedence level: `a + b - c` (`+`, `-`) or
+   * `a * b / c` (`*`, `/`), meaning `((a + b) - c)`. One node for the whole run, so that a sum of
+   * ten thousand terms is not a tree ten thousand levels deep. (The grammar writes `^` as `binary`.)
+   */
+  | { kind: 'chain'; operands: Expr[]; ops: ('+' | '-' | '*' | '/')[]; span: SourceSpan };
 
 /** `key=value[, value…] [at expr]`, or `key="text"` (then `values` is empty and `text` is set). */
 export interface KeyArg {

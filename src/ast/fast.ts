@@ -11,12 +11,12 @@
  * @module
  */
 import type { SourceSpan } from '../diagnostics/diagnostic.js';
+import { stringBodyEnd } from '../parse/scan.js';
 import { joinSpans, unquote, type Arg, type Expr, type Statement, type StatementItem } from './ast.js';
 
 // the grammar's token patterns (parse/lexer.ts), sticky
 const NUMBER = /(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?/y;
 const IDENT = /[A-Za-z_\u00B5\u03BC\u03A9\u2126][A-Za-z0-9_\u00B5\u03BC\u03A9\u2126]*/y;
-const STRING = /"(?:[^"\\\n\r]|\\.)*"/y;
 
 const T_IDENT = 0;
 const T_NUMBER = 1;
@@ -57,10 +57,10 @@ function tokenize(line: string): number {
       kind = T_COMMA;
       end = i + 1;
     } else if (ch === 34) {
-      STRING.lastIndex = i;
-      if (!STRING.test(line)) return -1; // a string left open: the grammar reports it
+      const close = stringBodyEnd(line, i);
+      if (close >= len || line.charCodeAt(close) !== 34) return -1; // a string left open: the grammar reports it
       kind = T_STRING;
-      end = STRING.lastIndex;
+      end = close + 1;
     } else if ((ch >= 48 && ch <= 57) || ch === 46) {
       NUMBER.lastIndex = i;
       if (!NUMBER.test(line)) return -1;

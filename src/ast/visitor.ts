@@ -1,6 +1,7 @@
 import type { CstNode, IToken, IRecognitionException } from 'chevrotain';
 import { parseLines, type ParsedLine } from '../parse/parser.js';
-import { DiagnosticBag, type SourceSpan } from '../diagnostics/diagnostic.js';
+import { MAX_EXPRESSION_DEPTH } from '../limits.js';
+import { DiagnosticBag, type Diagnostic, type SourceSpan } from '../diagnostics/diagnostic.js';
 import { joinSpans, unquote, type Arg, type Expr, type NetlistAst, type NetlistItems, type PendingLine, type Statement, type StatementItem } from './ast.js';
 import { BLANK, internKeyword, readSimpleLine, statementOf } from './fast.js';
 
@@ -84,18 +85,10 @@ class AstBuilder {
   }
 
   private chain(operands: Expr[], ops: readonly IToken[]): Expr {
-    let acc = operands[0]!;
-    for (let i = 0; i < ops.length; i++) {
-      const right = operands[i + 1]!;
-      acc = {
-        kind: 'binary',
-        op: ops[i]!.image as '+' | '-' | '*' | '/',
-        left: acc,
-        right,
-        span: joinSpans(acc.span, right.span),
-      };
-    }
-    return acc;
+    // the span a left fold of the operands would have: from the first to the last on its line
+    let span = operands[0]!.span;
+    for (let i = 1; i < operands.length; i++) span = joinSpans(span, operands[i]!.span);
+    return { kind: 'chain', operands, ops: ops.map((o) => o.image as '+' | '-' | '*' | '/'), span };
   }
 
   factor(node: CstNode): Expr {
@@ -147,7 +140,7 @@ class AstBuilder {
 }
 
 
-const TOKEN_WORDS: Record<string, string> = {
+const TOKEN_WORDS = new Map(Object.entries({
   Identifier: 'a name',
   NumberLit: 'a number',
   StringLit: 'a quoted string',
@@ -156,12 +149,25 @@ const TOKEN_WORDS: Record<string, string> = {
   LParen: '`(`',
   RParen: '`)`',
   At: '`at`',
+  Plus: '`+`',
+  Minus: '`-`',
+  Star: '`*`',
+  Slash: '`/`',
+  Caret: '`^`',
+  OpenString: 'a quoted string',
+  Newline: 'the end of the line',
   EOF: 'the end of the line',
-};
+}));
 
 function describe(t: IToken): string {
   if (t.tokenType.name === 'EOF') return 'the end of the line';
-  return `\`${t.image}\``;
+  return `\`${image(t)}\``;
+}
+
+/** A token's text for a message, shortened when long. */
+function image(t: IToken | undefined): string {
+  const s = t?.image ?? '';
+  return s.length > 40 ? `${s.slice(0, 32)}…` : s;
 }
 
 /** A plain message (and a hint) for a grammar error, instead of the parser generator's token lists. */
@@ -176,15 +182,15 @@ function explain(e: IRecognitionException, line: IToken[]): { message: string; h
   const isEq = (t: IToken | undefined) => t?.tokenType.name === 'Equals';
   // `key= next=…`: the value of `key` is missing, and `next` was taken for it
   if (isEq(e.token) && isName(prev) && isEq(prev2)) {
-    return { message: `\`${line[idx - 3]?.image ?? ''}=\` has no value`, help: `give a value after \`${line[idx - 3]?.image ?? ''}=\``, at: prev! };
+    return { message: `\`${image(line[idx - 3])}=\` has no value`, help: `give a value after \`${image(line[idx - 3])}=\``, at: prev! };
   }
   // `resistor r1 r2 a=in`: a second name where an argument should be
   if (isEq(line[idx + 1]) && isName(e.token) && isName(prev) && idx >= 2) {
-    return { message: `unexpected \`${prev!.image}\`: expected \`key=value\``, help: 'a statement has one name after its keyword; every argument after it is written `key=value`', at: prev! };
+    return { message: `unexpected \`${image(prev)}\`: expected \`key=value\``, help: 'a statement has one name after its keyword; every argument after it is written `key=value`', at: prev! };
   }
   if (e.name === 'NotAllInputParsedException' || /EOF/.test(e.message)) {
     if (e.token.tokenType.name === 'Equals' && prev) {
-      return { message: `unexpected ${found} after \`${prev.image}\``, help: 'arguments are written `key=value`; a statement starts with a keyword and an optional name, e.g. `resistor r1 a=in b=out value=50 ohm`', at };
+      return { message: `unexpected ${found} after \`${image(prev)}\``, help: 'arguments are written `key=value`; a statement starts with a keyword and an optional name, e.g. `resistor r1 a=in b=out value=50 ohm`', at };
     }
     if (e.token.tokenType.name === 'NumberLit' || e.token.tokenType.name === 'Identifier') {
       return { message: `unexpected ${found}: expected \`key=value\``, help: 'every argument after the statement name is written `key=value`', at };
@@ -192,7 +198,7 @@ function explain(e: IRecognitionException, line: IToken[]): { message: string; h
     return { message: `unexpected ${found}`, at };
   }
   const m = /Expecting token of type --> (\w+) <--/.exec(e.message);
-  const want = m ? TOKEN_WORDS[m[1]!] ?? m[1]! : 'a value';
+  const want = (m && TOKEN_WORDS.get(m[1]!)) ?? 'a value';
   if (atEnd) {
     return { message: `the line ends where ${want} was expected`, help: prev?.image === '=' ? 'give a value after `=`' : undefined, at, pastEnd: true };
   }
@@ -279,9 +285,21 @@ function parseWithGrammar(text: string, file: string, bag: DiagnosticBag): Netli
   const statements: Statement[] = [];
   const failedKeywords: string[] = [];
   // each line's CST becomes AST at once and is dropped: a large netlist never holds its whole CST
+  const found: Diagnostic[] = [];
   const lexErrors = parseLines(text, (line: ParsedLine) => {
     if (line.openString) {
-      bag.error('syntax', 'this quoted string is not closed', tokSpan(file, line.openString), 'end it with `"` on the same line');
+      found.push(syntax('this quoted string is not closed', tokSpan(file, line.openString), 'end it with `"` on the same line'));
+      failedKeywords.push(line.tokens[0]!.image);
+      return;
+    }
+    if (line.tooDeep) {
+      found.push({
+        severity: 'error',
+        code: 'too-deep',
+        message: `this expression nests more than ${MAX_EXPRESSION_DEPTH} levels deep (parentheses, function calls, signs and powers)`,
+        span: tokSpan(file, line.tooDeep),
+        help: `${MAX_EXPRESSION_DEPTH} levels is the limit; give parts of the expression names with \`let\``,
+      });
       failedKeywords.push(line.tokens[0]!.image);
       return;
     }
@@ -293,15 +311,97 @@ function parseWithGrammar(text: string, file: string, bag: DiagnosticBag): Netli
         span.column += at.image.length;
         span.length = 1;
       }
-      bag.error('syntax', message, span, help);
+      found.push(syntax(message, span, help));
       failedKeywords.push(line.tokens[0]!.image);
       return;
     }
     const st = line.cst!.children.statement as CstNode[];
     statements.push(builder.statement(st[0]!));
   });
-  for (const e of lexErrors) {
-    bag.error('syntax', e.message, { file, line: e.line, column: e.column, length: e.length });
+  // unexpected characters: the first few of each line (a line of a million stray characters
+  // is one mistake, not a million)
+  for (let i = 0; i < lexErrors.length; ) {
+    let j = i;
+    while (j < lexErrors.length && lexErrors[j]!.line === lexErrors[i]!.line) j++;
+    for (let k = i; k < Math.min(j, i + MAX_LEX_ERRORS_PER_LINE); k++) {
+      const e = lexErrors[k]!;
+      found.push(syntax(e.message, { file, line: e.line, column: e.column, length: e.length }));
+    }
+    const more = j - i - MAX_LEX_ERRORS_PER_LINE;
+    if (more > 0) {
+      const e = lexErrors[i + MAX_LEX_ERRORS_PER_LINE]!;
+      found.push(syntax(`${more} more unexpected character${more === 1 ? '' : 's'} on this line`, { file, line: e.line, column: e.column, length: e.length }));
+    }
+    i = j;
   }
+  for (const d of found.length > 0 ? unquotedFileNames(found, text, file) : found) bag.add(d);
   return { file, statements, failedKeywords };
+}
+
+const MAX_LEX_ERRORS_PER_LINE = 10;
+
+function syntax(message: string, span: SourceSpan, help?: string): Diagnostic {
+  return { severity: 'error', code: 'syntax', message, span, help };
+}
+
+/**
+ * `file=hemt.s2p`, `include parts/a.sbx`: a file name written without quotes breaks the line up
+ * into names, operators and stray dots. The errors that fall inside such a value are replaced by
+ * one that says file names are quoted.
+ */
+function unquotedFileNames(found: Diagnostic[], text: string, file: string): Diagnostic[] {
+  const lines = new Set<number>();
+  let lastLine = 0;
+  for (const d of found) {
+    if (d.code !== 'syntax' || !d.span) continue;
+    lines.add(d.span.line);
+    lastLine = Math.max(lastLine, d.span.line);
+  }
+  const hints = new Map<number, { from: number; to: number; diagnostic: Diagnostic }[]>();
+  let lineNo = 1;
+  const breaks = /\r\n?|\n/g;
+  let from = 0;
+  for (;;) {
+    const m = breaks.exec(text);
+    const to = m ? m.index : text.length;
+    if (lines.has(lineNo)) {
+      const line = text.slice(from, to);
+      const here: { from: number; to: number; diagnostic: Diagnostic }[] = [];
+      const looksLikeFile = (v: string) => /[A-Za-z_]/.test(v) && /[^./\\]\.[A-Za-z][A-Za-z0-9]*$/.test(v);
+      const include = /^([ \t]*include[ \t]+)([^\s"#]+)/.exec(line);
+      if (include && looksLikeFile(include[2]!)) {
+        const col = include[1]!.length + 1;
+        here.push({ from: col, to: col + include[2]!.length, diagnostic: fileHint(file, lineNo, col, include[2]!, `include "${include[2]}"`) });
+      }
+      const keyed = /(^|[ \t])([A-Za-z_][A-Za-z0-9_]*)[ \t]*=[ \t]*([^\s"=,()#]+)/g;
+      for (let k = keyed.exec(line); k; k = keyed.exec(line)) {
+        const value = k[3]!;
+        if (!looksLikeFile(value)) continue;
+        const col = k.index + k[0].length - value.length + 1;
+        here.push({ from: col, to: col + value.length, diagnostic: fileHint(file, lineNo, col, value, `${k[2]}="${value}"`) });
+      }
+      if (here.length > 0) hints.set(lineNo, here);
+    }
+    if (!m || lineNo >= lastLine) break;
+    from = to + m[0].length;
+    lineNo++;
+  }
+  if (hints.size === 0) return found;
+  const out: Diagnostic[] = [];
+  const given = new Set<Diagnostic>();
+  for (const d of found) {
+    // an error at (or just past) an unquoted file name gives way to the hint about quotes
+    const hint = d.code === 'syntax' && d.span ? hints.get(d.span.line)?.find((h) => d.span!.column >= h.from && d.span!.column <= h.to) : undefined;
+    if (!hint) out.push(d);
+    else if (!given.has(hint.diagnostic)) {
+      given.add(hint.diagnostic);
+      out.push(hint.diagnostic);
+    }
+  }
+  return out;
+}
+
+function fileHint(file: string, line: number, column: number, name: string, quotedForm: string): Diagnostic {
+  const short = (t: string) => (t.length > 60 ? `${t.slice(0, 52)}…` : t);
+  return syntax(`\`${short(name)}\` looks like a file name: file names are written in quotes`, { file, line, column, length: name.length }, `write \`${short(quotedForm)}\``);
 }

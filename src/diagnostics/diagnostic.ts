@@ -46,6 +46,7 @@ export type SourceMap = ReadonlyMap<string, string>;
 export class DiagnosticBag {
   readonly items: Diagnostic[] = [];
   private readonly seen = new Set<string>();
+  private errors = 0;
   error(code: string, message: string, span?: SourceSpan, help?: string): void {
     this.add({ severity: 'error', code, message, span, help });
   }
@@ -53,7 +54,7 @@ export class DiagnosticBag {
     this.add({ severity: 'warning', code, message, span, help });
   }
   get hasErrors(): boolean {
-    return this.items.some((d) => d.severity === 'error');
+    return this.errors > 0;
   }
   /** Adds a diagnostic unless the very same one is there already (a block used twice repeats its findings). */
   add(d: Diagnostic): void {
@@ -61,7 +62,51 @@ export class DiagnosticBag {
     if (this.seen.has(key)) return;
     this.seen.add(key);
     this.items.push(d);
+    if (d.severity === 'error') this.errors++;
   }
+}
+
+/**
+ * The lines of a source text, split once and kept for every diagnostic that quotes it. Lines
+ * break where the grammar breaks them: at `\r\n`, `\n` or a lone `\r`.
+ */
+class SourceLines {
+  private readonly starts: number[] = [0];
+  constructor(readonly text: string) {
+    const breaks = /\r\n?|\n/g;
+    for (let m = breaks.exec(text); m; m = breaks.exec(text)) this.starts.push(m.index + m[0].length);
+  }
+  /** Line `n` (1-based) without its line break, or undefined past the end. */
+  line(n: number): string | undefined {
+    if (!(n >= 1 && n <= this.starts.length)) return undefined;
+    const from = this.starts[n - 1]!;
+    let to = n < this.starts.length ? this.starts[n]! : this.text.length;
+    if (to > from && this.text.charCodeAt(to - 1) === 10) to--;
+    if (to > from && this.text.charCodeAt(to - 1) === 13 && n < this.starts.length) to--;
+    return this.text.slice(from, to);
+  }
+}
+
+/** Split sources, per source map and file: a run's diagnostics split each file once, not once each. */
+const splitSources = new WeakMap<SourceMap, Map<string, SourceLines>>();
+
+function sourceLines(sources: SourceMap, file: string): SourceLines | undefined {
+  const text = sources.get(file);
+  if (typeof text !== 'string') return undefined;
+  let files = splitSources.get(sources);
+  if (!files) splitSources.set(sources, (files = new Map()));
+  let lines = files.get(file);
+  if (!lines || lines.text !== text) files.set(file, (lines = new SourceLines(text)));
+  return lines;
+}
+
+/** Longest source line shown whole; a longer one is shown as a window around the caret. */
+const SHOWN_WIDTH = 120;
+/** Longest message or help shown whole (they quote user text, which may be long). */
+const MESSAGE_WIDTH = 400;
+
+function clipText(s: string): string {
+  return s.length > MESSAGE_WIDTH ? `${s.slice(0, MESSAGE_WIDTH - 1)}…` : s;
 }
 
 /**
@@ -75,29 +120,34 @@ export class DiagnosticBag {
 export function formatDiagnostic(d: Diagnostic, sources?: SourceMap): string {
   const out: string[] = [];
   const where = d.span ? `${d.span.file}:${d.span.line}:${d.span.column}: ` : '';
-  out.push(`${where}${d.severity}: ${d.message}`);
-  const text = d.span && sources?.get(d.span.file);
-  if (d.span && text !== undefined && text !== null) {
-    const lines = text.split(/\r?\n/);
-    const src = lines[d.span.line - 1];
-    if (src !== undefined) {
-      const num = String(d.span.line);
-      const pad = ' '.repeat(num.length);
-      const shown = src.replace(/\t/g, ' ');
-      const width = Math.max(1, Math.min(d.span.length, Math.max(1, shown.length - d.span.column + 1)));
-      out.push(` ${num} | ${shown}`);
-      out.push(` ${pad} | ${' '.repeat(Math.max(0, d.span.column - 1))}${'^'.repeat(width)}`);
+  out.push(`${where}${d.severity}: ${clipText(d.message)}`);
+  const src = d.span && sources ? sourceLines(sources, d.span.file)?.line(d.span.line) : undefined;
+  if (d.span && src !== undefined) {
+    const num = String(d.span.line);
+    const pad = ' '.repeat(num.length);
+    let shown = src;
+    let column = Math.max(1, d.span.column);
+    if (shown.length > SHOWN_WIDTH) {
+      // a window of the line around the caret, with … where it is cut
+      const start = Math.max(0, Math.min(column - 1 - 40, shown.length - (SHOWN_WIDTH - 20)));
+      const end = Math.min(shown.length, start + SHOWN_WIDTH - 20);
+      shown = `${start > 0 ? '…' : ''}${shown.slice(start, end)}${end < shown.length ? '…' : ''}`;
+      column = column - start + (start > 0 ? 1 : 0);
     }
+    shown = shown.replace(/\t/g, ' ');
+    const width = Math.max(1, Math.min(d.span.length, Math.max(1, shown.length - column + 1)));
+    out.push(` ${num} | ${shown}`);
+    out.push(` ${pad} | ${' '.repeat(column - 1)}${'^'.repeat(width)}`);
   }
-  if (d.help) out.push(`  help: ${d.help}`);
+  if (d.help) out.push(`  help: ${clipText(d.help)}`);
   return out.join('\n');
 }
 
 /** Renders diagnostics, errors and warnings in source order, separated by blank lines. */
 export function formatDiagnostics(ds: readonly Diagnostic[], sources?: SourceMap): string {
-  return sortDiagnostics(ds)
-    .map((d) => formatDiagnostic(d, sources))
-    .join('\n\n');
+  const out: string[] = [];
+  for (const d of sortDiagnostics(ds)) out.push(formatDiagnostic(d, sources));
+  return out.join('\n\n');
 }
 
 /** Orders diagnostics by file, line and column (stable for equal places). */

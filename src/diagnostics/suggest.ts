@@ -19,24 +19,29 @@ export function editDistance(a: string, b: string): number {
   return d[m]![n]!;
 }
 
+/** Words longer than this get no suggestion. */
+const MAX_SUGGESTED_LENGTH = 64;
+
 /**
  * The closest candidate to `word`, if close enough to be a plausible slip of the keyboard:
  * a case-only difference always qualifies; otherwise the distance must be at most a third of the
  * word's length (at least 1).
  */
 export function closest(word: string, candidates: Iterable<string>): string | undefined {
+  // no name of ours is this long, and the distance costs the product of the two lengths
+  if (word.length > MAX_SUGGESTED_LENGTH) return undefined;
+  const limit = Math.max(1, Math.floor(word.length / 3));
   let best: string | undefined;
   let bestScore = Infinity;
   const lower = word.toLowerCase();
   for (const c of candidates) {
-    if (c === word) continue;
+    if (c === word || Math.abs(c.length - word.length) > limit) continue;
     const score = c.toLowerCase() === lower ? 0.5 : editDistance(word, c);
     if (score < bestScore) {
       bestScore = score;
       best = c;
     }
   }
-  const limit = Math.max(1, Math.floor(word.length / 3));
   return best !== undefined && bestScore <= limit ? best : undefined;
 }
 

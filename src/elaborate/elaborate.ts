@@ -494,7 +494,7 @@ export function elaborate(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, op
     let r: { value: number } | { error: string } | undefined;
     if (e.kind === 'number' && Number.isFinite(e.value)) r = literalToSI(e.value, e.unit, unit);
     if (!r) {
-      const q = evaluate(e, evalScope(ctx), bag);
+      const q = evaluate(e, evalScope(ctx), bag, unit);
       if (q === undefined) return undefined;
       r = toSICached(q, unit);
     }
@@ -515,7 +515,7 @@ export function elaborate(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, op
     // plain literals (`at 433 MHz`) through the cached unit factors, like numberArg
     let r = e.kind === 'number' && Number.isFinite(e.value) ? literalToSI(e.value, e.unit, 'Hz') : undefined;
     if (!r) {
-      const q = evaluate(e, evalScope(ctx), bag);
+      const q = evaluate(e, evalScope(ctx), bag, 'Hz');
       if (q === undefined) return undefined;
       r = toSICached(q, 'Hz');
     }

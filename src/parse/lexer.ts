@@ -1,5 +1,6 @@
 import type { TokenType } from 'chevrotain';
 import { createToken, Lexer } from './chevrotain.js';
+import { stringBodyEnd } from './scan.js';
 
 // Token vocabulary of the netlist language. Statements are line-based: a newline ends one,
 // a backslash at the end of a line continues it. `#` starts a comment that runs to the end of the line.
@@ -7,15 +8,29 @@ import { createToken, Lexer } from './chevrotain.js';
 export const WhiteSpace = createToken({ name: 'WhiteSpace', pattern: /[ \t]+/, group: Lexer.SKIPPED });
 export const Continuation = createToken({
   name: 'Continuation',
-  pattern: /\\[ \t]*(?:#[^\n\r]*)?\r?\n/,
+  // a backslash before any line break the grammar knows: `\n`, `\r\n` or a lone `\r`
+  pattern: /\\[ \t]*(?:#[^\n\r]*)?(?:\r\n?|\n)/,
   group: Lexer.SKIPPED,
   line_breaks: true,
 });
 export const Comment = createToken({ name: 'Comment', pattern: /#[^\n\r]*/, group: Lexer.SKIPPED });
 export const Newline = createToken({ name: 'Newline', pattern: /\r?\n|\r/, line_breaks: true });
-export const StringLit = createToken({ name: 'StringLit', pattern: /"(?:[^"\\\n\r]|\\.)*"/ });
+/** `"…"`: a quoted string closed on its line. */
+function matchString(text: string, offset: number): [string] | null {
+  if (text.charCodeAt(offset) !== 34) return null;
+  const end = stringBodyEnd(text, offset);
+  return end < text.length && text.charCodeAt(end) === 34 ? [text.slice(offset, end + 1)] : null;
+}
+
+/** `"…`: a quoted string the line ends inside of. */
+function matchOpenString(text: string, offset: number): [string] | null {
+  if (text.charCodeAt(offset) !== 34) return null;
+  return [text.slice(offset, stringBodyEnd(text, offset))];
+}
+
+export const StringLit = createToken({ name: 'StringLit', pattern: matchString, start_chars_hint: ['"'], line_breaks: false });
 /** A quoted string that the line ends inside of; the visitor reports it. */
-export const OpenString = createToken({ name: 'OpenString', pattern: /"(?:[^"\\\n\r]|\\.)*/ });
+export const OpenString = createToken({ name: 'OpenString', pattern: matchOpenString, start_chars_hint: ['"'], line_breaks: false });
 export const NumberLit = createToken({
   name: 'NumberLit',
   pattern: /(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?/,

@@ -1,4 +1,6 @@
 import type { CstNode, IToken, IRecognitionException } from 'chevrotain';
+import { MAX_EXPRESSION_DEPTH } from '../limits.js';
+import { stringBodyEnd } from './scan.js';
 import { CstParser, EOF } from './chevrotain.js';
 import {
   allTokens,
@@ -177,6 +179,73 @@ export class NetlistParser extends CstParser {
   });
 }
 
+/** Characters that can start a token or a line break: the rest can never be read. */
+function canStart(c: number): boolean {
+  return (
+    (c >= 48 && c <= 57) || // 0-9
+    (c >= 65 && c <= 90) || // A-Z
+    (c >= 97 && c <= 122) || // a-z
+    c === 95 || // _
+    c === 32 || c === 9 || c === 10 || c === 13 || // space, tab, line breaks
+    c === 92 || c === 35 || c === 34 || c === 46 || // \ # " .
+    c === 61 || c === 44 || c === 40 || c === 41 || // = , ( )
+    c === 43 || c === 45 || c === 42 || c === 47 || c === 94 || // + - * / ^
+    c === 0xb5 || c === 0x3bc || c === 0x3a9 || c === 0x2126 // µ μ Ω Ω
+  );
+}
+
+const unexpectedMessages = new Map<number, string>();
+
+function unexpected(text: string, offset: number): string {
+  const c = text.codePointAt(offset) ?? 32;
+  let m = unexpectedMessages.get(c);
+  if (m === undefined) {
+    m = `unexpected character ${JSON.stringify(String.fromCodePoint(c))}`;
+    if (unexpectedMessages.size < 1000) unexpectedMessages.set(c, m);
+  }
+  return m;
+}
+
+/**
+ * Finds runs of characters that no token can start, outside quoted strings and comments, and
+ * blanks them (same length, so positions stay). The lexer's own recovery from such a character
+ * tries every token pattern at every following offset: on a line of millions of stray
+ * characters it took seconds. Each run is one error, as the lexer would report it.
+ */
+function strayCharacters(text: string): { text: string; errors: LexError[] } {
+  const errors: LexError[] = [];
+  const pieces: string[] = [];
+  let kept = 0; // text before this offset is in `pieces` (only once a run is found)
+  let line = 1;
+  let lineStart = 0;
+  const n = text.length;
+  let i = 0;
+  while (i < n) {
+    const c = text.charCodeAt(i);
+    if (c === 10 || c === 13) {
+      i += c === 13 && text.charCodeAt(i + 1) === 10 ? 2 : 1;
+      line++;
+      lineStart = i;
+    } else if (c === 34) {
+      i = stringBodyEnd(text, i);
+      if (text.charCodeAt(i) === 34) i++;
+    } else if (c === 35) {
+      while (i < n && text.charCodeAt(i) !== 10 && text.charCodeAt(i) !== 13) i++;
+    } else if (canStart(c)) {
+      i++;
+    } else {
+      const from = i;
+      while (i < n && !canStart(text.charCodeAt(i))) i++;
+      errors.push({ line, column: from - lineStart + 1, length: i - from, message: unexpected(text, from) });
+      pieces.push(text.slice(kept, from), i - from === 1 ? ' ' : ' '.repeat(i - from));
+      kept = i;
+    }
+  }
+  if (errors.length === 0) return { text, errors };
+  pieces.push(text.slice(kept));
+  return { text: pieces.join(''), errors };
+}
+
 /** One parser instance serves every parse (chevrotain parsers are reusable by resetting their input). */
 export const parser = new NetlistParser();
 
@@ -193,6 +262,57 @@ export interface ParsedLine {
   errors: IRecognitionException[];
   /** A quoted string left open at the end of the line (the line is then not parsed). */
   openString?: IToken;
+  /**
+   * The token at which the line's expressions nest deeper than MAX_EXPRESSION_DEPTH (the line is
+   * then not parsed: the grammar descends once per level, and the stack is finite).
+   */
+  tooDeep?: IToken;
+}
+
+/**
+ * The first token at which an expression of the line nests more than `limit` levels deep, or
+ * undefined. A level is an open parenthesis (a function call's included), a sign in front of an
+ * operand (`--x`) or a power (`^`, right-associative: `a^b^c` is `a^(b^c)`); a sign or a power
+ * stays open until the operand it applies to ends (at `+`, `-`, `*`, `/`, `,`, `)` or the end of
+ * the value). One pass, no recursion: this is how a line is kept from the grammar's recursive
+ * descent when it would go too deep.
+ */
+export function tooDeepAt(tokens: readonly IToken[], limit: number = MAX_EXPRESSION_DEPTH): IToken | undefined {
+  const outer: number[] = []; // signs and powers open at the enclosing parenthesis levels
+  let open = 0; // signs and powers open at this level
+  let depth = 0; // parentheses + every open sign and power
+  let operandNext = true; // a `+` or `-` here is a sign, not an operator
+  for (const t of tokens) {
+    const type = t.tokenType;
+    if (type === LParen) {
+      outer.push(open);
+      open = 0;
+      depth++;
+      operandNext = true;
+    } else if (type === RParen) {
+      depth -= open + (outer.length > 0 ? 1 : 0);
+      open = outer.pop() ?? 0;
+      operandNext = false;
+      continue;
+    } else if ((type === Minus || type === Plus) && operandNext) {
+      open++;
+      depth++;
+    } else if (type === Caret) {
+      open++;
+      depth++;
+      operandNext = true;
+    } else if (type === Plus || type === Minus || type === Star || type === Slash || type === Comma || type === Equals || type === At) {
+      depth -= open;
+      open = 0;
+      operandNext = true;
+      continue;
+    } else {
+      operandNext = false;
+      continue;
+    }
+    if (depth > limit) return t;
+  }
+  return undefined;
 }
 
 export interface CstFile {
@@ -216,13 +336,18 @@ export function parseToCst(text: string): CstFile {
  * Returns the lexical errors.
  */
 export function parseLines(text: string, onLine: (line: ParsedLine) => void): LexError[] {
-  const lexed = netlistLexer.tokenize(text);
+  const stray = strayCharacters(text);
+  const lexed = netlistLexer.tokenize(stray.text);
   const lexErrors: LexError[] = lexed.errors.map((e) => ({
     line: e.line ?? 1,
     column: e.column ?? 1,
     length: e.length,
-    message: `unexpected character ${JSON.stringify(text.substr(e.offset, 1))}`,
+    message: unexpected(text, e.offset),
   }));
+  if (stray.errors.length > 0) {
+    for (const e of stray.errors) lexErrors.push(e);
+    lexErrors.sort((a, b) => a.line - b.line || a.column - b.column);
+  }
   let current: IToken[] = [];
   const flush = () => {
     if (current.length === 0) return;
@@ -232,8 +357,30 @@ export function parseLines(text: string, onLine: (line: ParsedLine) => void): Le
       current = [];
       return;
     }
+    const deep = tooDeepAt(current);
+    if (deep) {
+      onLine({ cst: undefined, tokens: current, errors: [], tooDeep: deep });
+      current = [];
+      return;
+    }
     parser.input = current;
-    const cst = parser.line();
+    // the grammar reports a mistake by throwing an exception it catches itself: no stack trace
+    // is wanted from it, and capturing one made a file of many bad lines several times slower
+    const traces = Error.stackTraceLimit;
+    Error.stackTraceLimit = 0;
+    let cst: CstNode;
+    try {
+      cst = parser.line();
+    } catch (e) {
+      // the depth check above keeps the descent within the stack; should a line still exhaust it
+      // (a caller already deep in its own stack), the line is reported as too deep, not thrown
+      if (!(e instanceof RangeError)) throw e;
+      onLine({ cst: undefined, tokens: current, errors: [], tooDeep: current[0] });
+      current = [];
+      return;
+    } finally {
+      Error.stackTraceLimit = traces;
+    }
     const errors = parser.errors.slice();
     onLine({ cst: errors.length ? undefined : cst, tokens: current, errors });
     current = [];
