@@ -157,7 +157,7 @@ export function defaultEntries(ports: number): [number, number][] {
  * rather than one hidden under the other.
  */
 export function buildModel(net: NetworkData, specs: readonly SpecResult[], entries?: readonly (readonly [number, number])[]): ReportModel {
-  const s = scattering(net, 'report');
+  const s = scattering(net);
   const n = s.ports;
   const list: TraceEntry[] = [];
   const index = new Map<string, number>();
