@@ -14,7 +14,7 @@
  */
 
 import { coord, escapeXml } from './format.js';
-import { COLORS } from './model.js';
+import { COLORS } from './style.js';
 
 /** A circle in the Γ plane. */
 export interface GammaCircle {

@@ -1,11 +1,54 @@
 /**
- * The stylesheet of the HTML report (screen and print), as text to put inline. Our own look: an ink
- * header band, white cards on a pale stone page, a teal accent, green/red only for pass and fail.
+ * The look of the report and the static plots: the trace palette, the colours with a meaning of
+ * their own, and the stylesheet of the HTML report (screen and print), as text to put inline. Our
+ * own look: an ink header band, white cards on a pale stone page, a teal accent, green/red only for
+ * pass and fail.
  *
  * @module
  */
 
-import { COLORS } from './model.js';
+/**
+ * Trace colours, in the order entries are assigned them. Our own palette, chosen by a search over
+ * sRGB for the largest smallest CIEDE2000 difference between any two of its colours and between
+ * each of them and the fail red, the limit ink and the white page, seen with normal vision and with
+ * simulated deuteranopia and protanopia (the colour-vision matrices of G. M. Machado, M. M.
+ * Oliveira and L. A. F. Fernandes, "A physiologically-based model for simulation of color vision
+ * deficiency", IEEE TVCG 15(6), 2009, severity 1, applied in linear RGB), then rounded by hand.
+ * Every colour has a lightness L* between 27 and 69 (readable as a line on white) and a chroma of
+ * at least 32 (no greys, which read as grid or limit lines). The order puts the most different
+ * colours first, so that the few traces of a two-port (S11, S21, S12, S22) differ the most.
+ *
+ * - `#1f6ae6` cobalt blue: the first trace (usually S11); dark enough to read on white.
+ * - `#f97a0a` tangerine: far from the blue in every one of the three visions (light against dark,
+ *   yellow-red against blue).
+ * - `#841426` oxblood: a dark red, kept darker than the fail red (L* 28 against 50) so that the
+ *   two differ in lightness, which no colour-vision deficiency removes.
+ * - `#3eaeac` lagoon: a light blue-green, set apart from the others by lightness and its cyan hue.
+ * - `#18abfc` sky: a light blue, lighter than the cobalt.
+ * - `#0a8270` pine: a middle-dark green-teal.
+ * - `#42bc86` mint: a light green, the lightest entry (L* 69).
+ * - `#4a2a96` indigo: a dark violet, darker than the cobalt.
+ *
+ * test/hardening-report-palette.test.ts checks that every pair (and every colour against the fail,
+ * limit and page colours) stays at least 15 CIEDE2000 units apart in all three visions, with the
+ * CIEDE2000 formula verified on the published test pairs of Sharma, Wu and Dalal (2005).
+ * (Tritanopia, which is rare, is not covered: lagoon and mint come close there.)
+ */
+export const PALETTE: readonly string[] = ['#1f6ae6', '#f97a0a', '#841426', '#3eaeac', '#18abfc', '#0a8270', '#42bc86', '#4a2a96'];
+
+/** Colours with a meaning of their own. */
+export const COLORS = {
+  ink: '#1b2330',
+  muted: '#5f6b7a',
+  grid: '#e3e7ec',
+  gridStrong: '#c9d0d8',
+  pass: '#1f7a4a',
+  fail: '#cf3a2f',
+  failShade: 'rgba(207, 58, 47, 0.13)',
+  limit: '#2b3340',
+  accent: '#0d6e74',
+  admittance: '#c08a2b',
+} as const;
 
 export const REPORT_CSS = `
 :root {
