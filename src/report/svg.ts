@@ -74,7 +74,8 @@ export function renderPlotSvg(net: NetworkData, options: PlotSvgOptions): string
       );
     }
   }
-  const model = buildModel(net, specs, options.entries && kind !== 'smith' ? options.entries : undefined);
+  // entries asked for are drawn one by one (no merging of equal entries), so each is found by its ports
+  const model = buildModel(net, specs, options.entries);
   const id = options.idPrefix ?? `sbx-${kind}`;
   if (kind === 'smith') return smithSvg(model, options, id);
   return rectSvg(model, kind, options, id);
