@@ -181,13 +181,14 @@ describe('the trace palette', () => {
     expect(worst).toEqual([]);
   });
 
-  it(`every colour is at least ${MIN_DE00} CIEDE2000 from the fail red, the limit ink and the page, in all three visions`, () => {
+  it(`every colour is at least ${MIN_DE00} CIEDE2000 from the fail red, the limit ink, the accent and the page, in all three visions`, () => {
     const worst: string[] = [];
     for (const [name, m] of VISIONS) {
       for (const c of PALETTE) {
         for (const [what, other] of [
           ['fail', COLORS.fail],
           ['limit', COLORS.limit],
+          ['accent', COLORS.accent],
           ['page', '#ffffff'],
         ] as const) {
           const d = ciede2000(labOf(c, m), labOf(other, m));

@@ -8,33 +8,36 @@
  */
 
 /**
- * Trace colours, in the order entries are assigned them. Our own palette, chosen by a search over
- * sRGB for the largest smallest CIEDE2000 difference between any two of its colours and between
- * each of them and the fail red, the limit ink and the white page, seen with normal vision and with
- * simulated deuteranopia and protanopia (the colour-vision matrices of G. M. Machado, M. M.
- * Oliveira and L. A. F. Fernandes, "A physiologically-based model for simulation of color vision
- * deficiency", IEEE TVCG 15(6), 2009, severity 1, applied in linear RGB), then rounded by hand.
- * Every colour has a lightness L* between 27 and 69 (readable as a line on white) and a chroma of
- * at least 32 (no greys, which read as grid or limit lines). The order puts the most different
- * colours first, so that the few traces of a two-port (S11, S21, S12, S22) differ the most.
+ * Trace colours, in the order entries are assigned them. Our own palette, found by a search over
+ * sRGB for the largest smallest CIEDE2000 difference between any two of its colours, and between
+ * each of them and the fail red, the limit ink, the accent and the white page, seen with normal
+ * vision and with simulated deuteranopia and protanopia (the colour-vision matrices of G. M.
+ * Machado, M. M. Oliveira and L. A. F. Fernandes, "A physiologically-based model for simulation of
+ * color vision deficiency", IEEE TVCG 15(6), 2009, severity 1, applied in linear RGB). The search
+ * also kept every colour visibly away (about 6 CIEDE2000 units or more) from the default colours of
+ * the widely used plotting libraries, and the order is ours: it does not open with the blue and
+ * orange pair those libraries share. Every colour has a lightness L* between 27 and 69 (readable as
+ * a line on white) and a chroma of at least 32 (no greys, which read as grid or limit lines). The
+ * first colours are the most different from one another, so that the two to four traces of a
+ * two-port (S11, S21, S12, S22) differ the most.
  *
- * - `#1f6ae6` cobalt blue: the first trace (usually S11); dark enough to read on white.
- * - `#f97a0a` tangerine: far from the blue in every one of the three visions (light against dark,
- *   yellow-red against blue).
- * - `#841426` oxblood: a dark red, kept darker than the fail red (L* 28 against 50) so that the
- *   two differ in lightness, which no colour-vision deficiency removes.
- * - `#3eaeac` lagoon: a light blue-green, set apart from the others by lightness and its cyan hue.
- * - `#18abfc` sky: a light blue, lighter than the cobalt.
- * - `#0a8270` pine: a middle-dark green-teal.
- * - `#42bc86` mint: a light green, the lightest entry (L* 69).
- * - `#4a2a96` indigo: a dark violet, darker than the cobalt.
+ * - `#6c52f1` iris: a violet-blue, the first trace (usually S11).
+ * - `#2bbf77` mint: a light green, far from the iris in all three visions (light against middle,
+ *   green against violet; dichromats keep the blue–yellow axis that separates them).
+ * - `#841126` oxblood: a dark red, much darker than the fail red (L* 28 against 50), a difference
+ *   of lightness that no colour-vision deficiency removes.
+ * - `#159ca0` lagoon: a middle cyan-teal, lighter than the accent teal of the page.
+ * - `#ff6e1a` flame: a light warm orange.
+ * - `#208a68` pine: a middle green, darker than the mint.
+ * - `#1131ad` ultramarine: a dark blue, darker than the iris.
+ * - `#45a3fb` sky: a light blue, lighter than the iris.
  *
  * test/hardening-report-palette.test.ts checks that every pair (and every colour against the fail,
- * limit and page colours) stays at least 15 CIEDE2000 units apart in all three visions, with the
- * CIEDE2000 formula verified on the published test pairs of Sharma, Wu and Dalal (2005).
- * (Tritanopia, which is rare, is not covered: lagoon and mint come close there.)
+ * limit, accent and page colours) stays at least 15 CIEDE2000 units apart in all three visions, with
+ * the CIEDE2000 formula verified on published test pairs of Sharma, Wu and Dalal (2005). Tritanopia,
+ * which is rare, is not covered: lagoon and pine come within about 8 units there.
  */
-export const PALETTE: readonly string[] = ['#1f6ae6', '#f97a0a', '#841426', '#3eaeac', '#18abfc', '#0a8270', '#42bc86', '#4a2a96'];
+export const PALETTE: readonly string[] = ['#6c52f1', '#2bbf77', '#841126', '#159ca0', '#ff6e1a', '#208a68', '#1131ad', '#45a3fb'];
 
 /** Colours with a meaning of their own. */
 export const COLORS = {
