@@ -22,7 +22,7 @@ import { OutputError } from '../src/io/output.js';
 import { loadNetlist } from '../src/load.js';
 import { mixedMode, modeLabels } from '../src/network/mixed-mode.js';
 import type { NetworkData } from '../src/network/types.js';
-import { renderPlotSvg, renderReport } from '../src/report/index.js';
+import { gammaToImpedance, renderPlotSvg, renderReport } from '../src/report/index.js';
 import { solveSweep } from '../src/solve/sweep.js';
 
 const math = create(all, {});
@@ -99,6 +99,15 @@ describe('zin_re and zin_im with a complex reference (ref_x)', () => {
       expectRel(re[k]!, (zl as unknown as C).re, 1e-12, `R of load ${k}`);
       expectRel(im[k]!, (zl as unknown as C).im, 1e-12, `X of load ${k}`);
     });
+  });
+
+  it('the Smith chart helper gammaToImpedance takes the reference reactance too (Kurokawa 1965, mathjs)', () => {
+    const zr = math.complex(36, 21);
+    const zl = math.complex(10, 25);
+    const g = math.divide(math.subtract(zl, math.conj(zr)), math.add(zl, zr)) as unknown as C;
+    const [r, x] = gammaToImpedance(g.re, g.im, 36, 21);
+    expectRel(r, 10, 1e-12, 'R');
+    expectRel(x, 25, 1e-12, 'X');
   });
 
   it('a two-port: Zin at port 1 with port 2 in its complex reference is Z11 − Z12·Z21/(Z22 + Zr2) (common practice, mathjs)', () => {
@@ -272,6 +281,24 @@ describe('plots are never empty with success', () => {
     // one sweep point has no group delay
     const one = network([1e9], () => [[[0.5, 0.1]]]);
     expect(() => renderPlotSvg(one, { kind: 'gd' })).toThrow(/group delay needs at least two sweep points/);
+  });
+
+  it('a sweep of one point is drawn as a dot on each rectangular plot', () => {
+    const one = network([1e9], () => [
+      [
+        [0.5, 0.1],
+        [0.2, 0.3],
+      ],
+      [
+        [0.2, 0.3],
+        [0.1, -0.4],
+      ],
+    ]);
+    for (const kind of ['db', 'phase'] as const) {
+      const svg = renderPlotSvg(one, { kind, entries: [[1, 1], [2, 1]] });
+      expect(svg, kind).toMatch(/<circle [^>]*data-point="S11"\/>/);
+      expect(svg, kind).toMatch(/<circle [^>]*data-point="S21"\/>/);
+    }
   });
 
   describe('the command line', () => {

@@ -201,9 +201,10 @@ function rectSvg(model: ReportModel, kind: PlotKind, options: PlotSvgOptions, id
       body.push(`<rect x="${coord(x0 - (X(b) - x0 < 2 ? 1 : 0))}" y="${top}" width="${coord(w)}" height="${ph}" fill="${COLORS.failShade}" data-fail="${escapeXml(fl.spec)}"/>`);
     }
   }
-  // data
+  // data; a sweep of one point is a dot (a path of one point draws nothing)
   for (const s of series) {
     body.push(`<path d="${linePath(f, s.y, X, Y, pw, kind === 'phase')}" fill="none" stroke="${s.color}" stroke-width="1.7" stroke-linejoin="round" data-entry="${escapeXml(s.label)}"/>`);
+    if (m === 1 && Number.isFinite(s.y[0]!)) body.push(`<circle cx="${coord(X(f[0]!))}" cy="${coord(Y(s.y[0]!))}" r="3.5" fill="${s.color}" data-point="${escapeXml(s.label)}"/>`);
   }
   // limits on top
   for (const l of limits) {
