@@ -100,7 +100,7 @@ export async function main(argv: string[], io: Io = defaultIo): Promise<number> 
           .option('freq-unit', { choices: ['Hz', 'kHz', 'MHz', 'GHz'] as const, default: 'GHz', describe: 'frequency unit of Touchstone files' })
           .option('param', { choices: ['S', 'Z', 'Y'] as const, default: 'S', describe: 'parameters to write (Z and Y where they exist)' })
           .option('digits', { type: 'number', describe: 'significant digits of written numbers' })
-          .option('figures', { type: 'string', describe: 'print derived figures instead of S, comma-separated: db(S21), rl(1), il(2,1), vswr(1), phase(S21), uphase(S21), gd(S21), zin_re(1), zin_im(1), k, delta, mu, mu2, mag, passivity, reciprocity' })
+          .option('figures', { type: 'string', describe: 'print derived figures instead of S, comma-separated: db(S21), rl(1), il(2,1), vswr(1), phase(S21), uphase(S21), gd(S21), zin_re(1), zin_im(1), k, delta, mu_load, mu_source, mag, passivity, reciprocity' })
           .example('$0 solve circuits/harmonic-lowpass-433.sbx', 'print |S| in dB and angle per frequency')
           .example('$0 solve circuits/bandpass-2g4.sbx --figures "il(2,1),rl(1),vswr(1),gd(S21)"', 'print derived figures per frequency')
           .example('$0 solve circuits/harmonic-lowpass-433.sbx -o lowpass.s2p --data db', 'write a Touchstone 1.1 file in dB/angle')

@@ -894,8 +894,8 @@ describe('figure registry', () => {
       ['zin_im(2)', inputReactance(net, 2)],
       ['k', rollettK(net)],
       ['delta', deltaMagnitude(net)],
-      ['mu', muFactor(net)],
-      ['mu2', muPrimeFactor(net)],
+      ['mu_load', muFactor(net)],
+      ['mu_source', muPrimeFactor(net)],
       ['mag', maxGainDb(net)],
       ['passivity', passivityMargin(net)],
       ['reciprocity', reciprocityError(net)],
@@ -928,8 +928,8 @@ describe('figure registry', () => {
       expect([...p.ports], text).toEqual(ports);
     }
     for (const spec of FIGURES) expect(parseFigure(spec.example).canonical).toBe(spec.example);
-    expect(figureSpec('MU2')?.name).toBe('mu2');
-    expect(figureSpec('mu3')).toBeUndefined();
+    expect(figureSpec('MU_SOURCE')?.name).toBe('mu_source');
+    expect(figureSpec('mu2')).toBeUndefined();
   });
 
   const fails = (text: string, ports?: number): FigureError => {
@@ -980,7 +980,7 @@ describe('figure registry', () => {
     expect(e.message).toContain('the network has 2 ports');
     expect(fails('rl(0)').code).toBe('port-out-of-range');
     expect(fails('db(S(1,12))', 9).code).toBe('port-out-of-range');
-    expect(fails('mu', 3).code).toBe('needs-two-port');
+    expect(fails('mu_load', 3).code).toBe('needs-two-port');
     // checked again at evaluation time, against the network given
     const parsed = parseFigure('vswr(2)');
     const onePort = constant(ONE_POINT, [[[0.2, 0]]]);

@@ -259,13 +259,17 @@ describe.skipIf(!haveChromium)('report in a browser', () => {
   it('toggles traces from the plot legend (everywhere) and from the Smith chart buttons', async () => {
     const { page } = main;
     const visible = (view: string, entry: string) => page.evaluate(([v, e]) => (globalThis as unknown as Win).scatterboxReport.isTraceVisible(v!, e!), [view, entry]);
+    // pixels in the colour of S21 (= S12) on the magnitude plot
     const orange = () =>
       page.evaluate(() => {
-        const u = (globalThis as unknown as Win).scatterboxReport.plots.db!;
+        const api = (globalThis as unknown as Win).scatterboxReport;
+        const u = api.plots.db!;
+        const hex = api.data.entries.find((e) => e.label === 'S21')!.color;
+        const rgb = [1, 3, 5].map((p) => parseInt(hex.slice(p, p + 2), 16));
         const c = u.ctx.canvas;
         const img = u.ctx.getImageData(0, 0, c.width, c.height).data;
         let n = 0;
-        for (let q = 0; q < img.length; q += 4) if (img[q + 3]! > 200 && Math.abs(img[q]! - 0xe0) + Math.abs(img[q + 1]! - 0x7b) + Math.abs(img[q + 2]! - 0x22) < 40) n++;
+        for (let q = 0; q < img.length; q += 4) if (img[q + 3]! > 200 && Math.abs(img[q]! - rgb[0]!) + Math.abs(img[q + 1]! - rgb[1]!) + Math.abs(img[q + 2]! - rgb[2]!) < 40) n++;
         return n;
       });
     expect(await visible('db', 'S21')).toBe(true);

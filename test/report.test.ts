@@ -596,7 +596,7 @@ describe('renderPlotSvg', () => {
   });
 
   it('rejects an unknown kind and a size with no room', () => {
-    expect(() => renderPlotSvg(net, { kind: 'bogus' as 'db' })).toThrow(/unknown kind/);
+    expect(() => renderPlotSvg(net, { kind: 'bogus' as 'db' })).toThrow(/unknown plot kind/);
     expect(() => renderPlotSvg(net, { kind: 'db', width: 60, height: 60 })).toThrow(/no room/);
   });
 });

@@ -72,9 +72,9 @@ export function loadReflection(re: number, im: number, zref: number): [number, n
 
 /** |S_ij| in dB: 20·log10|S_ij| (common practice). `to`, `from` are 1-based port numbers. */
 export function magnitudeDb(net: NetworkData, to: number, from: number, out?: Float64Array): Float64Array {
-  const s = scattering(net, 'magnitudeDb');
-  const points = checkEntry(s, to, from, 'magnitudeDb');
-  const res = outputArray(points, out, 'magnitudeDb');
+  const s = scattering(net);
+  const points = checkEntry(s, to, from);
+  const res = outputArray(points, out);
   const v = s.values;
   const n = s.ports;
   for (let k = 0; k < points; k++) {
@@ -107,9 +107,9 @@ export function insertionLoss(net: NetworkData, to: number, from: number, out?: 
 
 /** VSWR at `port` (1-based): (1 + |S_ii|)/(1 − |S_ii|), Infinity for |S_ii| ≥ 1 ({@link vswrFromMagnitude}). */
 export function vswr(net: NetworkData, port: number, out?: Float64Array): Float64Array {
-  const s = scattering(net, 'vswr');
-  const points = checkEntry(s, port, port, 'vswr');
-  const res = outputArray(points, out, 'vswr');
+  const s = scattering(net);
+  const points = checkEntry(s, port, port);
+  const res = outputArray(points, out);
   const v = s.values;
   const n = s.ports;
   for (let k = 0; k < points; k++) {
@@ -122,9 +122,9 @@ export function vswr(net: NetworkData, port: number, out?: Float64Array): Float6
 
 /** Phase of S_ij in degrees, wrapped into (−180, 180]: atan2(Im, Re)·180/π with −180 mapped to 180. */
 export function phaseDeg(net: NetworkData, to: number, from: number, out?: Float64Array): Float64Array {
-  const s = scattering(net, 'phaseDeg');
-  const points = checkEntry(s, to, from, 'phaseDeg');
-  const res = outputArray(points, out, 'phaseDeg');
+  const s = scattering(net);
+  const points = checkEntry(s, to, from);
+  const res = outputArray(points, out);
   const v = s.values;
   const n = s.ports;
   for (let k = 0; k < points; k++) {
@@ -165,9 +165,9 @@ function unwrapInto(s: NetworkData, to: number, from: number, points: number, re
  * step between neighbouring points lies in (−180, 180].
  */
 export function unwrappedPhaseDeg(net: NetworkData, to: number, from: number, out?: Float64Array): Float64Array {
-  const s = scattering(net, 'unwrappedPhaseDeg');
-  const points = checkEntry(s, to, from, 'unwrappedPhaseDeg');
-  const res = outputArray(points, out, 'unwrappedPhaseDeg');
+  const s = scattering(net);
+  const points = checkEntry(s, to, from);
+  const res = outputArray(points, out);
   unwrapInto(s, to, from, points, res);
   for (let k = 0; k < points; k++) res[k] = res[k]! * DEG;
   return res;
@@ -187,9 +187,9 @@ export function unwrappedPhaseDeg(net: NetworkData, to: number, from: number, ou
  * make the result meaningless.
  */
 export function groupDelay(net: NetworkData, to: number, from: number, out?: Float64Array): Float64Array {
-  const s = scattering(net, 'groupDelay');
-  const points = checkEntry(s, to, from, 'groupDelay');
-  const res = outputArray(points, out, 'groupDelay');
+  const s = scattering(net);
+  const points = checkEntry(s, to, from);
+  const res = outputArray(points, out);
   if (points === 0) return res;
   if (points === 1) {
     res[0] = Number.NaN;
@@ -211,74 +211,68 @@ export function groupDelay(net: NetworkData, to: number, from: number, out?: Flo
 }
 
 /**
- * Input impedance at `port` (1-based) with every other port terminated in its reference impedance:
- * Zin = Zref_i·(1 + S_ii)/(1 − S_ii) in ohms (common practice: the inverse of Γ = (Z − Zref)/(Z + Zref)).
- * Returns interleaved [Re, Im] per frequency point (length 2·points). Where S_ii = 1 exactly (an open
- * circuit) the result is Re = +Infinity, Im = NaN.
+ * Input impedance at `port` (1-based) with every other port terminated in its reference impedance,
+ * in ohms, as interleaved [Re, Im] per frequency point (length 2·points).
+ *
+ * The waves are power waves (Kurokawa 1965; README "Method" §6): with the port's reference
+ * Zr = R + jX, a = (V + Zr·I)/(2√R) and b = (V − Zr*·I)/(2√R). A load Z (V = Z·I) reflects
+ * Γ = b/a = (Z − Zr*)/(Z + Zr), so Z·(1 − Γ) = Zr* + Γ·Zr and
+ *   Zin = (Zr* + S_ii·Zr)/(1 − S_ii) = R·(1 + S_ii)/(1 − S_ii) − jX,
+ * which for X = 0 is the familiar R·(1 + S)/(1 − S) (common practice). Where S_ii = 1 exactly (an
+ * open circuit) the result is Re = +Infinity, Im = NaN.
  */
 export function inputImpedance(net: NetworkData, port: number, out?: Float64Array): Float64Array {
-  const s = scattering(net, 'inputImpedance');
-  const points = checkEntry(s, port, port, 'inputImpedance');
-  const res = outputArray(2 * points, out, 'inputImpedance');
-  const v = s.values;
-  const n = s.ports;
-  const z0 = s.references[port - 1]!;
-  // a complex reference Zr = R + jX (power waves, Kurokawa 1965): Zin = (Zr* + S·Zr)/(1 − S),
-  // which for X = 0 is the usual R·(1 + S)/(1 − S)
-  const x0 = s.referenceReactances?.[port - 1] ?? 0;
-  for (let k = 0; k < points; k++) {
-    const o = 2 * ((k * n + port - 1) * n + port - 1);
-    const sr = v[o]!;
-    const si = v[o + 1]!;
-    const dr = 1 - sr;
-    const d = dr * dr + si * si;
-    if (d === 0) {
-      res[2 * k] = Infinity;
-      res[2 * k + 1] = Number.NaN;
-      continue;
-    }
-    // numerator N = Zr* + S·Zr, then N·conj(1 − S)/|1 − S|²
-    const nr = z0 + sr * z0 - si * x0;
-    const ni = -x0 + sr * x0 + si * z0;
-    res[2 * k] = (nr * dr - ni * si) / d;
-    res[2 * k + 1] = (ni * dr + nr * si) / d;
-  }
+  const s = scattering(net);
+  const points = checkEntry(s, port, port);
+  const res = outputArray(2 * points, out);
+  impedanceInto(s, port, res, 2, 0, 1);
   return res;
 }
 
 /** Re Zin at `port` in ohms, one number per point ({@link inputImpedance}). */
 export function inputResistance(net: NetworkData, port: number, out?: Float64Array): Float64Array {
-  return impedancePart(net, port, 0, out, 'inputResistance');
+  const s = scattering(net);
+  const points = checkEntry(s, port, port);
+  const res = outputArray(points, out);
+  impedanceInto(s, port, res, 1, 0, -1);
+  return res;
 }
 
-/** Im Zin at `port` in ohms, one number per point ({@link inputImpedance}). */
+/**
+ * Im Zin at `port` in ohms, one number per point ({@link inputImpedance}): with a complex reference
+ * R + jX it includes the −jX of Zr* (Zin = R·(1 + S)/(1 − S) − jX).
+ */
 export function inputReactance(net: NetworkData, port: number, out?: Float64Array): Float64Array {
-  return impedancePart(net, port, 1, out, 'inputReactance');
+  const s = scattering(net);
+  const points = checkEntry(s, port, port);
+  const res = outputArray(points, out);
+  impedanceInto(s, port, res, 1, -1, 0);
+  return res;
 }
 
-function impedancePart(
-  net: NetworkData,
-  port: number,
-  part: 0 | 1,
-  out: Float64Array | undefined,
-  who: string,
-): Float64Array {
-  const s = scattering(net, who);
-  const points = checkEntry(s, port, port, who);
-  const res = outputArray(points, out, who);
+/**
+ * Writes Zin = R·(1 + S)/(1 − S) − jX at each point (see {@link inputImpedance}): its real part at
+ * res[stride·k + re] and its imaginary part at res[stride·k + im] (an offset of −1 skips that part).
+ * Allocates nothing.
+ */
+function impedanceInto(s: NetworkData, port: number, res: Float64Array, stride: number, re: number, im: number): void {
   const v = s.values;
   const n = s.ports;
-  const z0 = s.references[port - 1]!;
+  const r0 = s.references[port - 1]!;
+  const x0 = s.referenceReactances?.[port - 1] ?? 0;
+  const points = s.frequencies.length;
   for (let k = 0; k < points; k++) {
     const o = 2 * ((k * n + port - 1) * n + port - 1);
     const sr = v[o]!;
     const si = v[o + 1]!;
     const dr = 1 - sr;
     const d = dr * dr + si * si;
-    if (d === 0) res[k] = part === 0 ? Infinity : Number.NaN;
-    else res[k] = part === 0 ? (z0 * (1 - sr * sr - si * si)) / d : (z0 * 2 * si) / d;
+    // R·(1 + S)/(1 − S) = R·(1 − |S|² + 2j·Im S)/|1 − S|²
+    const zr = d === 0 ? Infinity : (r0 * (1 - sr * sr - si * si)) / d;
+    const zi = d === 0 ? Number.NaN : (r0 * 2 * si) / d - x0;
+    if (re >= 0) res[stride * k + re] = zr;
+    if (im >= 0) res[stride * k + im] = zi;
   }
-  return res;
 }
 
 /**
@@ -298,10 +292,10 @@ export function loadedReflection(
   gammaIm: number,
   out?: Float64Array,
 ): Float64Array {
-  const s = scattering(net, 'loadedReflection');
-  const points = checkEntry(s, port, loaded, 'loadedReflection');
-  if (port === loaded) throw new RangeError(`loadedReflection: the loaded port must differ from port ${port}`);
-  const res = outputArray(2 * points, out, 'loadedReflection');
+  const s = scattering(net);
+  const points = checkEntry(s, port, loaded);
+  if (port === loaded) throw new RangeError(`the loaded port must differ from port ${port}`);
+  const res = outputArray(2 * points, out);
   const v = s.values;
   const n = s.ports;
   const i = port - 1;
@@ -332,9 +326,9 @@ export function loadedReflection(
   return res;
 }
 
-function checkEntry(s: NetworkData, to: number, from: number, who: string): number {
-  const points = checkShape(s, who);
-  checkPort(s, to, who);
-  checkPort(s, from, who);
+function checkEntry(s: NetworkData, to: number, from: number): number {
+  const points = checkShape(s);
+  checkPort(s, to);
+  checkPort(s, from);
   return points;
 }

@@ -20,9 +20,9 @@ import { checkShape, outputArray, scattering } from './shared.js';
  * λmax is the largest squared singular value of S, from {@link gramEigenvalues} (cyclic Jacobi).
  */
 export function passivityMargin(net: NetworkData, out?: Float64Array): Float64Array {
-  const s = scattering(net, 'passivityMargin');
-  const points = checkShape(s, 'passivityMargin');
-  const res = outputArray(points, out, 'passivityMargin');
+  const s = scattering(net);
+  const points = checkShape(s);
+  const res = outputArray(points, out);
   const n = s.ports;
   const size = 2 * n * n;
   const work = createEigenWorkspace(n);
@@ -44,9 +44,9 @@ export function passivityMargin(net: NetworkData, out?: Float64Array): Float64Ar
  * practice), so the error is 0 up to rounding; an ideal circulator has error 1.
  */
 export function reciprocityError(net: NetworkData, out?: Float64Array): Float64Array {
-  const s = scattering(net, 'reciprocityError');
-  const points = checkShape(s, 'reciprocityError');
-  const res = outputArray(points, out, 'reciprocityError');
+  const s = scattering(net);
+  const points = checkShape(s);
+  const res = outputArray(points, out);
   const n = s.ports;
   const v = s.values;
   for (let k = 0; k < points; k++) {

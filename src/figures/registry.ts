@@ -162,20 +162,20 @@ export const FIGURES: readonly FigureSpec[] = [
     compute: (net, _p, out) => deltaMagnitude(net, out),
   }),
   spec({
-    name: 'mu',
+    name: 'mu_load',
     args: 'none',
     unit: '',
-    summary: 'Edwards–Sinsky μ (load side); > 1 means unconditionally stable',
-    example: 'mu',
+    summary: 'Edwards–Sinsky μ (load plane): distance from the chart centre to the nearest unstable load; > 1 means unconditionally stable',
+    example: 'mu_load',
     twoPortOnly: true,
     compute: (net, _p, out) => muFactor(net, out),
   }),
   spec({
-    name: 'mu2',
+    name: 'mu_source',
     args: 'none',
     unit: '',
-    summary: "Edwards–Sinsky μ' (source side)",
-    example: 'mu2',
+    summary: 'Edwards–Sinsky μ′ (source plane): distance from the chart centre to the nearest unstable source; > 1 means unconditionally stable',
+    example: 'mu_source',
     twoPortOnly: true,
     compute: (net, _p, out) => muPrimeFactor(net, out),
   }),
@@ -207,6 +207,16 @@ export const FIGURES: readonly FigureSpec[] = [
 ];
 
 const BY_NAME: ReadonlyMap<string, FigureSpec> = new Map(FIGURES.map((f) => [f.name, f]));
+
+/**
+ * Names that were removed, and the figure that now computes the same thing: the stability factors
+ * are named after what they measure (the load or the source plane of Edwards & Sinsky, 1992).
+ * The old names do not parse; they get an error pointing at the new name.
+ */
+const RENAMED: ReadonlyMap<string, string> = new Map([
+  ['mu', 'mu_load'],
+  ['mu2', 'mu_source'],
+]);
 
 /** The table entry for a figure name (case ignored), or undefined. */
 export function figureSpec(name: string): FigureSpec | undefined {
@@ -268,7 +278,7 @@ export interface ParseFigureOptions {
 const NAME = /^[A-Za-z_][A-Za-z0-9_]*/;
 
 /**
- * Parses a figure name such as `db(S21)`, `rl(1)`, `il(2,1)` or `mu`. Throws {@link FigureError}
+ * Parses a figure name such as `db(S21)`, `rl(1)`, `il(2,1)` or `mu_load`. Throws {@link FigureError}
  * with code 'figure-syntax', 'unknown-figure' (with a did-you-mean where one is close),
  * 'figure-arguments', and, when `options.ports` is given, 'port-out-of-range' or 'needs-two-port'.
  */
@@ -408,6 +418,16 @@ function readPorts(arg: string, text: string): number[] {
 
 function unknownFigure(text: string, word: string, inner: string | undefined): FigureError {
   const names = FIGURES.map((f) => f.name);
+  const renamed = RENAMED.get(word.toLowerCase());
+  if (renamed !== undefined) {
+    const what = renamed === 'mu_load' ? 'the load-side stability factor μ' : 'the source-side stability factor μ′';
+    return new FigureError(
+      'unknown-figure',
+      text,
+      `unknown figure \`${word}\`: ${what} is now called \`${renamed}\``,
+      `did you mean \`${renamed}\`?`,
+    );
+  }
   // `rl1`, `vswr2`: a known figure with its port glued on
   const glued = /^([A-Za-z_]+?)(\d+)$/.exec(word);
   if (glued && inner === undefined) {

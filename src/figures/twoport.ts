@@ -26,16 +26,16 @@ import type { NetworkData } from '../network/types.js';
 import { checkShape, checkTwoPort, outputArray, scattering } from './shared.js';
 
 /** Loads the two-port and the output array; returns the S data and the point count. */
-function prepare(net: NetworkData, out: Float64Array | undefined, who: string): [NetworkData, Float64Array] {
-  const s = scattering(net, who);
-  checkTwoPort(s, who);
-  const points = checkShape(s, who);
-  return [s, outputArray(points, out, who)];
+function prepare(net: NetworkData, out: Float64Array | undefined): [NetworkData, Float64Array] {
+  const s = scattering(net);
+  checkTwoPort(s);
+  const points = checkShape(s);
+  return [s, outputArray(points, out)];
 }
 
 /** |Δ| = |S11·S22 − S12·S21| per point. */
 export function deltaMagnitude(net: NetworkData, out?: Float64Array): Float64Array {
-  const [s, res] = prepare(net, out, 'deltaMagnitude');
+  const [s, res] = prepare(net, out);
   const v = s.values;
   for (let k = 0; k < res.length; k++) {
     const o = 8 * k;
@@ -53,7 +53,7 @@ export function deltaMagnitude(net: NetworkData, out?: Float64Array): Float64Arr
  * unilateral case), −Infinity when it is negative, NaN when it is 0.
  */
 export function rollettK(net: NetworkData, out?: Float64Array): Float64Array {
-  const [s, res] = prepare(net, out, 'rollettK');
+  const [s, res] = prepare(net, out);
   const v = s.values;
   for (let k = 0; k < res.length; k++) {
     const o = 8 * k;
@@ -72,25 +72,26 @@ export function rollettK(net: NetworkData, out?: Float64Array): Float64Array {
  * Edwards–Sinsky stability parameter seen from the load side,
  *   μ = (1 − |S11|²)/(|S22 − Δ·conj(S11)| + |S12·S21|)   (Edwards & Sinsky, 1992),
  * the distance from the centre of the load-reflection plane (ΓL = 0) to the nearest load that makes
- * |Γin| = 1 (from memory; the tests check it). μ > 1 ⇔ unconditionally stable. For a unilateral
+ * |Γin| = 1 (from memory; the tests check it). μ > 1 ⇔ unconditionally stable. Named figure `mu_load`. For a unilateral
  * two-port (S12 = 0, |S11| < 1) it reduces to 1/|S22|; a denominator of 0 gives +Infinity.
  */
 export function muFactor(net: NetworkData, out?: Float64Array): Float64Array {
-  return mu(net, out, 0, 'muFactor');
+  return mu(net, out, 0);
 }
 
 /**
  * Edwards–Sinsky stability parameter seen from the source side (port 1 exchanged with port 2),
  *   μ' = (1 − |S22|²)/(|S11 − Δ·conj(S22)| + |S12·S21|)   (Edwards & Sinsky, 1992),
- * the distance from ΓS = 0 to the nearest source that makes |Γout| = 1. μ' > 1 ⇔ μ > 1.
+ * the distance from ΓS = 0 to the nearest source that makes |Γout| = 1. μ' > 1 ⇔ μ > 1. Named figure
+ * `mu_source`.
  */
 export function muPrimeFactor(net: NetworkData, out?: Float64Array): Float64Array {
-  return mu(net, out, 6, 'muPrimeFactor');
+  return mu(net, out, 6);
 }
 
 /** μ with "own" entry at offset `own` (0: S11, 6: S22) and "other" diagonal entry at 6 − own. */
-function mu(net: NetworkData, out: Float64Array | undefined, own: 0 | 6, who: string): Float64Array {
-  const [s, res] = prepare(net, out, who);
+function mu(net: NetworkData, out: Float64Array | undefined, own: 0 | 6): Float64Array {
+  const [s, res] = prepare(net, out);
   const v = s.values;
   const other = 6 - own;
   for (let k = 0; k < res.length; k++) {
@@ -129,9 +130,9 @@ export const GAIN_STABLE = 2;
  * If `kind` is given, kind[k] receives GAIN_AVAILABLE or GAIN_STABLE (0 for NaN data).
  */
 export function maxGain(net: NetworkData, out?: Float64Array, kind?: Uint8Array): Float64Array {
-  const [s, res] = prepare(net, out, 'maxGain');
+  const [s, res] = prepare(net, out);
   if (kind !== undefined && kind.length !== res.length) {
-    throw new RangeError(`maxGain: kind has length ${kind.length}, expected ${res.length}`);
+    throw new RangeError(`the gain-kind array has length ${kind.length}, expected ${res.length}`);
   }
   const v = s.values;
   for (let k = 0; k < res.length; k++) {
@@ -176,7 +177,7 @@ export function maxGainDb(net: NetworkData, out?: Float64Array, kind?: Uint8Arra
  * Meaningful for |S11| < 1 and |S22| < 1.
  */
 export function maxUnilateralGain(net: NetworkData, out?: Float64Array): Float64Array {
-  const [s, res] = prepare(net, out, 'maxUnilateralGain');
+  const [s, res] = prepare(net, out);
   const v = s.values;
   for (let k = 0; k < res.length; k++) {
     const o = 8 * k;

@@ -57,12 +57,13 @@ export const CLIENT_SCRIPT = String.raw`(function () {
     while (hi - lo > 1) { var mid = (lo + hi) >> 1; if (F[mid] <= f) lo = mid; else hi = mid; }
     return f - F[lo] <= F[hi] - f ? lo : hi;
   }
-  // Z = Z0 (1 + G)/(1 - G)
-  function impedance(re, im, z0) {
+  // Z = (Zr* + G Zr)/(1 - G) = R (1 + G)/(1 - G) - jX for the reference Zr = R + jX (power waves,
+  // Kurokawa 1965); R (1 + G)/(1 - G) for a real one
+  function impedance(re, im, z0, x0) {
     if (re === null || im === null) return null;
     var dr = 1 - re, d = dr * dr + im * im;
     if (d === 0) return [Infinity, NaN];
-    return [z0 * (1 - re * re - im * im) / d, z0 * 2 * im / d];
+    return [z0 * (1 - re * re - im * im) / d, z0 * 2 * im / d - (x0 || 0)];
   }
   function zText(z) {
     if (!z) return '\u2014';
@@ -105,7 +106,7 @@ export const CLIENT_SCRIPT = String.raw`(function () {
       put(item, span('ro-v', fix(e.db[k], 3) + ' dB', 'db'));
       put(item, span('ro-v', '\u2220' + fix(e.deg[k], 2) + '\u00b0', 'deg'));
       if (e.gd) put(item, span('ro-v', '\u03c4 ' + sig(e.gd[k] === null ? null : e.gd[k] / GU.scale, 4) + ' ' + GU.unit, 'gd'));
-      if (e.i === e.j) put(item, span('ro-v', 'Z ' + zText(impedance(e.re[k], e.im[k], e.z0)), 'z'));
+      if (e.i === e.j) put(item, span('ro-v', 'Z ' + zText(impedance(e.re[k], e.im[k], e.z0, e.x0)), 'z'));
       put(readout, item);
     });
   }
@@ -120,17 +121,20 @@ export const CLIENT_SCRIPT = String.raw`(function () {
     return [Math.floor(lo / st + 1e-9) * st, Math.ceil(hi / st - 1e-9) * st];
   }
   function scaleOf(kind) { return kind === 'gd' ? GU.scale : 1; }
+  // The y range: the data and (when shown) the limits. A dB axis reaches at most data.dbSpan (120 dB)
+  // below the largest value shown, so that numerical zeros (|S| = 1e-20 is -400 dB) do not squash
+  // the data that matters; the limits are always inside.
   function yRange(kind) {
     return function (u, lo, hi) {
       if (kind === 'phase') return [-180, 180];
+      var lims = [];
       if (showLimits) data.limits.forEach(function (l) {
         if (l.plot !== kind) return;
-        l.points.forEach(function (p) {
-          var v = p[1] / scaleOf(kind);
-          if (lo === null || v < lo) lo = v;
-          if (hi === null || v > hi) hi = v;
-        });
+        l.points.forEach(function (p) { lims.push(p[1] / scaleOf(kind)); });
       });
+      lims.forEach(function (v) { if (hi === null || v > hi) hi = v; });
+      if (kind === 'db' && hi !== null && isFinite(hi) && lo !== null && lo < hi - data.dbSpan) lo = hi - data.dbSpan;
+      lims.forEach(function (v) { if (lo === null || v < lo) lo = v; });
       return niceRange(lo, hi);
     };
   }
@@ -380,7 +384,7 @@ export const CLIENT_SCRIPT = String.raw`(function () {
   function smithText(q, k) {
     var e = E[q], re = e.re[k], im = e.im[k];
     var m = Math.sqrt(re * re + im * im), a = Math.atan2(im, re) * 180 / Math.PI;
-    return e.display + ' \u00b7 ' + fmtFreq(F[k]) + ' \u00b7 \u0393 = ' + fix(m, 4) + ' \u2220' + fix(a, 2) + '\u00b0 \u00b7 Z = ' + zText(impedance(re, im, e.z0));
+    return e.display + ' \u00b7 ' + fmtFreq(F[k]) + ' \u00b7 \u0393 = ' + fix(m, 4) + ' \u2220' + fix(a, 2) + '\u00b0 \u00b7 Z = ' + zText(impedance(re, im, e.z0, e.x0));
   }
   function smithHover(q, k) {
     smithHot = [q, k];

@@ -5,6 +5,8 @@
  * @module
  */
 
+import type { NetworkData } from '../network/types.js';
+
 /** Escapes text for HTML or XML element content and attribute values. */
 export function escapeXml(s: string): string {
   return s.replace(/[&<>"']/g, (c) => (c === '&' ? '&amp;' : c === '<' ? '&lt;' : c === '>' ? '&gt;' : c === '"' ? '&quot;' : '&#39;'));
@@ -114,7 +116,63 @@ export function round(x: number, digits = 9): number | null {
   return x === 0 ? 0 : Number(x.toPrecision(digits));
 }
 
-/** `S21` for ports up to 9, `S(12,3)` beyond. */
-export function entryLabel(i: number, j: number, ports: number): string {
+/**
+ * The label of entry (i, j), 1-based: `S21` for ports up to 9, `S(12,3)` beyond. For mixed-mode data
+ * (`modes`, one label per row/column such as `D1` or `C2`, see modeLabels in
+ * src/network/mixed-mode.ts) the two mode letters come first, in lower case, then the pair numbers:
+ * entry (D2, C1) is `Sdc21` (the naming of Bockelman & Eisenstadt, 1995; `Sdc(12,3)` beyond pair 9).
+ */
+export function entryLabel(i: number, j: number, ports: number, modes?: readonly string[]): string {
+  if (modes) {
+    const a = modes[i - 1]!;
+    const b = modes[j - 1]!;
+    const ri = a.slice(1);
+    const rj = b.slice(1);
+    const kinds = `${a[0]!.toLowerCase()}${b[0]!.toLowerCase()}`;
+    return /^\d$/.test(ri) && /^\d$/.test(rj) ? `S${kinds}${ri}${rj}` : `S${kinds}(${ri},${rj})`;
+  }
   return ports <= 9 ? `S${i}${j}` : `S(${i},${j})`;
+}
+
+/**
+ * The mode labels of mixed-mode data (`modes` of MixedModeData, one per port: `D1` … `C1` …), or
+ * undefined for single-ended data or labels of another form.
+ */
+export function modesOf(net: object & { ports: number }): readonly string[] | undefined {
+  const modes = (net as { modes?: unknown }).modes;
+  if (!Array.isArray(modes) || modes.length !== net.ports) return undefined;
+  return modes.every((m) => typeof m === 'string' && /^[DCdc]\d+$/.test(m)) ? (modes as string[]) : undefined;
+}
+
+/** A reference impedance R + jX in words: `50 Ω`, `36 + j21 Ω`, `50 − j10 Ω` (six significant digits). */
+export function referenceText(r: number, x: number): string {
+  const rs = String(Number(r.toPrecision(6)));
+  if (x === 0) return `${rs} Ω`;
+  const xs = String(Number(Math.abs(x).toPrecision(6)));
+  return `${rs} ${x < 0 ? '−' : '+'} j${xs} Ω`;
+}
+
+/**
+ * How far below the largest value a dB axis reaches at most: 120 dB. Values below are numerical
+ * zeros (an |S| of 1e-20 is −400 dB) or far beneath anything of interest; ranging the axis down to
+ * them would squash the data that matters into a sliver. 120 dB covers the dynamic range of a good
+ * vector network analyser with room (common practice).
+ */
+export const DB_AXIS_SPAN = 120;
+
+/** The lowest value a dB axis shows, given the values on it: the largest finite one less {@link DB_AXIS_SPAN}. */
+export function dbAxisFloor(largest: number): number {
+  return largest - DB_AXIS_SPAN;
+}
+
+/** The reference of `port` (1-based) in words, R + jX when it is complex (see {@link referenceText}). */
+export function portReference(s: NetworkData, port: number): string {
+  return referenceText(s.references[port - 1]!, s.referenceReactances?.[port - 1] ?? 0);
+}
+
+/** The distinct port references of `s` in words, R + jX for complex ones: [`50 Ω`, `36 + j21 Ω`]. */
+export function referenceList(s: NetworkData): string[] {
+  const seen = new Set<string>();
+  for (let p = 1; p <= s.ports; p++) seen.add(portReference(s, p));
+  return [...seen];
 }

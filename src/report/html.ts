@@ -21,7 +21,7 @@ import type { SpecResult } from '../check/types.js';
 import type { Circuit } from '../elaborate/circuit.js';
 import type { NetworkData } from '../network/types.js';
 import { CLIENT_SCRIPT } from './client.js';
-import { delayUnit, escapeXml, fixed, frequencyUnit, round } from './format.js';
+import { DB_AXIS_SPAN, delayUnit, escapeXml, fixed, frequencyUnit, portReference, referenceList, round } from './format.js';
 import { buildModel, COLORS, entryDelay, entrySeries, PLOT_TITLES, summarizeSweep, type EntrySeries, type ReportModel, type SweepSummary } from './model.js';
 import { smithFragment } from './smith.js';
 import { REPORT_CSS } from './style.js';
@@ -84,7 +84,7 @@ const SMITH_FRAME = { cx: SMITH_SIZE / 2, cy: SMITH_SIZE / 2, radius: SMITH_SIZE
  */
 export function renderReport(input: ReportInput): string {
   const net = input.net;
-  if (net.frequencies.length === 0) throw new RangeError('renderReport: the network has no frequency points');
+  if (net.frequencies.length === 0) throw new RangeError('the network has no frequency points: there is nothing to report');
   const specs = input.specs ?? (input.circuit && input.circuit.specs.length > 0 ? evaluateSpecs(input.circuit.specs, net) : []);
   const model = buildModel(net, specs, input.entries);
   const s = model.s;
@@ -109,6 +109,7 @@ export function renderReport(input: ReportInput): string {
     xUnit,
     logX,
     gdUnit,
+    dbSpan: DB_AXIS_SPAN,
     colors: { ink: COLORS.ink, muted: COLORS.muted, grid: COLORS.grid, gridStrong: COLORS.gridStrong, limit: COLORS.limit, fail: COLORS.fail, accent: COLORS.accent },
     entries: model.entries.map((e, k) => ({
       label: e.label,
@@ -117,6 +118,7 @@ export function renderReport(input: ReportInput): string {
       j: e.j,
       color: e.color,
       z0: s.references[e.i - 1]!,
+      x0: s.referenceReactances?.[e.i - 1] ?? 0,
       re: Array.from(series[k]!.re, (x) => round(x, 12)),
       im: Array.from(series[k]!.im, (x) => round(x, 12)),
       db: Array.from(series[k]!.db, (x) => round(x, 9)),
@@ -191,7 +193,8 @@ export function renderReport(input: ReportInput): string {
   out.push(smithFigure(model, series));
   out.push('<div class="stack">');
   out.push(plotFigure('phase', 'Phase', 'degrees, wrapped to ±180°', 200));
-  out.push(plotFigure('gd', 'Group delay', `${gdUnit.unit}, −dφ/dω of the transmissions`, 200));
+  const gdOf = model.plots.gd.some((k) => model.entries[k]!.i !== model.entries[k]!.j) ? 'the transmissions' : 'the reflections';
+  out.push(plotFigure('gd', 'Group delay', `${gdUnit.unit}, −dφ/dω of ${gdOf}`, 200));
   out.push('</div>');
   out.push('</div>');
   out.push('</section>');
@@ -218,8 +221,9 @@ function portsCard(s: NetworkData, circuit: Circuit | undefined): string {
   for (let p = 1; p <= s.ports; p++) {
     const port = circuit?.ports.find((q) => q.number === p);
     const nodes = port ? `${escapeXml(port.plusName)} <span class="muted">/</span> ${escapeXml(port.minusName)}` : '<span class="muted">—</span>';
-    const z0 = Number(s.references[p - 1]!.toPrecision(6));
-    rows.push(`<tr data-testid="port-row" data-port="${p}" data-reference="${s.references[p - 1]}"><td>${p}</td><td>${nodes}</td><td class="num">${z0} Ω</td></tr>`);
+    const x = s.referenceReactances?.[p - 1] ?? 0;
+    const xAttr = x === 0 ? '' : ` data-reactance="${x}"`;
+    rows.push(`<tr data-testid="port-row" data-port="${p}" data-reference="${s.references[p - 1]}"${xAttr}><td>${p}</td><td>${nodes}</td><td class="num">${escapeXml(portReference(s, p))}</td></tr>`);
   }
   return `<div class="card" data-testid="ports"><h3>Ports</h3><table><thead><tr><th>port</th><th>nodes (+ / −)</th><th class="num">reference</th></tr></thead><tbody>${rows.join('')}</tbody></table></div>`;
 }
@@ -296,7 +300,8 @@ function smithFigure(model: ReportModel, series: EntrySeries[]): string {
   const toggles = traces
     .map((t) => `<button type="button" data-testid="smith-toggle" data-entry="${escapeXml(t.label)}" aria-pressed="true" style="--c:${t.color}"><i></i>${escapeXml(t.display)}</button>`)
     .join('');
-  const refs = [...new Set(Array.from(model.s.references))].map((r) => `${Number(r.toPrecision(6))} Ω`).join(', ');
+  const list = referenceList(model.s);
+  const refs = list.length === 1 ? list[0]! : Array.from(model.s.references, (_, p) => `${portReference(model.s, p + 1)} (port ${p + 1})`).join(', ');
   return (
     `<figure class="smith-card" data-plot="smith"><figcaption>Smith chart<span class="sub">reflections, normalised to ${escapeXml(refs)}</span></figcaption>${svg}` +
     `<div class="smith-controls">${toggles}<label><input type="checkbox" data-testid="toggle-admittance"> admittance grid</label></div>` +

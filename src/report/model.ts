@@ -12,26 +12,13 @@ import { groupDelay, magnitudeDb, phaseDeg } from '../figures/entry.js';
 import { parseFigure } from '../figures/registry.js';
 import { scattering } from '../figures/shared.js';
 import type { NetworkData } from '../network/types.js';
-import { entryLabel } from './format.js';
+import { entryLabel, modesOf } from './format.js';
+import { PALETTE } from './style.js';
 
 /** The rectangular plots. */
 export type PlotKind = 'db' | 'phase' | 'gd';
 
-/** Trace colours, in the order entries are assigned them (our own palette). */
-export const PALETTE = ['#1f5fa8', '#e07b22', '#2e8b57', '#7b4bb3', '#0f8c8c', '#b8860b', '#5b6b7b', '#a0522d'];
-/** Colours with a meaning of their own. */
-export const COLORS = {
-  ink: '#1b2330',
-  muted: '#5f6b7a',
-  grid: '#e3e7ec',
-  gridStrong: '#c9d0d8',
-  pass: '#1f7a4a',
-  fail: '#cf3a2f',
-  failShade: 'rgba(207, 58, 47, 0.13)',
-  limit: '#2b3340',
-  accent: '#0d6e74',
-  admittance: '#c08a2b',
-} as const;
+export { COLORS, PALETTE } from './style.js';
 
 /** One S entry (1-based ports) as drawn: label and colour. */
 export interface TraceEntry {
@@ -150,22 +137,25 @@ export function defaultEntries(ports: number): [number, number][] {
 /**
  * Builds the model. `entries` (1-based [to, from]) are the traces of the rectangular plots
  * (default {@link defaultEntries}); an entry a spec needs is added to its plot. Group delay shows
- * the transmissions only (the reflection of a one-port). The Smith chart shows every Sii.
+ * the transmissions only (the reflection of a one-port, or the reflections asked for when no
+ * transmission is). The Smith chart shows every Sii. Mixed-mode data (with `modes`) is labelled
+ * by mode, `Sdd11`, `Sdc21` ({@link entryLabel}).
  *
  * With the default entries, entries equal at every point (S21 and S12 of a reciprocal network,
  * S11 and S22 of a symmetric one; equal within 1e-9 relative) are drawn once, as `S21 = S12`,
  * rather than one hidden under the other.
  */
 export function buildModel(net: NetworkData, specs: readonly SpecResult[], entries?: readonly (readonly [number, number])[]): ReportModel {
-  const s = scattering(net, 'report');
+  const s = scattering(net);
   const n = s.ports;
+  const modes = modesOf(net);
   const list: TraceEntry[] = [];
   const index = new Map<string, number>();
   const add = (i: number, j: number): number => {
     if (!Number.isInteger(i) || !Number.isInteger(j) || i < 1 || j < 1 || i > n || j > n) {
-      throw new RangeError(`report: entry (${i}, ${j}) is out of range for a ${n}-port`);
+      throw new RangeError(`entry (${i}, ${j}) is out of range: the network has ${n} port${n === 1 ? '' : 's'}`);
     }
-    const label = entryLabel(i, j, n);
+    const label = entryLabel(i, j, n, modes);
     let k = index.get(label);
     if (k === undefined) {
       k = list.length;
@@ -184,7 +174,7 @@ export function buildModel(net: NetworkData, specs: readonly SpecResult[], entri
       if (twin) {
         const k = add(twin[0], twin[1]);
         const e = list[k]!;
-        const label = entryLabel(i, j, n);
+        const label = entryLabel(i, j, n, modes);
         e.display = `${e.display} = ${label}`;
         index.set(label, k);
         continue;
@@ -198,7 +188,8 @@ export function buildModel(net: NetworkData, specs: readonly SpecResult[], entri
     phase: [...chosen],
     gd: chosen.filter((k) => n === 1 || list[k]!.i !== list[k]!.j),
   };
-  if (plots.gd.length === 0) plots.gd = n === 1 ? [add(1, 1)] : [add(2, 1)];
+  // entries asked for that are all reflections: their own group delay, not another entry's
+  if (plots.gd.length === 0) plots.gd = entries && chosen.length > 0 ? [...chosen] : n === 1 ? [add(1, 1)] : [add(2, 1)];
   const smith: number[] = [];
   for (let i = 1; i <= n; i++) {
     const k = add(i, i);

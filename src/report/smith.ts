@@ -14,7 +14,7 @@
  */
 
 import { coord, escapeXml } from './format.js';
-import { COLORS } from './model.js';
+import { COLORS } from './style.js';
 
 /** A circle in the Γ plane. */
 export interface GammaCircle {
@@ -49,12 +49,16 @@ export function susceptanceCircle(b: number): GammaCircle {
   return { cx: -1, cy: -1 / b, r: 1 / Math.abs(b) };
 }
 
-/** Z = Z0·(1 + Γ)/(1 − Γ) in ohms as [R, X] (common practice); Γ = 1 gives [Infinity, NaN]. */
-export function gammaToImpedance(re: number, im: number, z0: number): [number, number] {
+/**
+ * Z = Z0·(1 + Γ)/(1 − Γ) in ohms as [R, X] (common practice); Γ = 1 gives [Infinity, NaN]. For a
+ * complex reference Z0 + jx0 (power waves, Kurokawa 1965) Z = (Zr* + Γ·Zr)/(1 − Γ), which is the
+ * same less j·x0.
+ */
+export function gammaToImpedance(re: number, im: number, z0: number, x0 = 0): [number, number] {
   const dr = 1 - re;
   const d = dr * dr + im * im;
   if (d === 0) return [Infinity, NaN];
-  return [(z0 * (1 - re * re - im * im)) / d, (z0 * 2 * im) / d];
+  return [(z0 * (1 - re * re - im * im)) / d, (z0 * 2 * im) / d - x0];
 }
 
 /** The grid values drawn: normalised resistances and (both signs of) reactances. */

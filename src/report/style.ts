@@ -1,11 +1,57 @@
 /**
- * The stylesheet of the HTML report (screen and print), as text to put inline. Our own look: an ink
- * header band, white cards on a pale stone page, a teal accent, green/red only for pass and fail.
+ * The look of the report and the static plots: the trace palette, the colours with a meaning of
+ * their own, and the stylesheet of the HTML report (screen and print), as text to put inline. Our
+ * own look: an ink header band, white cards on a pale stone page, a teal accent, green/red only for
+ * pass and fail.
  *
  * @module
  */
 
-import { COLORS } from './model.js';
+/**
+ * Trace colours, in the order entries are assigned them. Our own palette, found by a search over
+ * sRGB for the largest smallest CIEDE2000 difference between any two of its colours, and between
+ * each of them and the fail red, the limit ink, the accent and the white page, seen with normal
+ * vision and with simulated deuteranopia and protanopia (the colour-vision matrices of G. M.
+ * Machado, M. M. Oliveira and L. A. F. Fernandes, "A physiologically-based model for simulation of
+ * color vision deficiency", IEEE TVCG 15(6), 2009, severity 1, applied in linear RGB). The search
+ * also kept every colour visibly away (about 6 CIEDE2000 units or more) from the default colours of
+ * the widely used plotting libraries, and the order is ours: it does not open with the blue and
+ * orange pair those libraries share. Every colour has a lightness L* between 27 and 69 (readable as
+ * a line on white) and a chroma of at least 32 (no greys, which read as grid or limit lines). The
+ * first colours are the most different from one another, so that the two to four traces of a
+ * two-port (S11, S21, S12, S22) differ the most.
+ *
+ * - `#6c52f1` iris: a violet-blue, the first trace (usually S11).
+ * - `#2bbf77` mint: a light green, far from the iris in all three visions (light against middle,
+ *   green against violet; dichromats keep the blue–yellow axis that separates them).
+ * - `#841126` oxblood: a dark red, much darker than the fail red (L* 28 against 50), a difference
+ *   of lightness that no colour-vision deficiency removes.
+ * - `#159ca0` lagoon: a middle cyan-teal, lighter than the accent teal of the page.
+ * - `#ff6e1a` flame: a light warm orange.
+ * - `#208a68` pine: a middle green, darker than the mint.
+ * - `#1131ad` ultramarine: a dark blue, darker than the iris.
+ * - `#45a3fb` sky: a light blue, lighter than the iris.
+ *
+ * test/hardening-report-palette.test.ts checks that every pair (and every colour against the fail,
+ * limit, accent and page colours) stays at least 15 CIEDE2000 units apart in all three visions, with
+ * the CIEDE2000 formula verified on published test pairs of Sharma, Wu and Dalal (2005). Tritanopia,
+ * which is rare, is not covered: lagoon and pine come within about 8 units there.
+ */
+export const PALETTE: readonly string[] = ['#6c52f1', '#2bbf77', '#841126', '#159ca0', '#ff6e1a', '#208a68', '#1131ad', '#45a3fb'];
+
+/** Colours with a meaning of their own. */
+export const COLORS = {
+  ink: '#1b2330',
+  muted: '#5f6b7a',
+  grid: '#e3e7ec',
+  gridStrong: '#c9d0d8',
+  pass: '#1f7a4a',
+  fail: '#cf3a2f',
+  failShade: 'rgba(207, 58, 47, 0.13)',
+  limit: '#2b3340',
+  accent: '#0d6e74',
+  admittance: '#c08a2b',
+} as const;
 
 export const REPORT_CSS = `
 :root {

@@ -8,7 +8,8 @@
 
 import type { SpecResult } from '../check/types.js';
 import type { NetworkData } from '../network/types.js';
-import { coord, delayUnit, escapeXml, fixed, frequencyUnit, ticks, type DisplayUnit } from './format.js';
+import { OutputError } from '../io/output.js';
+import { coord, dbAxisFloor, delayUnit, entryLabel, escapeXml, fixed, frequencyUnit, modesOf, portReference, referenceList, ticks, type DisplayUnit } from './format.js';
 import { buildModel, COLORS, entryDelay, entrySeries, type PlotKind, type ReportModel } from './model.js';
 import { smithFragment } from './smith.js';
 
@@ -52,11 +53,39 @@ interface Series {
 export function renderPlotSvg(net: NetworkData, options: PlotSvgOptions): string {
   const specs = options.specs ?? [];
   const kind = options.kind;
-  const model = buildModel(net, specs, options.entries && kind !== 'smith' ? options.entries : undefined);
+  if (kind !== 'db' && kind !== 'phase' && kind !== 'gd' && kind !== 'smith') {
+    throw new OutputError(`unknown plot kind ${JSON.stringify(kind)}`, 'the kinds are db, phase, gd and smith');
+  }
+  if (net.frequencies.length === 0) throw new OutputError('the network has no frequency points: there is nothing to plot');
+  if (kind === 'smith' && options.entries) {
+    const model = buildModel(net, []);
+    const n = model.s.ports;
+    const modes = modesOf(net);
+    for (const [i, j] of options.entries) {
+      if (!Number.isInteger(i) || !Number.isInteger(j) || i < 1 || j < 1 || i > n || j > n) {
+        throw new OutputError(`entry (${i}, ${j}) is out of range: the network has ${n} port${n === 1 ? '' : 's'}`);
+      }
+      if (i === j) continue;
+      const label = entryLabel(i, j, n, modes);
+      const reflections = Array.from({ length: Math.min(n, 3) }, (_, q) => entryLabel(q + 1, q + 1, n, modes)).join(', ');
+      throw new OutputError(
+        `a Smith chart shows reflections, and ${label} is a transmission`,
+        `ask for reflections (${reflections}${n > 3 ? ', …' : ''}), or plot ${label} as db, phase or gd`,
+      );
+    }
+  }
+  // entries asked for are drawn one by one (no merging of equal entries), so each is found by its ports
+  const model = buildModel(net, specs, options.entries);
   const id = options.idPrefix ?? `sbx-${kind}`;
   if (kind === 'smith') return smithSvg(model, options, id);
-  if (kind !== 'db' && kind !== 'phase' && kind !== 'gd') throw new RangeError(`renderPlotSvg: unknown kind ${JSON.stringify(kind)}`);
   return rectSvg(model, kind, options, id);
+}
+
+/** Why a series has nothing to draw, in words. */
+function emptyReason(kind: PlotKind, points: number): string {
+  if (kind === 'gd' && points < 2) return 'group delay needs at least two sweep points';
+  if (kind === 'db') return 'exactly 0 at every point (−∞ dB)';
+  return 'no finite value at any point';
 }
 
 function rectSvg(model: ReportModel, kind: PlotKind, options: PlotSvgOptions, id: string): string {
@@ -64,7 +93,6 @@ function rectSvg(model: ReportModel, kind: PlotKind, options: PlotSvgOptions, id
   const height = options.height ?? 420;
   const f = model.s.frequencies;
   const m = f.length;
-  if (m === 0) throw new RangeError('renderPlotSvg: the network has no frequency points');
 
   // series in display units
   const series: Series[] = [];
@@ -88,11 +116,21 @@ function rectSvg(model: ReportModel, kind: PlotKind, options: PlotSvgOptions, id
     series.push({ label: r.label, display: r.display, color: r.color, y });
   }
 
-  // y range: data and limits
+  // a series with nothing to draw is named in the plot; a plot with nothing at all is an error
+  const empty = series.filter((s) => !s.y.some((v) => Number.isFinite(v)));
+  if (series.length > 0 && empty.length === series.length) {
+    const names = series.map((s) => s.display).join(', ');
+    throw new OutputError(`nothing to plot: ${names} ${series.length === 1 ? 'has' : 'have'} no value to draw (${emptyReason(kind, m)})`);
+  }
+
+  // y range: data and limits; a dB axis reaches at most DB_AXIS_SPAN below the largest value shown,
+  // so that numerical zeros (|S| = 1e-20 is −400 dB) do not squash the data that matters
   let lo = Infinity;
   let hi = -Infinity;
   for (const s of series) for (const v of s.y) if (Number.isFinite(v)) (lo = Math.min(lo, v)), (hi = Math.max(hi, v));
-  for (const l of limits) for (const [, v] of l.points) (lo = Math.min(lo, v / yUnit.scale)), (hi = Math.max(hi, v / yUnit.scale));
+  for (const l of limits) for (const [, v] of l.points) hi = Math.max(hi, v / yUnit.scale);
+  if (kind === 'db' && Number.isFinite(hi)) lo = Math.max(lo, dbAxisFloor(hi));
+  for (const l of limits) for (const [, v] of l.points) lo = Math.min(lo, v / yUnit.scale);
   const yt = kind === 'phase' ? { min: -180, max: 180, step: 90, values: [-180, -90, 0, 90, 180], decimals: 0 } : ticks(lo, hi, 6, true);
   const xUnit = frequencyUnit(f[m - 1]!);
   const xt = ticks(f[0]! / xUnit.scale, f[m - 1]! / xUnit.scale, 8, false);
@@ -111,7 +149,7 @@ function rectSvg(model: ReportModel, kind: PlotKind, options: PlotSvgOptions, id
   const bottom = 48;
   const pw = width - left - right;
   const ph = height - top - bottom;
-  if (pw < 40 || ph < 40) throw new RangeError('renderPlotSvg: width and height leave no room for the plot');
+  if (pw < 40 || ph < 40) throw new OutputError(`a plot of ${width} × ${height} pixels leaves no room for the axes and the data`, 'make it larger (at least about 200 × 200)');
   const X = (hz: number) => left + ((hz / xUnit.scale - xt.min) / (xt.max - xt.min || 1)) * pw;
   const Y = (v: number) => top + (1 - (v - yt.min) / (yt.max - yt.min || 1)) * ph;
 
@@ -163,9 +201,10 @@ function rectSvg(model: ReportModel, kind: PlotKind, options: PlotSvgOptions, id
       body.push(`<rect x="${coord(x0 - (X(b) - x0 < 2 ? 1 : 0))}" y="${top}" width="${coord(w)}" height="${ph}" fill="${COLORS.failShade}" data-fail="${escapeXml(fl.spec)}"/>`);
     }
   }
-  // data
+  // data; a sweep of one point is a dot (a path of one point draws nothing)
   for (const s of series) {
     body.push(`<path d="${linePath(f, s.y, X, Y, pw, kind === 'phase')}" fill="none" stroke="${s.color}" stroke-width="1.7" stroke-linejoin="round" data-entry="${escapeXml(s.label)}"/>`);
+    if (m === 1 && Number.isFinite(s.y[0]!)) body.push(`<circle cx="${coord(X(f[0]!))}" cy="${coord(Y(s.y[0]!))}" r="3.5" fill="${s.color}" data-point="${escapeXml(s.label)}"/>`);
   }
   // limits on top
   for (const l of limits) {
@@ -217,6 +256,10 @@ function rectSvg(model: ReportModel, kind: PlotKind, options: PlotSvgOptions, id
     if (spot) names.push(`<text x="${coord(spot[0])}" y="${coord(spot[1])}" fill="${l.pass ? COLORS.limit : COLORS.fail}">${escapeXml(l.spec)}</text>`);
   }
   if (names.length > 0) out.push(`<g font-size="10" data-part="limit-names">${names.join('')}</g>`);
+  if (empty.length > 0) {
+    const notes = empty.map((s, q) => `<text x="${left + 8}" y="${coord(top + 16 + 14 * q)}" data-empty="${escapeXml(s.label)}">${escapeXml(`${s.display}: not drawn, ${emptyReason(kind, m)}`)}</text>`);
+    out.push(`<g font-size="11" fill="${COLORS.muted}" data-part="notes">${notes.join('')}</g>`);
+  }
   out.push('</svg>');
   return out.join('\n') + '\n';
 }
@@ -300,7 +343,7 @@ function smithSvg(model: ReportModel, options: PlotSvgOptions, id: string): stri
   const legendW = 130;
   const pad = 30;
   const diameter = Math.min(width - legendW - 2 * pad, height - titleH - 2 * pad);
-  if (diameter < 60) throw new RangeError('renderPlotSvg: width and height leave no room for the Smith chart');
+  if (diameter < 60) throw new OutputError(`a Smith chart of ${width} × ${height} pixels leaves no room for the chart`, 'make it larger (at least about 250 × 150)');
   const frame = { cx: pad + diameter / 2, cy: titleH + pad + diameter / 2, radius: diameter / 2 };
   let picks = model.smith;
   if (options.entries) {
@@ -337,8 +380,12 @@ function smithSvg(model: ReportModel, options: PlotSvgOptions, id: string): stri
     leg.push(`<text x="${lx}" y="${ly}" fill="${COLORS.muted}">${lo}–${hi} ${u.unit}</text>`);
     ly += 16;
   }
-  const refs = [...new Set(Array.from(model.s.references))];
-  leg.push(`<text x="${lx}" y="${ly}" fill="${COLORS.muted}">Z0 = ${refs.map((r) => Number(r.toPrecision(6))).join(', ')} Ω</text>`);
+  // one reference a line (R + jX for a complex one), so that a long list stays inside the legend
+  const refs = referenceList(model.s);
+  const refLines = refs.length === 1 ? [`Z0 = ${refs[0]!}`] : Array.from(model.s.references, (_, p) => `port ${p + 1}: ${portReference(model.s, p + 1)}`);
+  refLines.forEach((line, q) => {
+    leg.push(`<text x="${lx}" y="${ly + 16 * q}" fill="${COLORS.muted}" data-part="reference">${escapeXml(line)}</text>`);
+  });
   out.push(`<g font-size="11.5" fill="${COLORS.ink}" data-part="legend">${leg.join('')}</g>`);
   out.push('</svg>');
   return out.join('\n') + '\n';
