@@ -13,7 +13,7 @@ import { evaluateSpecs } from '../src/check/evaluate.js';
 import { comparisonSuite, errorSuite, formatJunit, specSuite, type JunitSuite } from '../src/check/junit.js';
 import { checkErrorJson, checkReportJson, formatComparisonTable, formatSpecTable } from '../src/check/report.js';
 import { writeFileAtomicSync } from '../src/io/atomic.js';
-import { checkBatchNames, checkOutputs, ensureFolder } from '../src/io/guard.js';
+import { checkBatchNames, checkDistinctOutputs, checkOutputs, ensureFolder } from '../src/io/guard.js';
 import { expandInputs, InputsError } from '../src/io/inputs.js';
 import { loadNetworkFile } from '../src/io/read.js';
 import { touchstoneExtension } from '../src/io/touchstone.js';
@@ -837,6 +837,11 @@ function referenceList(text: string): number[] {
  * run's inputs, and never over an existing file that is not such a report (or not a regular file).
  */
 function writeErrorReports(a: CheckArgs, text: string, io: Io) {
+  try {
+    checkDistinctOutputs([a.junit, a.json]); // two reports onto one file: neither is written
+  } catch {
+    return;
+  }
   const inputs = [a.netlist, a.against].filter((p): p is string => p !== undefined).map((p) => resolve(p));
   const reports: [string | undefined, () => string, RegExp][] = [
     [a.junit, () => formatJunit([errorSuite(a.netlist, text)]), /^<\?xml[^>]*>\s*<testsuites name="scatterbox"/],

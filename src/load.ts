@@ -89,7 +89,7 @@ export function loadNetlist(text: string, file: string, options: LoadOptions = {
       }
       const first = named.get(m[1]!);
       if (first !== undefined) {
-        bag.error('duplicate-override', `\`--set ${m[1]}\` is given twice (first as --set number ${first + 1})`, { ...span, column: line.indexOf(m[1]!) + 1, length: m[1]!.length }, 'give each parameter once');
+        bag.error('duplicate-override', `\`${m[1]}\` is given twice with --set (first as --set number ${first + 1})`, { ...span, column: line.indexOf(m[1]!) + 1, length: m[1]!.length }, 'give each parameter once');
         return;
       }
       named.set(m[1]!, i);
