@@ -14,7 +14,8 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { loadNetlist } from '../src/load.js';
-import { solveSweep } from '../src/solve/sweep.js';
+import { NonFiniteResultError, SingularSystemError, solveSweep } from '../src/solve/sweep.js';
+import { buildPlan } from '../src/plan/plan.js';
 
 const C0 = 299_792_458;
 const DB_PER_NP = 20 / Math.LN10;
@@ -124,6 +125,70 @@ describe('very lossy stubs stay finite and follow their closed forms', () => {
       const g = div(zr - 50, zi, zr + 50, zi);
       const net = solve(`${kind} s a=in z0=30 ohm length=1 m alpha_c=3 dB/m at 1 GHz\nport 1 plus=in\nsweep list freqs=1 GHz\n`);
       expect(relErr(net.values[0]!, net.values[1]!, g[0], g[1])).toBeLessThan(1e-10);
+    }
+  });
+});
+
+describe('no NaN or Infinity in a result', () => {
+  it('ref=1e300 ohm gives S11 = (50 − 1e300)/(50 + 1e300) = −1, not NaN (reflection coefficient, common practice)', () => {
+    const net = solve('resistor r a=in b=ground value=50 ohm\nport 1 plus=in ref=1e300 ohm\nsweep list freqs=1 GHz\n');
+    expect(net.values[0]).toBe(-1);
+    expect(net.values[1]).toBe(0);
+  });
+
+  it('ref=1e-300 ohm on a 50 ohm load: S11 = +1 to 1e-15 or a located refusal, never NaN', () => {
+    try {
+      const net = solve('resistor r a=in b=ground value=50 ohm\nport 1 plus=in ref=1e-300 ohm\nsweep list freqs=1 GHz\n');
+      expect(net.values[0]).toBeCloseTo(1, 15); // (50 − 1e-300)/(50 + 1e-300) (reflection coefficient, common practice)
+    } catch (e) {
+      expect(e).toBeInstanceOf(SingularSystemError);
+      expect((e as SingularSystemError).frequency).toBe(1e9);
+    }
+  });
+
+  it('an element whose admittance overflows is a located error naming it and the frequency', () => {
+    let caught: unknown;
+    try {
+      solve('resistor r a=in b=ground value=50 ohm\ncapacitor huge a=in b=ground value=1e300 F\nport 1 plus=in\nsweep list freqs=1 GHz\n');
+    } catch (e) {
+      caught = e;
+    }
+    expect(caught).toBeInstanceOf(NonFiniteResultError);
+    const e = caught as NonFiniteResultError;
+    expect(e.frequency).toBe(1e9);
+    expect(e.culprits).toEqual(['huge']);
+    expect(e.message).toMatch(/at 1 GHz: element `huge` \(numerics\.sbx:2\) gives values out of floating-point range/);
+  });
+
+  it('a result that overflows after a regular factorisation is an error at its frequency, never written', () => {
+    // A chain of two transconductances: the solution is the product of the two gains. A stamper
+    // added to the plan raises both gains to 1e200 at the second frequency only: the pivots stay
+    // as they are (the gains sit off the diagonal, below it), the output voltage is 1e400.
+    const circuit = loadNetlist(
+      'resistor r1 a=in b=ground value=50 ohm\nresistor r2 a=out b=ground value=50 ohm\nresistor r3 a=o2 b=ground value=50 ohm\ntransconductance g1 p=out n=ground cp=in cn=ground gm=1 S\ntransconductance g2 p=o2 n=ground cp=out cn=ground gm=1 S\nport 1 plus=in\nport 2 plus=o2\nsweep list freqs=1 GHz, 2 GHz, 3 GHz\n',
+      'numerics.sbx',
+    ).circuit;
+    const base = buildPlan(circuit);
+    const slots: number[] = [];
+    for (let s = 0; s < base.slotRow.length; s++) if (base.slotRow[s] !== base.slotCol[s]) slots.push(s);
+    const stampers = [
+      ...base.stampers,
+      (omega: number, v: Float64Array) => {
+        if (omega !== 2 * Math.PI * 2e9) return;
+        for (const s of slots) v[2 * s] *= 1e200;
+      },
+    ];
+    for (const solver of ['dense', 'sparse'] as const) {
+      const plan = { ...base, stampers, stamperNames: [...base.stamperNames, 'probe'], symmetric: false };
+      let caught: unknown;
+      try {
+        solveSweep(circuit, { plan, solver });
+      } catch (e) {
+        caught = e;
+      }
+      expect(caught).toBeInstanceOf(SingularSystemError); // NonFiniteResultError, or singular to working precision
+      expect((caught as SingularSystemError).frequency).toBe(2e9);
+      expect((caught as Error).message).toMatch(/at 2 GHz/);
     }
   });
 });

@@ -29,6 +29,8 @@ export interface StampPlan {
    * set to {@link StampPlan.baseValues} and the batch is stamped (see {@link stampAt}).
    */
   stampers: Stamper[];
+  /** The element name of each stamper in {@link StampPlan.stampers} (for messages). */
+  stamperNames: string[];
   /** The kernel-batched admittances that vary with frequency (resistors, capacitors, inductors…). */
   batch: AdmittanceBatch | undefined;
   /** The frequency-independent part of the slot values (resistors, port terminations). */
@@ -185,6 +187,7 @@ export function buildPlan(circuit: Circuit, options: PlanOptions = {}): StampPla
   };
 
   const stampers: Stamper[] = [];
+  const stamperNames: string[] = [];
   for (const el of circuit.elements) {
     const type = ELEMENTS.get(el.type)!;
     // the element with its nodes as unknowns (written out: faster than a spread for many elements)
@@ -192,7 +195,10 @@ export function buildPlan(circuit: Circuit, options: PlanOptions = {}): StampPla
     for (let t = 0; t < nodes.length; t++) nodes[t] = toUnknown(el.nodes[t]!);
     const mapped: ElementInstance = { type: el.type, name: el.name, nodes, nodeNames: el.nodeNames, props: el.props, at: el.at, span: el.span, text: el.text, data: el.data };
     const st = type.compile(mapped, builder);
-    if (st) stampers.push(st);
+    if (st) {
+      stampers.push(st);
+      stamperNames.push(el.name);
+    }
   }
   const portPlus = new Int32Array(circuit.ports.length);
   const portMinus = new Int32Array(circuit.ports.length);
@@ -205,10 +211,22 @@ export function buildPlan(circuit: Circuit, options: PlanOptions = {}): StampPla
     portReference[k] = p.reference;
     portReactance[k] = p.reactance ?? 0;
     const s = admittanceSlots(builder, portPlus[k]!, portMinus[k]!);
-    // termination 1/Zref, Zref = R + jX
-    const d = p.reference * p.reference + portReactance[k]! * portReactance[k]!;
-    const gr = p.reference / d;
-    const gi = -portReactance[k]! / d;
+    // termination 1/Zref, Zref = R + jX (Smith's division: R² + X² would overflow from about 1e154 ohm)
+    const r = p.reference;
+    const x = portReactance[k]!;
+    let gr: number;
+    let gi: number;
+    if (Math.abs(r) >= Math.abs(x)) {
+      const t = x / r;
+      const den = r + x * t;
+      gr = 1 / den;
+      gi = -t / den;
+    } else {
+      const t = r / x;
+      const den = r * t + x;
+      gr = t / den;
+      gi = -1 / den;
+    }
     terminations.push({ s, gr, gi });
   });
   // Every unknown gets its diagonal slot, so that the pattern is structurally square.
@@ -228,6 +246,7 @@ export function buildPlan(circuit: Circuit, options: PlanOptions = {}): StampPla
     slotRow: Int32Array.from(rows),
     slotCol: Int32Array.from(cols),
     stampers,
+    stamperNames,
     batch,
     baseValues,
     portPlus,

@@ -73,6 +73,21 @@ export class SingularSystemError extends Error {
   }
 }
 
+/**
+ * A result at some frequency is not a finite number (an overflow the checks before the solve did
+ * not catch): raised instead of writing NaN or Infinity. `culprits` names the elements or unknowns
+ * whose values went out of range, where they could be found.
+ */
+export class NonFiniteResultError extends SingularSystemError {
+  constructor(message: string, frequency: number, culprits: string[], help?: string) {
+    super(message, frequency, culprits, help);
+    this.name = 'NonFiniteResultError';
+  }
+}
+
+/** The status {@link runPoints} leaves in `failStatus` for a point whose S values are not all finite. */
+const NON_FINITE = -3;
+
 /** Which linear solver the sweep uses. */
 export type SolverChoice = 'auto' | 'dense' | 'sparse';
 
@@ -522,11 +537,14 @@ export class SweepRunner {
     for (let i = 0; i < p; i++) {
       const r = plan.portReference[i]!;
       const x = plan.portReactance[i]!;
-      const m = r * r + x * x;
-      kr[i] = (sqrtRef[i]! * r) / m;
-      ki[i] = (-sqrtRef[i]! * x) / m;
-      dr[i] = (r * r - x * x) / m;
-      di[i] = (-2 * r * x) / m;
+      // with t = X/R (scaled so that nothing overflows for large references):
+      // √R/Zref = (1 − jt)/(√R·(1 + t²)), Zref*/Zref = (1 − t² − 2jt)/(1 + t²)
+      const t = x / r;
+      const q = 1 + t * t;
+      kr[i] = 1 / (sqrtRef[i]! * q);
+      ki[i] = -t / (sqrtRef[i]! * q);
+      dr[i] = (1 - t * t) / q;
+      di[i] = (-2 * t) / q;
     }
     const out = into ?? new Float64Array(2 * p * p * freqs.length);
     if (out.length < 2 * p * p * freqs.length) throw new RangeError('sweep: the output array is too short for the sweep');
@@ -586,6 +604,7 @@ export class SweepRunner {
   /** Solves the points k0 ≤ k < k1; throws {@link SingularSystemError} where the system is singular. */
   run(k0: number, k1: number): void {
     const failed = runPoints(this.loop, k0, k1);
+    if (failed >= 0 && this.loop.failStatus === NON_FINITE) throw explainNonFinite(this.circuit, this.plan, this.frequencies[failed]!, this.loop.vals, true);
     if (failed >= 0) throw explainSingular(this.circuit, this.plan, this.frequencies[failed]!, this.loop.failStatus >= 0 ? this.loop.failStatus : -1, this.engine);
   }
 
@@ -653,9 +672,15 @@ function runPoints(L: PointLoop, k0: number, k1: number): number {
   let k = k0;
   while (k < k1) {
     if (k + 1 < k1 && engine.stampFactorTwo(freqs, k, vals)) {
-      finishPoint(L, k);
+      if (finishPoint(L, k) !== 0) {
+        L.failStatus = NON_FINITE;
+        return k;
+      }
       engine.second();
-      finishPoint(L, k + 1);
+      if (finishPoint(L, k + 1) !== 0) {
+        L.failStatus = NON_FINITE;
+        return k + 1;
+      }
       if (L.onProgress) {
         L.onProgress(k + 1, total);
         L.onProgress(k + 2, total);
@@ -668,15 +693,22 @@ function runPoints(L: PointLoop, k0: number, k1: number): number {
       L.failStatus = status;
       return k;
     }
-    finishPoint(L, k);
+    if (finishPoint(L, k) !== 0) {
+      L.failStatus = NON_FINITE;
+      return k;
+    }
     if (L.onProgress) L.onProgress(k + 1, total);
     k++;
   }
   return -1;
 }
 
-/** For point k, factored: notes its condition estimate, solves for the port voltages, writes S. */
-function finishPoint(L: PointLoop, k: number): void {
+/**
+ * For point k, factored: notes its condition estimate, solves for the port voltages, writes S.
+ * Returns 0 when every S value written is finite, else NaN (the sum of x − x over the values: one
+ * subtraction and addition a value, no branch).
+ */
+function finishPoint(L: PointLoop, k: number): number {
   const { engine, rhs, x, v, out, p, invSqrtRef, complexRefs, kr, ki, dr, di } = L;
   if (engine.lastRcond < L.worstRcond) {
     L.worstRcond = engine.lastRcond;
@@ -684,6 +716,7 @@ function finishPoint(L: PointLoop, k: number): void {
   }
   engine.portVoltages(rhs, x, v);
   const base = 2 * p * p * k;
+  let finite = 0;
   for (let i = 0; i < p; i++) {
     const inv = invSqrtRef[i]!;
     for (let j = 0; j < p; j++) {
@@ -691,15 +724,21 @@ function finishPoint(L: PointLoop, k: number): void {
       const vr = v[q]!;
       const vi = v[q + 1]!;
       const o = base + q;
+      let sr: number;
+      let si: number;
       if (complexRefs) {
-        out[o] = vr * kr[i]! - vi * ki[i]! - (i === j ? dr[i]! : 0);
-        out[o + 1] = vr * ki[i]! + vi * kr[i]! - (i === j ? di[i]! : 0);
+        sr = vr * kr[i]! - vi * ki[i]! - (i === j ? dr[i]! : 0);
+        si = vr * ki[i]! + vi * kr[i]! - (i === j ? di[i]! : 0);
       } else {
-        out[o] = vr * inv - (i === j ? 1 : 0);
-        out[o + 1] = vi * inv;
+        sr = vr * inv - (i === j ? 1 : 0);
+        si = vi * inv;
       }
+      out[o] = sr;
+      out[o + 1] = si;
+      finite += sr - sr + (si - si);
     }
   }
+  return finite;
 }
 
 /** Elements with data over a limited band (measured files) must cover every frequency asked for. */
@@ -726,6 +765,9 @@ function checkRanges(circuit: Circuit, freqs: Float64Array): void {
  */
 function explainSingular(circuit: Circuit, plan: StampPlan, f: number, pivot: number, engine: LinearEngine): SingularSystemError {
   const omega = 2 * Math.PI * f;
+  // a value out of floating-point range in the matrix makes the elimination fail: say so first
+  const bad = explainNonFinite(circuit, plan, f, new Float64Array(2 * plan.slotRow.length), false);
+  if (bad) return bad;
   const sets = new NodeSets(circuit.nodeNames.length);
   for (const r of circuit.localReferences) sets.join(r, GROUND);
   const opened: string[] = [];
@@ -766,10 +808,88 @@ function explainSingular(circuit: Circuit, plan: StampPlan, f: number, pivot: nu
   const culprits = blamed.map((i) => plan.unknownNames[i]!);
   const labels = blamed.map((i) => (plan.unknownNode[i]! >= 0 ? `node \`${plan.unknownNames[i]}\`` : plan.unknownNames[i]!));
   const shown = labels.slice(0, 8).join(', ') + (labels.length > 8 ? ` and ${labels.length - 8} more` : '');
+  // entries of extreme size make a system singular to working precision without any resonance
+  const vals = new Float64Array(2 * plan.slotRow.length);
+  stampAt(plan, omega, vals);
+  let big = 0;
+  for (let s = 0; s < plan.slotRow.length; s++) big = Math.max(big, Math.hypot(vals[2 * s]!, vals[2 * s + 1]!));
+  const extreme = big > 1e100;
   return new SingularSystemError(
-    `the circuit cannot be solved at ${at}: the nodal system is singular; ${shown} ${culprits.length === 1 ? 'is' : 'are'} not determined`,
+    `the circuit cannot be solved at ${at}: the nodal system is singular${culprits.length > 0 ? `; ${shown} ${culprits.length === 1 ? 'is' : 'are'} not determined` : ' to working precision'}`,
     f,
     culprits,
-    'look for a resonance with no loss that isolates part of the circuit at this frequency',
+    extreme
+      ? `its largest entry is ${big.toExponential(1)} (an element value or gain of extreme size); values this far apart leave floating-point range`
+      : 'look for a resonance with no loss that isolates part of the circuit at this frequency',
+  );
+}
+
+/**
+ * Names what gave values out of floating-point range at `f` (Hz): an element whose stamp is not
+ * finite, else the unknowns whose matrix entries are not. `always`: a result was not finite, so an
+ * error is returned even where every matrix entry is finite (then the solve overflowed); otherwise
+ * undefined in that case. `vals` is scratch of the plan's slot values' size.
+ */
+function explainNonFinite(circuit: Circuit, plan: StampPlan, f: number, vals: Float64Array, always: true): NonFiniteResultError;
+function explainNonFinite(circuit: Circuit, plan: StampPlan, f: number, vals: Float64Array, always: boolean): NonFiniteResultError | undefined;
+function explainNonFinite(circuit: Circuit, plan: StampPlan, f: number, vals: Float64Array, always: boolean): NonFiniteResultError | undefined {
+  const omega = 2 * Math.PI * f;
+  const at = formatFrequency(f);
+  const finite = (v: Float64Array) => v.every(Number.isFinite);
+  const help = 'look for an element value, length, loss or reference impedance so extreme that the numbers leave floating-point range';
+  // each per-element stamper alone
+  const one = new Float64Array(vals.length);
+  const names: string[] = [];
+  for (let e = 0; e < plan.stampers.length; e++) {
+    one.fill(0);
+    plan.stampers[e]!(omega, one);
+    if (!finite(one)) names.push(plan.stamperNames[e]!);
+  }
+  const where = (name: string) => {
+    const el = circuit.elements.find((x) => x.name === name);
+    return el && el.span.file ? ` (${el.span.file}:${el.span.line})` : '';
+  };
+  if (names.length === 0) {
+    // the batched and constant part: name the rows of the entries out of range
+    vals.set(plan.baseValues);
+    const w = Float64Array.of(omega);
+    plan.batch?.stamp(w, vals);
+    const rows = new Set<number>();
+    for (let s = 0; s < plan.slotRow.length; s++) if (!Number.isFinite(vals[2 * s]!) || !Number.isFinite(vals[2 * s + 1]!)) rows.add(plan.slotRow[s]!);
+    // the batched elements on those rows, each in a plan of its own (few: only those rows' elements)
+    const badNodes = new Set<number>();
+    for (const r of rows) if (plan.unknownNode[r]! >= 0) badNodes.add(plan.unknownNode[r]!);
+    for (const el of circuit.elements) {
+      if (names.length >= 9 || !el.nodes.some((nd) => badNodes.has(nd))) continue;
+      const alone = buildPlan({ ...circuit, elements: [el], ports: [] }, { lowestFrequency: plan.lowestFrequency });
+      const v = new Float64Array(2 * alone.slotRow.length);
+      stampAt(alone, omega, v);
+      if (!finite(v)) names.push(el.name);
+    }
+    if (names.length === 0) {
+      for (const r of rows) names.push(plan.unknownNode[r]! >= 0 ? `node \`${plan.unknownNames[r]}\`` : plan.unknownNames[r]!);
+      if (names.length > 0) {
+        const shown = names.slice(0, 8).join(', ') + (names.length > 8 ? ` and ${names.length - 8} more` : '');
+        return new NonFiniteResultError(`the circuit cannot be solved at ${at}: the matrix entries at ${shown} are out of floating-point range`, f, [...rows].map((r) => plan.unknownNames[r]!), help);
+      }
+    }
+  }
+  if (names.length === 0) {
+    if (!always) return undefined;
+    const refs = Array.from(plan.portReference);
+    const extreme = refs.some((r) => r > 1e100 || r < 1e-100);
+    return new NonFiniteResultError(
+      `the S-parameters at ${at} are out of floating-point range (not a finite number); no element's values are, so the solve overflowed`,
+      f,
+      [],
+      extreme ? 'a port reference impedance is extreme (above 1e100 or below 1e-100 ohm); give references of a practical size' : help,
+    );
+  }
+  const shown = names.slice(0, 8).map((n) => `\`${n}\`${where(n)}`).join(', ') + (names.length > 8 ? ` and ${names.length - 8} more` : '');
+  return new NonFiniteResultError(
+    `the circuit cannot be solved at ${at}: ${names.length === 1 ? 'element' : 'elements'} ${shown} ${names.length === 1 ? 'gives' : 'give'} values out of floating-point range`,
+    f,
+    names,
+    help,
   );
 }
