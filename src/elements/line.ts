@@ -29,9 +29,9 @@ import type { ElementInstance, ElementType, PropertySpec, StampBuilder } from '.
  * and KCL +I1 at a, −I1 at a_ret, +I2 at b, −I2 at b_ret. |E| ≤ 1, so every coefficient is of
  * order one; for a large loss E underflows to 0 and each end becomes Z0 to its return. (These rows
  * are the chain-form rows r1: V1 − A·V2 + B·I2 = 0 and r2: Z0·I1 − Z0·C·V2 + D·Z0·I2 = 0 combined as
- * r1 − r2 and −E·(r1 + r2); solving them for I gives Y11 = coth(γℓ)/Z0, Y12 = −csch(γℓ)/Z0.) The two branch unknowns are the currents scaled by Z0
- * (u = Z0·I, in volts), so that every coefficient is of order one or 1/Z0, like the nodal entries
- * around it.
+ * r1 − r2 and −E·(r1 + r2); solving them for I gives Y11 = coth(γℓ)/Z0, Y12 = −csch(γℓ)/Z0.) The two branch unknowns are the currents scaled by the power of
+ * two zs nearest to Z0 (u = zs·I, in volts; {@link currentScale}), so that every coefficient is of
+ * order one or 1/Z0, like the nodal entries around it, and 1/zs and Z0/zs are exact.
  *
  * With a_ret and b_ret the section is a four-terminal one carrying the differential mode only (the
  * current into a leaves at a_ret): it gives no path from its conductors to ground.
@@ -223,6 +223,17 @@ export function addChainStamp(v: Float64Array, s: Int32Array, m: Float64Array, o
 
 const TWO_PI = 2 * Math.PI;
 
+/**
+ * The power of two nearest to z (ohms), for scaling branch currents: 1/zs and z0/zs are then exact,
+ * so that the stamped section has exactly the characteristic impedance given (a rounded 1/Z0 would
+ * mismatch a section by about 1e-16, which shows in a reflection of 1e-8 at its eighth digit).
+ */
+export function currentScale(z: number): number {
+  const e = Math.round(Math.log2(z));
+  const s = Math.pow(2, e);
+  return Number.isFinite(s) && s > 0 ? s : z;
+}
+
 // ------------------------------------------------------------------------------------------------
 // the element
 
@@ -262,10 +273,11 @@ export const line: ElementType = {
     const [a, bb, aRet, bRet] = el.nodes as [number, number, number, number];
     const s = chainSlots(b, a, aRet, bb, bRet, el.name);
     const z0 = section.z0;
+    const zs = currentScale(z0);
     const gl = new Float64Array(2);
     return (omega, v) => {
       lineGammaLength(section, omega / TWO_PI, gl, 0);
-      addWaveStamp(v, s, z0, gl[0]!, gl[1]!, z0);
+      addWaveStamp(v, s, z0, gl[0]!, gl[1]!, zs);
     };
   },
 };

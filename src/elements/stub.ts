@@ -1,5 +1,5 @@
 import { lineGammaLength, type TemLine } from '../models/line.js';
-import { addSlot, TEM_SECTION_PROPERTIES, temSectionOf, temSectionWarnings, validateTemSection } from './line.js';
+import { addSlot, currentScale, TEM_SECTION_PROPERTIES, temSectionOf, temSectionWarnings, validateTemSection } from './line.js';
 import type { ElementType, StampBuilder, TerminalSpec } from './types.js';
 
 /**
@@ -12,7 +12,8 @@ import type { ElementType, StampBuilder, TerminalSpec } from './types.js';
  * they stay finite at every frequency, including the frequencies where their input impedance or
  * admittance is zero or infinite (0 Hz, a quarter wave, a half wave), and at any loss (every
  * coefficient is bounded by one). V1 = v(a) − v(b), I1 the current into the stub at a (out at b),
- * u1 = Z0·I1, E = e^(−γℓ); the waves at the far end obey V2 − Z0·I2 = E·(V1 + Z0·I1) and at the
+ * u1 = Z0·I1 (in the stamp u = zs·I with zs the power of two nearest to Z0, see `currentScale`),
+ * E = e^(−γℓ); the waves at the far end obey V2 − Z0·I2 = E·(V1 + Z0·I1) and at the
  * near end V1 − Z0·I1 = E·(V2 + Z0·I2) (common practice: a matched section delays and attenuates
  * each wave by e^(−γℓ)):
  * - open end (I2 = 0), unknowns u1 and the far-end voltage V2:
@@ -42,7 +43,10 @@ function stubSlots(builder: StampBuilder, a: number, b: number, name: string, fa
 }
 
 function compileStub(section: TemLine, s: Int32Array, open: boolean): (omega: number, v: Float64Array) => void {
-  const g = 1 / section.z0;
+  // branch currents scaled by zs, the power of two nearest to Z0: u = zs·I, Z0·I = r·u, 1/zs and r exact
+  const zs = currentScale(section.z0);
+  const g = 1 / zs;
+  const r = section.z0 / zs;
   const gl = new Float64Array(2);
   const far = open ? 1 : -1; // V2 (open) or −u2 (short) in the far-end row
   return (omega, v) => {
@@ -53,16 +57,17 @@ function compileStub(section: TemLine, s: Int32Array, open: boolean): (omega: nu
     const ei = -ea * Math.sin(gl[1]!);
     addSlot(v, s[0]!, g, 0);
     addSlot(v, s[1]!, -g, 0);
-    // V1 − u1 − E·x = 0
+    // V1 − r·u1 − E·x' = 0, x' = V2 (open) or r·u2 (short)
+    const xs = open ? 1 : r;
     addSlot(v, s[2]!, 1, 0);
     addSlot(v, s[3]!, -1, 0);
-    addSlot(v, s[4]!, -1, 0);
-    addSlot(v, s[5]!, -er, -ei);
-    // ±x − E·V1 − E·u1 = 0
-    addSlot(v, s[6]!, far, 0);
+    addSlot(v, s[4]!, -r, 0);
+    addSlot(v, s[5]!, -er * xs, -ei * xs);
+    // ±x' − E·V1 − E·r·u1 = 0
+    addSlot(v, s[6]!, far * xs, 0);
     addSlot(v, s[7]!, -er, -ei);
     addSlot(v, s[8]!, er, ei);
-    addSlot(v, s[9]!, -er, -ei);
+    addSlot(v, s[9]!, -er * r, -ei * r);
   };
 }
 

@@ -22,6 +22,7 @@ import {
   type SparseFactor,
   type SolveRange,
 } from './sparse/index.js';
+import { reflectionFromPortVoltage, Refiner } from './refine.js';
 import { solveSymmetricPorts, symmetricPorts, symmetricPortsCost, type SymmetricPorts } from './sparse/symmetric.js';
 
 /** v[2·(i·p + j)] = x[plus_i, j] − x[minus_i, j]: the voltage across port i for right-hand side j. */
@@ -57,6 +58,17 @@ export const WARN_RCOND = 1e-11;
  * this ratio (smallest / largest |pivot|): the estimate costs several solves, the spread one pass.
  */
 export const PIVOT_SPREAD_CHECK = 1e-9;
+
+/**
+ * A reflection S_ii is refined (solve/refine.ts) where its expected rounding error, about
+ * REFINE_EPS times the condition hint (see LinearEngine.conditionHint), exceeds REFINE_TOL times
+ * its own size: a nearly matched port, or an ill-conditioned system. Elsewhere the ordinary result
+ * keeps at least about ten significant digits and no point pays for refinement.
+ */
+export const REFINE_TOL = 1e-10;
+const REFINE_EPS = 4 * Number.EPSILON;
+/** A refined reflection with fewer significant digits than this gives a warning. */
+export const WARN_DIGITS = 12;
 
 /** The nodal system has no unique solution at some frequency (a floating node, say). */
 export class SingularSystemError extends Error {
@@ -144,6 +156,14 @@ interface LinearEngine {
   portVoltages(rhs: Float64Array, x: Float64Array, v: Float64Array): void;
   /** For explaining a failure: a solve with the last (ill-conditioned) factors, or undefined. */
   nullDirection(): Float64Array | undefined;
+  /** Solves A·x = b (one right-hand side, every unknown) with the factors of the current point. */
+  solveOne(b: Float64Array, x: Float64Array): void;
+  /**
+   * A cheap lower guess of the current point's condition number: 1/{@link lastRcond} where that was
+   * estimated, else the spread of the pivots (largest over smallest modulus; the sparse engine
+   * estimates the condition only where the pivots spread wider than {@link PIVOT_SPREAD_CHECK}).
+   */
+  conditionHint(): number;
 }
 
 /** The dense engine (classes, not closures: one set of functions for every sweep, which the JIT keeps). */
@@ -193,6 +213,12 @@ class DenseEngine implements LinearEngine {
     const b = new Float64Array(2 * n);
     for (let i = 0; i < n; i++) b[2 * i] = 1 + i / n;
     return luSolve(this.lu, b, new Float64Array(2 * n), 1);
+  }
+  solveOne(b: Float64Array, x: Float64Array): void {
+    luSolve(this.lu, b, x, 1);
+  }
+  conditionHint(): number {
+    return 1 / this.lastRcond;
   }
 }
 
@@ -410,6 +436,15 @@ class SparseEngine implements LinearEngine {
     sparseSolve(this.used, b, x, 1);
     return x;
   }
+  solveOne(b: Float64Array, x: Float64Array): void {
+    sparseSolve(this.used, b, x, 1);
+  }
+  conditionHint(): number {
+    const r = this.lastRcond;
+    if (r > 0) return 1 / r;
+    const u = this.used;
+    return u.pivotMax / u.pivotMin;
+  }
 }
 
 /** Estimated work of the forward and backward sweeps of a partial solve with `f` (units of {@link symmetricPortsCost}). */
@@ -585,6 +620,14 @@ export class SweepRunner {
       worstRcond: WARN_RCOND,
       worstAt: NaN,
       failStatus: -1,
+      plan,
+      refiner: undefined,
+      refinedAt: -1,
+      solveOne: (b, x) => engine.solveOne(b, x),
+      dd: new Float64Array(4),
+      fewestDigits: Infinity,
+      fewestAt: NaN,
+      fewestPort: -1,
     };
     this.frequencies = freqs;
     this.values = out;
@@ -608,14 +651,19 @@ export class SweepRunner {
     if (failed >= 0) throw explainSingular(this.circuit, this.plan, this.frequencies[failed]!, this.loop.failStatus >= 0 ? this.loop.failStatus : -1, this.engine);
   }
 
-  /** The smallest condition estimate seen below {@link WARN_RCOND}, and where (NaN: none). */
-  get worst(): { rcond: number; frequency: number } {
-    return { rcond: this.loop.worstRcond, frequency: this.loop.worstAt };
+  /**
+   * The smallest condition estimate seen below {@link WARN_RCOND}, and where (NaN: none); the
+   * fewest significant digits a refined reflection kept below {@link WARN_DIGITS}, where and at
+   * which port (0-based; NaN: none).
+   */
+  get worst(): SweepWorst {
+    const L = this.loop;
+    return { rcond: L.worstRcond, frequency: L.worstAt, digits: L.fewestDigits, digitsAt: L.fewestAt, digitsPort: L.fewestPort };
   }
 
-  /** The network data once every point is solved; gives the near-singularity warning if due. */
+  /** The network data once every point is solved; gives the near-singularity warnings if due. */
   finish(worst = this.worst): NetworkData {
-    if (!Number.isNaN(worst.frequency)) nearSingularWarning(this.onWarning, worst.rcond, worst.frequency);
+    sweepWarnings(this.onWarning, worst);
     const plan = this.plan;
     return {
       parameter: 'S',
@@ -629,9 +677,53 @@ export class SweepRunner {
   }
 }
 
+/** What a sweep (or a share of it) reports for its warnings; see {@link SweepRunner.worst}. */
+export interface SweepWorst {
+  rcond: number;
+  frequency: number;
+  digits: number;
+  digitsAt: number;
+  digitsPort: number;
+}
+
+/** The worse of two {@link SweepWorst} reports, field group by field group. */
+export function worseOf(a: SweepWorst, b: SweepWorst): SweepWorst {
+  const r = !Number.isNaN(b.frequency) && (Number.isNaN(a.frequency) || b.rcond < a.rcond) ? b : a;
+  const d = !Number.isNaN(b.digitsAt) && (Number.isNaN(a.digitsAt) || b.digits < a.digits) ? b : a;
+  return { rcond: r.rcond, frequency: r.frequency, digits: d.digits, digitsAt: d.digitsAt, digitsPort: d.digitsPort };
+}
+
+/**
+ * Gives the sweep's warnings: that the nodal system came close to singular (at the worst point),
+ * and that a small reflection kept few significant digits even after refinement — one message
+ * where both happened at the same frequency.
+ */
+export function sweepWarnings(onWarning: SweepOptions['onWarning'], w: SweepWorst): void {
+  const few = Number.isNaN(w.digitsAt) ? '' : fewDigits(w);
+  if (!Number.isNaN(w.frequency)) {
+    // the solve may lose about log10(condition number) of the 16 significant digits of a double
+    const lost = Math.min(16, Math.max(1, Math.round(-Math.log10(w.rcond))));
+    const same = w.digitsAt === w.frequency;
+    onWarning?.(
+      `the nodal system is nearly singular at ${formatFrequency(w.frequency)} (reciprocal condition ${w.rcond.toExponential(1)}): the results there may have lost about ${lost} of their 16 significant digits${same ? `; ${few}` : ''}`,
+      w.frequency,
+      w.rcond,
+    );
+    if (same) return;
+  }
+  if (few) onWarning?.(`at ${formatFrequency(w.digitsAt)}, ${few} (the system is ill-conditioned there, e.g. element values far apart in size)`, w.digitsAt, Math.pow(10, -Math.max(0, Math.floor(w.digits))));
+}
+
+/** The few-digits part of {@link sweepWarnings}. */
+function fewDigits(w: SweepWorst): string {
+  const i = w.digitsPort + 1;
+  const kept = Math.max(0, Math.floor(w.digits));
+  return `S${i}${i} (a reflection below the rounding of the ordinary solve, refined in extended precision) keeps only about ${kept} certain significant digits`;
+}
+
 /** Gives the warning that the nodal system came close to singular at `at` (Hz). */
 export function nearSingularWarning(onWarning: SweepOptions['onWarning'], rcond: number, at: number): void {
-  onWarning?.(`the nodal system is nearly singular at ${formatFrequency(at)} (reciprocal condition ${rcond.toExponential(1)}): the results there may have lost digits`, at, rcond);
+  sweepWarnings(onWarning, { rcond, frequency: at, digits: Infinity, digitsAt: NaN, digitsPort: -1 });
 }
 
 /** Everything the per-point loop reads and what it reports back (one plain object per sweep). */
@@ -657,6 +749,18 @@ interface PointLoop {
   worstAt: number;
   /** Out: the engine's status at the point that failed. */
   failStatus: number;
+  plan: StampPlan;
+  /** Made on first need: the double-double refinement of small reflections. */
+  refiner: Refiner | undefined;
+  /** The point whose matrix the refiner holds (−1: none). */
+  refinedAt: number;
+  solveOne: (b: Float64Array, x: Float64Array) => void;
+  /** Scratch: a port voltage in double-double. */
+  dd: Float64Array;
+  /** Out: the fewest significant digits of a refined reflection (Infinity: none), where and which port. */
+  fewestDigits: number;
+  fewestAt: number;
+  fewestPort: number;
 }
 
 /**
@@ -738,7 +842,46 @@ function finishPoint(L: PointLoop, k: number): number {
       finite += sr - sr + (si - si);
     }
   }
-  return finite;
+  if (finite !== 0) return finite;
+  // small reflections whose rounding error would show: refined in double-double (seldom)
+  const risk = REFINE_EPS * engine.conditionHint();
+  for (let i = 0; i < p; i++) {
+    const o = base + 2 * (i * p + i);
+    if (risk > REFINE_TOL * (Math.abs(out[o]!) + Math.abs(out[o + 1]!))) refineReflection(L, k, i, o);
+  }
+  return 0;
+}
+
+/**
+ * Replaces S_ii of point k (at out[o..o+1]) by its value from a double-double refinement of the
+ * port's solution (solve/refine.ts), and notes how many digits it keeps. Taken only for the
+ * points and ports {@link finishPoint} finds at risk.
+ */
+function refineReflection(L: PointLoop, k: number, i: number, o: number): void {
+  const plan = L.plan;
+  const refiner = (L.refiner ??= new Refiner(plan));
+  if (L.refinedAt !== k) {
+    refiner.assemble(2 * Math.PI * L.freqs[k]!);
+    L.refinedAt = k;
+  }
+  if (!refiner.refine(plan.portPlus[i]!, plan.portMinus[i]!, L.solveOne, L.dd)) return;
+  const out = L.out;
+  const r = plan.portReference[i]!;
+  const x = plan.portReactance[i]!;
+  const t = plan.portTermination;
+  const tl = plan.portTerminationLo;
+  reflectionFromPortVoltage(L.dd, r, x, t[2 * i]!, t[2 * i + 1]!, tl[2 * i]!, tl[2 * i + 1]!, out, o);
+  // the last correction bounds the port voltage's remaining relative error; S_ii ≈ 2R·x/Zref² − …
+  const m = Math.abs(out[o]!) + Math.abs(out[o + 1]!);
+  const v = Math.hypot(L.dd[0]!, L.dd[2]!) * ((2 * r) / (r * r + x * x));
+  // (at least the floor of a double-double residual: about ε² times the condition, relative)
+  const rel = (Math.max(refiner.lastStep, REFINE_EPS * Number.EPSILON * L.engine.conditionHint()) * v) / m;
+  const digits = rel > 0 ? -Math.log10(rel) : Infinity;
+  if (digits < WARN_DIGITS && digits < L.fewestDigits) {
+    L.fewestDigits = digits;
+    L.fewestAt = L.freqs[k]!;
+    L.fewestPort = i;
+  }
 }
 
 /** Elements with data over a limited band (measured files) must cover every frequency asked for. */
