@@ -192,3 +192,84 @@ describe('no NaN or Infinity in a result', () => {
     }
   });
 });
+
+describe('small reflections keep their relative accuracy', () => {
+  // The reproducer of issue 14: a 1e-6 ohm series resistor between two 50 ohm ports gave
+  // S11 = 7.8e-9 instead of 1.0e-8, with no warning.
+  for (const solver of ['dense', 'sparse'] as const) {
+    it(`1e-6 ohm in series between 50 ohm ports: S11 = R/(R + 2·Z0) to 1e-12 relative, no warning (${solver}) [SERIES]`, () => {
+      const warnings: string[] = [];
+      const net = solveSweep(loadNetlist('resistor r a=in b=out value=1e-6 ohm\nport 1 plus=in\nport 2 plus=out\nsweep list freqs=1 GHz, 2 GHz\n', 'numerics.sbx').circuit, {
+        solver,
+        onWarning: (m) => warnings.push(m),
+      });
+      const r = 1e-6;
+      for (let k = 0; k < 2; k++) {
+        const v = net.values.subarray(8 * k);
+        expect(Math.abs(v[0]! - r / (r + 100)) / (r / (r + 100))).toBeLessThan(1e-12); // S11
+        expect(Math.abs(v[6]! - r / (r + 100)) / (r / (r + 100))).toBeLessThan(1e-12); // S22
+        expect(Math.abs(v[4]! - 100 / (r + 100))).toBeLessThan(1e-15); // S21
+        expect(Math.abs(v[1]!)).toBeLessThan(1e-25);
+      }
+      expect(warnings).toEqual([]);
+    });
+  }
+
+  it('a small series resistor before a matched lossless line (sparse system with a per-element stamp): S11 = R/(R + 2·Z0) to 1e-12 [SERIES]', () => {
+    const net = solve('resistor r a=in b=x value=1e-6 ohm\nline t a=x b=out z0=50 ohm theta=73 deg at 1 GHz\nresistor rl a=out b=ground value=1e9 ohm\nport 1 plus=in\nport 2 plus=out\nsweep list freqs=1 GHz\n');
+    // the 1e9 ohm shunt at port 2 adds the load 50 || 1e9 ohm; the lossless line moves its tiny
+    // mismatch around the Smith chart, so the check is on the series part: |S11 − R/(R + 2Z0)| is
+    // at most |Γ_load| = 50/(2e9 + 50) (both small; common practice: reflections add to first order)
+    const r = 1e-6;
+    const gl = 50 / (2e9 + 50);
+    expect(Math.abs(Math.hypot(net.values[0]!, net.values[1]!) - r / (r + 100))).toBeLessThan(gl * 1.0001);
+    // without the shunt: S11 = R/(R + 2·Z0) up to the rounding of the line's own coefficients
+    // (e^(−jθ)·Z0/zs rounded: a mismatch of a few ε, so an absolute tolerance of 1e-15 — against
+    // the 2e-9 of an unrefined solve)
+    for (const solver of ['dense', 'sparse'] as const) {
+      const exact = solveSweep(
+        loadNetlist('resistor r a=in b=x value=1e-6 ohm\nline t a=x b=out z0=50 ohm theta=73 deg at 1 GHz\nport 1 plus=in\nport 2 plus=out\nsweep list freqs=1 GHz\n', 'numerics.sbx').circuit,
+        { solver },
+      );
+      expect(Math.abs(exact.values[0]! - r / (r + 100))).toBeLessThan(1e-15);
+      expect(Math.abs(exact.values[1]!)).toBeLessThan(1e-15);
+    }
+  });
+
+  it('a 1e12 ohm shunt across a through line between 50 ohm ports: S11 = −Z0/(2R + Z0) to 1e-12 relative [SERIES, dual form for a shunt]', () => {
+    const net = solve('resistor r a=in b=ground value=1e12 ohm\nport 1 plus=in\nport 2 plus=in\nsweep list freqs=1 GHz\n');
+    const s11 = -50 / (2e12 + 50);
+    expect(Math.abs(net.values[0]! - s11) / Math.abs(s11)).toBeLessThan(1e-12);
+    expect(Math.abs(net.values[6]! - s11) / Math.abs(s11)).toBeLessThan(1e-12);
+  });
+
+  it('random series resistors and equal references, S11 from 1e-9 to 1e-2: S11 = R/(R + 2·Z0) to 1e-11 relative (fast-check, seed 1402) [SERIES]', () => {
+    // (the double-double residual leaves a relative error of about (ε/S11)²: 1e-13 at S11 = 1e-9)
+    fc.assert(
+      fc.property(fc.double({ min: -9, max: -2, noNaN: true }), fc.double({ min: 1, max: 1000, noNaN: true }), fc.constantFrom('dense', 'sparse'), (lg, z0, solver) => {
+        const r = 2 * z0 * Math.pow(10, lg);
+        const net = solveSweep(
+          loadNetlist(`resistor r a=in b=out value=${r} ohm\nport 1 plus=in ref=${z0} ohm\nport 2 plus=out ref=${z0} ohm\nsweep list freqs=1 GHz\n`, 'numerics.sbx').circuit,
+          { solver: solver as 'dense' | 'sparse' },
+        );
+        const want = r / (r + 2 * z0);
+        return Math.abs(net.values[0]! - want) / want < 1e-11 && Math.abs(net.values[6]! - want) / want < 1e-11;
+      }),
+      { seed: 1402, numRuns: 120 },
+    );
+  });
+
+  it('where even refinement cannot keep the digits (1e-11 ohm between 50 ohm ports), the warning says how many are left', () => {
+    const warnings: string[] = [];
+    solve('resistor r a=in b=out value=1e-11 ohm\nport 1 plus=in\nport 2 plus=out\nsweep list freqs=1 GHz\n', (m) => warnings.push(m));
+    expect(warnings.length).toBe(1);
+    expect(warnings[0]).toMatch(/nearly singular at 1 GHz .*lost about 1[0-9] of their 16 significant digits; S(11|22) .* keeps only about [0-9] certain significant digits/);
+  });
+
+  it('a warning on a nearly singular system states the digits at risk, log10 of the condition number (common practice)', () => {
+    const warnings: string[] = [];
+    solve('resistor r1 a=in b=ground value=50 ohm\nresistor rx a=in b=mid value=1e13 ohm\nresistor rl a=mid b=ground value=1e13 ohm\nport 1 plus=in\nsweep list freqs=1 MHz\n', (m) => warnings.push(m));
+    // reciprocal condition about 5e-12: about 11 digits at risk
+    expect(warnings[0]).toMatch(/lost about 11 of their 16 significant digits/);
+  });
+});

@@ -67,6 +67,12 @@ export const PIVOT_SPREAD_CHECK = 1e-9;
  */
 export const REFINE_TOL = 1e-10;
 const REFINE_EPS = 4 * Number.EPSILON;
+/**
+ * …and every column of S (the drive at one port) where that error exceeds this in absolute terms:
+ * an ill-conditioned system (a tiny series resistance beside the terminations, say) whose
+ * transmissions would otherwise carry it.
+ */
+export const REFINE_ABS = 1e-12;
 /** A refined reflection with fewer significant digits than this gives a warning. */
 export const WARN_DIGITS = 12;
 
@@ -847,7 +853,7 @@ function finishPoint(L: PointLoop, k: number): number {
   const risk = REFINE_EPS * engine.conditionHint();
   for (let i = 0; i < p; i++) {
     const o = base + 2 * (i * p + i);
-    if (risk > REFINE_TOL * (Math.abs(out[o]!) + Math.abs(out[o + 1]!))) refineReflection(L, k, i, o);
+    if (risk > REFINE_ABS || risk > REFINE_TOL * (Math.abs(out[o]!) + Math.abs(out[o + 1]!))) refineReflection(L, k, i, o);
   }
   return 0;
 }
@@ -871,6 +877,32 @@ function refineReflection(L: PointLoop, k: number, i: number, o: number): void {
   const t = plan.portTermination;
   const tl = plan.portTerminationLo;
   reflectionFromPortVoltage(L.dd, r, x, t[2 * i]!, t[2 * i + 1]!, tl[2 * i]!, tl[2 * i + 1]!, out, o);
+  // the rest of the column from the refined solution: S_ji = v_j·√R_j/Zref_j, v_j = x_j·2√R_i/Zref_i
+  const p = L.p;
+  const xh = refiner.xh;
+  const xl = refiner.xl;
+  const dr = 2 * L.kr[i]!;
+  const di = 2 * L.ki[i]!;
+  for (let j = 0; j < p; j++) {
+    if (j === i) continue;
+    const pl = plan.portPlus[j]!;
+    const mi = plan.portMinus[j]!;
+    let vr = 0;
+    let vi = 0;
+    if (pl !== GROUND) {
+      vr += xh[2 * pl]! + xl[2 * pl]!;
+      vi += xh[2 * pl + 1]! + xl[2 * pl + 1]!;
+    }
+    if (mi !== GROUND) {
+      vr -= xh[2 * mi]! + xl[2 * mi]!;
+      vi -= xh[2 * mi + 1]! + xl[2 * mi + 1]!;
+    }
+    const wr = vr * dr - vi * di;
+    const wi = vr * di + vi * dr;
+    const q = o - 2 * (i * p + i) + 2 * (j * p + i);
+    out[q] = wr * L.kr[j]! - wi * L.ki[j]!;
+    out[q + 1] = wr * L.ki[j]! + wi * L.kr[j]!;
+  }
   // the last correction bounds the port voltage's remaining relative error; S_ii ≈ 2R·x/Zref² − …
   const m = Math.abs(out[o]!) + Math.abs(out[o + 1]!);
   const v = Math.hypot(L.dd[0]!, L.dd[2]!) * ((2 * r) / (r * r + x * x));
