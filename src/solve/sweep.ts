@@ -167,9 +167,10 @@ interface LinearEngine {
   /**
    * A cheap lower guess of the current point's condition number: 1/{@link lastRcond} where that was
    * estimated, else the spread of the pivots (largest over smallest modulus; the sparse engine
-   * estimates the condition only where the pivots spread wider than {@link PIVOT_SPREAD_CHECK}).
+   * estimates the condition only where the pivots spread wider than {@link PIVOT_SPREAD_CHECK}),
+   * written to into[0] (a number returned from a call V8 does not inline would be boxed).
    */
-  conditionHint(): number;
+  conditionHint(into: Float64Array): void;
 }
 
 /** The dense engine (classes, not closures: one set of functions for every sweep, which the JIT keeps). */
@@ -223,8 +224,8 @@ class DenseEngine implements LinearEngine {
   solveOne(b: Float64Array, x: Float64Array): void {
     luSolve(this.lu, b, x, 1);
   }
-  conditionHint(): number {
-    return 1 / this.lastRcond;
+  conditionHint(into: Float64Array): void {
+    into[0] = 1 / this.lastRcond;
   }
 }
 
@@ -445,11 +446,10 @@ class SparseEngine implements LinearEngine {
   solveOne(b: Float64Array, x: Float64Array): void {
     sparseSolve(this.used, b, x, 1);
   }
-  conditionHint(): number {
+  conditionHint(into: Float64Array): void {
     const r = this.lastRcond;
-    if (r > 0) return 1 / r;
     const u = this.used;
-    return u.pivotMax / u.pivotMin;
+    into[0] = r > 0 ? 1 / r : u.pivotMax / u.pivotMin;
   }
 }
 
@@ -631,6 +631,7 @@ export class SweepRunner {
       refinedAt: -1,
       solveOne: (b, x) => engine.solveOne(b, x),
       dd: new Float64Array(4),
+      hint: new Float64Array(1),
       fewestDigits: Infinity,
       fewestAt: NaN,
       fewestPort: -1,
@@ -763,6 +764,8 @@ interface PointLoop {
   solveOne: (b: Float64Array, x: Float64Array) => void;
   /** Scratch: a port voltage in double-double. */
   dd: Float64Array;
+  /** Scratch: the engine's condition hint of the current point. */
+  hint: Float64Array;
   /** Out: the fewest significant digits of a refined reflection (Infinity: none), where and which port. */
   fewestDigits: number;
   fewestAt: number;
@@ -850,7 +853,8 @@ function finishPoint(L: PointLoop, k: number): number {
   }
   if (finite !== 0) return finite;
   // small reflections whose rounding error would show: refined in double-double (seldom)
-  const risk = REFINE_EPS * engine.conditionHint();
+  engine.conditionHint(L.hint);
+  const risk = REFINE_EPS * L.hint[0]!;
   for (let i = 0; i < p; i++) {
     const o = base + 2 * (i * p + i);
     if (risk > REFINE_ABS || risk > REFINE_TOL * (Math.abs(out[o]!) + Math.abs(out[o + 1]!))) refineReflection(L, k, i, o);
@@ -907,7 +911,7 @@ function refineReflection(L: PointLoop, k: number, i: number, o: number): void {
   const m = Math.abs(out[o]!) + Math.abs(out[o + 1]!);
   const v = Math.hypot(L.dd[0]!, L.dd[2]!) * ((2 * r) / (r * r + x * x));
   // (at least the floor of a double-double residual: about ε² times the condition, relative)
-  const rel = (Math.max(refiner.lastStep, REFINE_EPS * Number.EPSILON * L.engine.conditionHint()) * v) / m;
+  const rel = (Math.max(refiner.lastStep, REFINE_EPS * Number.EPSILON * L.hint[0]!) * v) / m;
   const digits = rel > 0 ? -Math.log10(rel) : Infinity;
   if (digits < WARN_DIGITS && digits < L.fewestDigits) {
     L.fewestDigits = digits;
