@@ -72,7 +72,7 @@ const REFINE_EPS = 4 * Number.EPSILON;
  * an ill-conditioned system (a tiny series resistance beside the terminations, say) whose
  * transmissions would otherwise carry it.
  */
-export const REFINE_ABS = 1e-12;
+export const REFINE_ABS = 1e-10;
 /** A refined reflection with fewer significant digits than this gives a warning. */
 export const WARN_DIGITS = 12;
 
