@@ -513,7 +513,11 @@ export interface SweepOptions {
  * only the terminated nodal system must be regular.
  *
  * The loop over frequencies allocates nothing: the matrix, factors and right-hand sides are
- * allocated once.
+ * allocated once. Where a reflection is so small (or the system so ill-conditioned) that the
+ * rounding of this solve would show in it, that port's column is refined in double-double
+ * (solve/refine.ts; see {@link REFINE_TOL}); a warning says how many digits remain uncertain.
+ * A point whose S values are not all finite raises {@link NonFiniteResultError} instead of being
+ * written.
  */
 export function solveSweep(circuit: Circuit, options: SweepOptions = {}): NetworkData {
   const runner = new SweepRunner(circuit, options);
