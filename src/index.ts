@@ -24,7 +24,7 @@ export type { Circuit, Port, ParameterValue } from './elaborate/circuit.js';
 export { ELEMENTS } from './elements/registry.js';
 export type { ElementType, ElementInstance, PropertySpec, TerminalSpec, StampBuilder, Stamper } from './elements/types.js';
 export { buildPlan, lowestOf, stampAt, type PlanOptions, type StampPlan } from './plan/plan.js';
-export { solveSweep, solveSweep as solve, SweepRunner, SingularSystemError, type SweepOptions, type SolveMethod } from './solve/sweep.js';
+export { solveSweep, solveSweep as solve, SweepRunner, SingularSystemError, NonFiniteResultError, type SweepOptions, type SolveMethod } from './solve/sweep.js';
 export type { NetworkData, ParameterKind, NoiseParameters } from './network/types.js';
 export { entryIndex } from './network/types.js';
 export { convertNetwork, renormalizeNetwork, ConversionError } from './network/convert.js';

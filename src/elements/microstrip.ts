@@ -1,4 +1,3 @@
-import { lineAbcdFromGammaLength } from '../models/line.js';
 import {
   createMicrostripAt,
   microstripAt,
@@ -7,7 +6,7 @@ import {
   type MicrostripSpec,
 } from '../models/microstrip.js';
 import { formatFrequency } from '../format/frequency.js';
-import { addChainStamp, chainSlots } from './line.js';
+import { addWaveStamp, chainSlots } from './line.js';
 import { GROUND, type ElementInstance, type ElementType } from './types.js';
 
 /**
@@ -18,7 +17,7 @@ import { GROUND, type ElementInstance, type ElementType } from './types.js';
  * by Kirschning and Jansen (1982) and of Z0 by Jansen and Kirschning (1983), conductor loss by
  * Wheeler's incremental-inductance rule (1942) with the Hammerstad–Bekkadal roughness factor,
  * dielectric loss of a quasi-TEM line. The section is then the TEM line with those Z0(f),
- * γ(f) = αc(f) + αd(f) + j·2πf·√εeff(f)/c0 and the given length, stamped in the chain form of
+ * γ(f) = αc(f) + αd(f) + j·2πf·√εeff(f)/c0 and the given length, stamped in the wave form of
  * `line` (src/elements/line.ts), so it is finite at 0 Hz and at every half wave. The branch
  * currents are scaled by the quasi-static Z0.
  *
@@ -124,12 +123,10 @@ export const microstrip: ElementType = {
     const zs = microstripStatic(spec.w, spec.h, spec.t, spec.er).z0;
     const s = chainSlots(b, el.nodes[0]!, GROUND, el.nodes[1]!, GROUND, el.name);
     const at = createMicrostripAt();
-    const abcd = new Float64Array(8);
     return (omega, v) => {
       const f = omega / TWO_PI;
       microstripAt(f, spec, at);
-      lineAbcdFromGammaLength(at.z0, (at.alphaConductor + at.alphaDielectric) * length, at.beta * length, abcd, 0);
-      addChainStamp(v, s, abcd, 0, zs);
+      addWaveStamp(v, s, at.z0, (at.alphaConductor + at.alphaDielectric) * length, at.beta * length, zs);
     };
   },
 };

@@ -29,16 +29,31 @@ export interface StampPlan {
    * set to {@link StampPlan.baseValues} and the batch is stamped (see {@link stampAt}).
    */
   stampers: Stamper[];
+  /** The element name of each stamper in {@link StampPlan.stampers} (for messages). */
+  stamperNames: string[];
   /** The kernel-batched admittances that vary with frequency (resistors, capacitors, inductors…). */
   batch: AdmittanceBatch | undefined;
   /** The frequency-independent part of the slot values (resistors, port terminations). */
   baseValues: Float64Array;
+  /**
+   * The same part before its contributions were summed into slots: per contribution its slot and
+   * value (complex interleaved), in the order they were added. For sums without rounding
+   * (`solve/refine.ts`).
+   */
+  baseParts: { slots: Int32Array; values: Float64Array };
   /** Per port: unknown of its plus and minus terminals (GROUND = -1) and its reference in ohms. */
   portPlus: Int32Array;
   portMinus: Int32Array;
   portReference: Float64Array;
   /** Per port: the reactance of a complex reference impedance in ohms (0 for a real one). */
   portReactance: Float64Array;
+  /** Per port: the termination admittance 1/Zref as stamped (complex interleaved), S. */
+  portTermination: Float64Array;
+  /**
+   * Per port: the rounding error of {@link StampPlan.portTermination}, 1/Zref − portTermination
+   * (to double precision): with it the termination is exact to about 32 digits (`solve/refine.ts`).
+   */
+  portTerminationLo: Float64Array;
   /** The lowest frequency (Hz) the plan may be solved at: elements chose their formulation by it. */
   lowestFrequency: number;
   /**
@@ -185,6 +200,7 @@ export function buildPlan(circuit: Circuit, options: PlanOptions = {}): StampPla
   };
 
   const stampers: Stamper[] = [];
+  const stamperNames: string[] = [];
   for (const el of circuit.elements) {
     const type = ELEMENTS.get(el.type)!;
     // the element with its nodes as unknowns (written out: faster than a spread for many elements)
@@ -192,31 +208,84 @@ export function buildPlan(circuit: Circuit, options: PlanOptions = {}): StampPla
     for (let t = 0; t < nodes.length; t++) nodes[t] = toUnknown(el.nodes[t]!);
     const mapped: ElementInstance = { type: el.type, name: el.name, nodes, nodeNames: el.nodeNames, props: el.props, at: el.at, span: el.span, text: el.text, data: el.data };
     const st = type.compile(mapped, builder);
-    if (st) stampers.push(st);
+    if (st) {
+      stampers.push(st);
+      stamperNames.push(el.name);
+    }
   }
   const portPlus = new Int32Array(circuit.ports.length);
   const portMinus = new Int32Array(circuit.ports.length);
   const portReference = new Float64Array(circuit.ports.length);
   const portReactance = new Float64Array(circuit.ports.length);
   const terminations: { s: Int32Array; gr: number; gi: number }[] = [];
+  const portTermination = new Float64Array(2 * circuit.ports.length);
+  const portTerminationLo = new Float64Array(2 * circuit.ports.length);
   circuit.ports.forEach((p, k) => {
     portPlus[k] = toUnknown(p.plus);
     portMinus[k] = toUnknown(p.minus);
     portReference[k] = p.reference;
     portReactance[k] = p.reactance ?? 0;
     const s = admittanceSlots(builder, portPlus[k]!, portMinus[k]!);
-    // termination 1/Zref, Zref = R + jX
-    const d = p.reference * p.reference + portReactance[k]! * portReactance[k]!;
-    const gr = p.reference / d;
-    const gi = -portReactance[k]! / d;
+    // termination 1/Zref, Zref = R + jX (Smith's division: R² + X² would overflow from about 1e154 ohm)
+    const r = p.reference;
+    const x = portReactance[k]!;
+    let gr: number;
+    let gi: number;
+    if (Math.abs(r) >= Math.abs(x)) {
+      const t = x / r;
+      const den = r + x * t;
+      gr = 1 / den;
+      gi = -t / den;
+    } else {
+      const t = r / x;
+      const den = r * t + x;
+      gr = t / den;
+      gi = -1 / den;
+    }
     terminations.push({ s, gr, gi });
+    portTermination[2 * k] = gr;
+    portTermination[2 * k + 1] = gi;
+    // 1/Z − g = (1 − Z·g)/Z, the residual 1 − Z·g formed without rounding its products
+    const p1 = r * gr;
+    const p2 = x * gi;
+    const p3 = r * gi;
+    const p4 = x * gr;
+    const er = sumOf(1, -p1, -productError(r, gr, p1), p2, productError(x, gi, p2));
+    const ei = -sumOf(p3, productError(r, gi, p3), p4, productError(x, gr, p4), 0);
+    const m = Math.abs(r) >= Math.abs(x) ? r + x * (x / r) : x + r * (r / x);
+    portTerminationLo[2 * k] = Math.abs(r) >= Math.abs(x) ? (er + ei * (x / r)) / m : (er * (r / x) + ei) / m;
+    portTerminationLo[2 * k + 1] = Math.abs(r) >= Math.abs(x) ? (ei - er * (x / r)) / m : (ei * (r / x) - er) / m;
   });
   // Every unknown gets its diagonal slot, so that the pattern is structurally square.
   const size = nodeCount + branchNames.length;
   for (let i = 0; i < size; i++) builder.entry(i, i);
   const baseValues = new Float64Array(2 * rows.length);
-  for (const t of terminations) addAdmittance(baseValues, t.s, t.gr, t.gi);
-  const batch = batchAdmittances(groups, baseValues);
+  const partSlots: number[] = [];
+  const partValues: number[] = [];
+  const part = (slot: number, re: number, im: number) => {
+    if (slot < 0) return;
+    partSlots.push(slot);
+    partValues.push(re, im);
+  };
+  for (const t of terminations) {
+    addAdmittance(baseValues, t.s, t.gr, t.gi);
+    part(t.s[0]!, t.gr, t.gi);
+    part(t.s[1]!, -t.gr, -t.gi);
+    part(t.s[2]!, -t.gr, -t.gi);
+    part(t.s[3]!, t.gr, t.gi);
+  }
+  // the terminations' rounding errors, as parts of their own (added without rounding by the refinement)
+  terminations.forEach((t, k) => {
+    const lr = portTerminationLo[2 * k]!;
+    const li = portTerminationLo[2 * k + 1]!;
+    if (lr === 0 && li === 0) return;
+    part(t.s[0]!, lr, li);
+    part(t.s[1]!, -lr, -li);
+    part(t.s[2]!, -lr, -li);
+    part(t.s[3]!, lr, li);
+  });
+  const batch = batchAdmittances(groups, baseValues, part);
+  const baseParts = { slots: Int32Array.from(partSlots), values: Float64Array.from(partValues) };
   const symmetric = stampers.length === 0 && batchSymmetric(groups, rows, cols) && baseSymmetric(baseValues, rows, cols, slots);
   const unknownNode = new Int32Array(size).fill(-1);
   for (let i = 0; i < nodeUnknown.length; i++) if (nodeUnknown[i]! >= 0) unknownNode[nodeUnknown[i]!] = i;
@@ -228,15 +297,43 @@ export function buildPlan(circuit: Circuit, options: PlanOptions = {}): StampPla
     slotRow: Int32Array.from(rows),
     slotCol: Int32Array.from(cols),
     stampers,
+    stamperNames,
     batch,
     baseValues,
+    baseParts,
     portPlus,
     portMinus,
     portReference,
     portReactance,
+    portTermination,
+    portTerminationLo,
     lowestFrequency,
     symmetric,
   };
+}
+
+/** The sum of five numbers with compensation (Neumaier's summation): error about ε·|sum| + ε²·Σ|terms|. */
+function sumOf(a: number, b: number, c: number, d: number, e: number): number {
+  let s = 0;
+  let comp = 0;
+  for (const t of [a, b, c, d, e]) {
+    const u = s + t;
+    comp += Math.abs(s) >= Math.abs(t) ? s - u + t : t - u + s;
+    s = u;
+  }
+  return s + comp;
+}
+
+/** The rounding error of p = fl(a·b): a·b − p exactly (Dekker, 1971, with Veltkamp's splitting). */
+function productError(a: number, b: number, p: number): number {
+  const SPLIT = 134217729;
+  let c = SPLIT * a;
+  const a1 = c - (c - a);
+  const a2 = a - a1;
+  c = SPLIT * b;
+  const b1 = c - (c - b);
+  const b2 = b - b1;
+  return a1 * b1 - p + a1 * b2 + a2 * b1 + a2 * b2;
 }
 
 /** Whether the batched admittances stamp symmetrically: four-slot ones do; pairs only on the diagonal. */
@@ -386,6 +483,46 @@ export class AdmittanceBatch {
   }
 
   /**
+   * {@link stamp} without rounding the sums: each admittance goes through `add(hi, lo, place, value)`
+   * (a double-double accumulation, see `solve/refine.ts`) into (hi, lo), per slot complex
+   * interleaved. For the seldom-taken refinement of a point; the kernels run as in {@link stamp}.
+   */
+  stampParts(w: Float64Array, hi: Float64Array, lo: Float64Array, add: (hi: Float64Array, lo: Float64Array, k: number, y: number) => void): void {
+    const y = this.y;
+    const groups = this.groups;
+    for (let g = 0; g < groups.length; g++) {
+      const k = groups[g]!;
+      k.kernel.run(w, 0, k.params, k.count, y, k.offset);
+    }
+    const qy = this.quadY;
+    const qs = this.quadSlots;
+    for (let e = 0; e < qy.length; e++) {
+      const a = qy[e]!;
+      const yr = y[a]!;
+      const yi = y[a + 1]!;
+      const q = 4 * e;
+      add(hi, lo, qs[q]!, yr);
+      add(hi, lo, qs[q]! + 1, yi);
+      add(hi, lo, qs[q + 1]!, yr);
+      add(hi, lo, qs[q + 1]! + 1, yi);
+      add(hi, lo, qs[q + 2]!, -yr);
+      add(hi, lo, qs[q + 2]! + 1, -yi);
+      add(hi, lo, qs[q + 3]!, -yr);
+      add(hi, lo, qs[q + 3]! + 1, -yi);
+    }
+    const pl = this.plus;
+    for (let t = 0; t < pl.length; t += 2) {
+      add(hi, lo, pl[t]!, y[pl[t + 1]!]!);
+      add(hi, lo, pl[t]! + 1, y[pl[t + 1]! + 1]!);
+    }
+    const mi = this.minus;
+    for (let t = 0; t < mi.length; t += 2) {
+      add(hi, lo, mi[t]!, -y[mi[t + 1]!]!);
+      add(hi, lo, mi[t]! + 1, -y[mi[t + 1]! + 1]!);
+    }
+  }
+
+  /**
    * {@link stamp} at two frequencies at once, `w[0]` into `v` and `w[1]` into `u`: one pass over
    * the slot lists for both (each array gets exactly the additions {@link stamp} makes).
    */
@@ -456,7 +593,11 @@ export class AdmittanceBatch {
  * Gathers the kernel-batched admittances. Constant kernels are evaluated here, once, into `base`.
  * Undefined when nothing varies with frequency.
  */
-function batchAdmittances(groups: Map<AdmittanceKernel, KernelSlots>, base: Float64Array): AdmittanceBatch | undefined {
+function batchAdmittances(
+  groups: Map<AdmittanceKernel, KernelSlots>,
+  base: Float64Array,
+  part: (slot: number, re: number, im: number) => void,
+): AdmittanceBatch | undefined {
   const varying: KernelGroup[] = [];
   let nQuads = 0;
   let nPlus = 0;
@@ -485,6 +626,7 @@ function batchAdmittances(groups: Map<AdmittanceKernel, KernelSlots>, base: Floa
       const add = (slot: number, k: number, sign: number) => {
         base[2 * slot] += sign * y[2 * k]!;
         base[2 * slot + 1] += sign * y[2 * k + 1]!;
+        part(slot, sign * y[2 * k]!, sign * y[2 * k + 1]!);
       };
       for (let t = 0; t < g.quads.length; t += 5) {
         const k = g.quads[t]!;

@@ -4,7 +4,7 @@ import { existsSync } from 'node:fs';
 import Tinypool from 'tinypool';
 import type { Circuit } from '../elaborate/circuit.js';
 import type { NetworkData } from '../network/types.js';
-import { nearSingularWarning, solveSweep, SweepRunner, type SweepOptions } from './sweep.js';
+import { solveSweep, SweepRunner, sweepWarnings, worseOf, type SweepOptions, type SweepWorst } from './sweep.js';
 import { solveChunks, type ShareResult, type SweepTask } from './worker.js';
 import { lowestOf } from '../plan/plan.js';
 import { packCircuit } from './transfer.js';
@@ -137,14 +137,14 @@ export async function solveSweepParallel(circuit: Circuit, options: ParallelOpti
   // chunks a thread failed on or never finished: solved here, which reports a singular system
   // (or a sweep outside a data block's range) with its own type and details
   const done = new Uint8Array(shared.chunksDone);
-  let worst = { rcond: Infinity, frequency: NaN };
+  let worst: SweepWorst = { rcond: Infinity, frequency: NaN, digits: Infinity, digitsAt: NaN, digitsPort: -1 };
   for (let c = 0; c < done.length; c++) {
     if (done[c]) continue;
     local ??= new SweepRunner(circuit, common, values);
     local.run(c * chunk, Math.min(total, (c + 1) * chunk));
   }
-  for (const r of [...results, local?.worst]) if (r && !Number.isNaN(r.frequency) && r.rcond < worst.rcond) worst = { rcond: r.rcond, frequency: r.frequency };
-  if (!Number.isNaN(worst.frequency)) nearSingularWarning(options.onWarning, worst.rcond, worst.frequency);
+  for (const r of [...results, local?.worst]) if (r) worst = worseOf(worst, r);
+  sweepWarnings(options.onWarning, worst);
   options.onProgress?.(total, total);
   const complexRefs = circuit.ports.some((q) => (q.reactance ?? 0) !== 0);
   return {

@@ -22,6 +22,7 @@ import {
   type SparseFactor,
   type SolveRange,
 } from './sparse/index.js';
+import { reflectionFromPortVoltage, Refiner } from './refine.js';
 import { solveSymmetricPorts, symmetricPorts, symmetricPortsCost, type SymmetricPorts } from './sparse/symmetric.js';
 
 /** v[2·(i·p + j)] = x[plus_i, j] − x[minus_i, j]: the voltage across port i for right-hand side j. */
@@ -58,6 +59,23 @@ export const WARN_RCOND = 1e-11;
  */
 export const PIVOT_SPREAD_CHECK = 1e-9;
 
+/**
+ * A reflection S_ii is refined (solve/refine.ts) where its expected rounding error, about
+ * REFINE_EPS times the condition hint (see LinearEngine.conditionHint), exceeds REFINE_TOL times
+ * its own size: a nearly matched port, or an ill-conditioned system. Elsewhere the ordinary result
+ * keeps at least about ten significant digits and no point pays for refinement.
+ */
+export const REFINE_TOL = 1e-10;
+const REFINE_EPS = 4 * Number.EPSILON;
+/**
+ * …and every column of S (the drive at one port) where that error exceeds this in absolute terms:
+ * an ill-conditioned system (a tiny series resistance beside the terminations, say) whose
+ * transmissions would otherwise carry it.
+ */
+export const REFINE_ABS = 1e-10;
+/** A refined reflection with fewer significant digits than this gives a warning. */
+export const WARN_DIGITS = 12;
+
 /** The nodal system has no unique solution at some frequency (a floating node, say). */
 export class SingularSystemError extends Error {
   constructor(
@@ -72,6 +90,21 @@ export class SingularSystemError extends Error {
     this.name = 'SingularSystemError';
   }
 }
+
+/**
+ * A result at some frequency is not a finite number (an overflow the checks before the solve did
+ * not catch): raised instead of writing NaN or Infinity. `culprits` names the elements or unknowns
+ * whose values went out of range, where they could be found.
+ */
+export class NonFiniteResultError extends SingularSystemError {
+  constructor(message: string, frequency: number, culprits: string[], help?: string) {
+    super(message, frequency, culprits, help);
+    this.name = 'NonFiniteResultError';
+  }
+}
+
+/** The status {@link runPoints} leaves in `failStatus` for a point whose S values are not all finite. */
+const NON_FINITE = -3;
 
 /** Which linear solver the sweep uses. */
 export type SolverChoice = 'auto' | 'dense' | 'sparse';
@@ -129,6 +162,15 @@ interface LinearEngine {
   portVoltages(rhs: Float64Array, x: Float64Array, v: Float64Array): void;
   /** For explaining a failure: a solve with the last (ill-conditioned) factors, or undefined. */
   nullDirection(): Float64Array | undefined;
+  /** Solves A·x = b (one right-hand side, every unknown) with the factors of the current point. */
+  solveOne(b: Float64Array, x: Float64Array): void;
+  /**
+   * A cheap lower guess of the current point's condition number: 1/{@link lastRcond} where that was
+   * estimated, else the spread of the pivots (largest over smallest modulus; the sparse engine
+   * estimates the condition only where the pivots spread wider than {@link PIVOT_SPREAD_CHECK}),
+   * written to into[0] (a number returned from a call V8 does not inline would be boxed).
+   */
+  conditionHint(into: Float64Array): void;
 }
 
 /** The dense engine (classes, not closures: one set of functions for every sweep, which the JIT keeps). */
@@ -178,6 +220,12 @@ class DenseEngine implements LinearEngine {
     const b = new Float64Array(2 * n);
     for (let i = 0; i < n; i++) b[2 * i] = 1 + i / n;
     return luSolve(this.lu, b, new Float64Array(2 * n), 1);
+  }
+  solveOne(b: Float64Array, x: Float64Array): void {
+    luSolve(this.lu, b, x, 1);
+  }
+  conditionHint(into: Float64Array): void {
+    into[0] = 1 / this.lastRcond;
   }
 }
 
@@ -395,6 +443,14 @@ class SparseEngine implements LinearEngine {
     sparseSolve(this.used, b, x, 1);
     return x;
   }
+  solveOne(b: Float64Array, x: Float64Array): void {
+    sparseSolve(this.used, b, x, 1);
+  }
+  conditionHint(into: Float64Array): void {
+    const r = this.lastRcond;
+    const u = this.used;
+    into[0] = r > 0 ? 1 / r : u.pivotMax / u.pivotMin;
+  }
 }
 
 /** Estimated work of the forward and backward sweeps of a partial solve with `f` (units of {@link symmetricPortsCost}). */
@@ -457,7 +513,11 @@ export interface SweepOptions {
  * only the terminated nodal system must be regular.
  *
  * The loop over frequencies allocates nothing: the matrix, factors and right-hand sides are
- * allocated once.
+ * allocated once. Where a reflection is so small (or the system so ill-conditioned) that the
+ * rounding of this solve would show in it, that port's column is refined in double-double
+ * (solve/refine.ts; see {@link REFINE_TOL}); a warning says how many digits remain uncertain.
+ * A point whose S values are not all finite raises {@link NonFiniteResultError} instead of being
+ * written.
  */
 export function solveSweep(circuit: Circuit, options: SweepOptions = {}): NetworkData {
   const runner = new SweepRunner(circuit, options);
@@ -522,11 +582,14 @@ export class SweepRunner {
     for (let i = 0; i < p; i++) {
       const r = plan.portReference[i]!;
       const x = plan.portReactance[i]!;
-      const m = r * r + x * x;
-      kr[i] = (sqrtRef[i]! * r) / m;
-      ki[i] = (-sqrtRef[i]! * x) / m;
-      dr[i] = (r * r - x * x) / m;
-      di[i] = (-2 * r * x) / m;
+      // with t = X/R (scaled so that nothing overflows for large references):
+      // √R/Zref = (1 − jt)/(√R·(1 + t²)), Zref*/Zref = (1 − t² − 2jt)/(1 + t²)
+      const t = x / r;
+      const q = 1 + t * t;
+      kr[i] = 1 / (sqrtRef[i]! * q);
+      ki[i] = -t / (sqrtRef[i]! * q);
+      dr[i] = (1 - t * t) / q;
+      di[i] = (-2 * t) / q;
     }
     const out = into ?? new Float64Array(2 * p * p * freqs.length);
     if (out.length < 2 * p * p * freqs.length) throw new RangeError('sweep: the output array is too short for the sweep');
@@ -567,6 +630,15 @@ export class SweepRunner {
       worstRcond: WARN_RCOND,
       worstAt: NaN,
       failStatus: -1,
+      plan,
+      refiner: undefined,
+      refinedAt: -1,
+      solveOne: (b, x) => engine.solveOne(b, x),
+      dd: new Float64Array(4),
+      hint: new Float64Array(1),
+      fewestDigits: Infinity,
+      fewestAt: NaN,
+      fewestPort: -1,
     };
     this.frequencies = freqs;
     this.values = out;
@@ -586,17 +658,23 @@ export class SweepRunner {
   /** Solves the points k0 ≤ k < k1; throws {@link SingularSystemError} where the system is singular. */
   run(k0: number, k1: number): void {
     const failed = runPoints(this.loop, k0, k1);
+    if (failed >= 0 && this.loop.failStatus === NON_FINITE) throw explainNonFinite(this.circuit, this.plan, this.frequencies[failed]!, this.loop.vals, true);
     if (failed >= 0) throw explainSingular(this.circuit, this.plan, this.frequencies[failed]!, this.loop.failStatus >= 0 ? this.loop.failStatus : -1, this.engine);
   }
 
-  /** The smallest condition estimate seen below {@link WARN_RCOND}, and where (NaN: none). */
-  get worst(): { rcond: number; frequency: number } {
-    return { rcond: this.loop.worstRcond, frequency: this.loop.worstAt };
+  /**
+   * The smallest condition estimate seen below {@link WARN_RCOND}, and where (NaN: none); the
+   * fewest significant digits a refined reflection kept below {@link WARN_DIGITS}, where and at
+   * which port (0-based; NaN: none).
+   */
+  get worst(): SweepWorst {
+    const L = this.loop;
+    return { rcond: L.worstRcond, frequency: L.worstAt, digits: L.fewestDigits, digitsAt: L.fewestAt, digitsPort: L.fewestPort };
   }
 
-  /** The network data once every point is solved; gives the near-singularity warning if due. */
+  /** The network data once every point is solved; gives the near-singularity warnings if due. */
   finish(worst = this.worst): NetworkData {
-    if (!Number.isNaN(worst.frequency)) nearSingularWarning(this.onWarning, worst.rcond, worst.frequency);
+    sweepWarnings(this.onWarning, worst);
     const plan = this.plan;
     return {
       parameter: 'S',
@@ -610,9 +688,53 @@ export class SweepRunner {
   }
 }
 
+/** What a sweep (or a share of it) reports for its warnings; see {@link SweepRunner.worst}. */
+export interface SweepWorst {
+  rcond: number;
+  frequency: number;
+  digits: number;
+  digitsAt: number;
+  digitsPort: number;
+}
+
+/** The worse of two {@link SweepWorst} reports, field group by field group. */
+export function worseOf(a: SweepWorst, b: SweepWorst): SweepWorst {
+  const r = !Number.isNaN(b.frequency) && (Number.isNaN(a.frequency) || b.rcond < a.rcond) ? b : a;
+  const d = !Number.isNaN(b.digitsAt) && (Number.isNaN(a.digitsAt) || b.digits < a.digits) ? b : a;
+  return { rcond: r.rcond, frequency: r.frequency, digits: d.digits, digitsAt: d.digitsAt, digitsPort: d.digitsPort };
+}
+
+/**
+ * Gives the sweep's warnings: that the nodal system came close to singular (at the worst point),
+ * and that a small reflection kept few significant digits even after refinement — one message
+ * where both happened at the same frequency.
+ */
+export function sweepWarnings(onWarning: SweepOptions['onWarning'], w: SweepWorst): void {
+  const few = Number.isNaN(w.digitsAt) ? '' : fewDigits(w);
+  if (!Number.isNaN(w.frequency)) {
+    // the solve may lose about log10(condition number) of the 16 significant digits of a double
+    const lost = Math.min(16, Math.max(1, Math.round(-Math.log10(w.rcond))));
+    const same = w.digitsAt === w.frequency;
+    onWarning?.(
+      `the nodal system is nearly singular at ${formatFrequency(w.frequency)} (reciprocal condition ${w.rcond.toExponential(1)}): the results there may have lost about ${lost} of their 16 significant digits${same ? `; ${few}` : ''}`,
+      w.frequency,
+      w.rcond,
+    );
+    if (same) return;
+  }
+  if (few) onWarning?.(`at ${formatFrequency(w.digitsAt)}, ${few} (the system is ill-conditioned there, e.g. element values far apart in size)`, w.digitsAt, Math.pow(10, -Math.max(0, Math.floor(w.digits))));
+}
+
+/** The few-digits part of {@link sweepWarnings}. */
+function fewDigits(w: SweepWorst): string {
+  const i = w.digitsPort + 1;
+  const kept = Math.max(0, Math.floor(w.digits));
+  return `S${i}${i} (a reflection below the rounding of the ordinary solve, refined in extended precision) keeps only about ${kept} certain significant digits`;
+}
+
 /** Gives the warning that the nodal system came close to singular at `at` (Hz). */
 export function nearSingularWarning(onWarning: SweepOptions['onWarning'], rcond: number, at: number): void {
-  onWarning?.(`the nodal system is nearly singular at ${formatFrequency(at)} (reciprocal condition ${rcond.toExponential(1)}): the results there may have lost digits`, at, rcond);
+  sweepWarnings(onWarning, { rcond, frequency: at, digits: Infinity, digitsAt: NaN, digitsPort: -1 });
 }
 
 /** Everything the per-point loop reads and what it reports back (one plain object per sweep). */
@@ -638,6 +760,20 @@ interface PointLoop {
   worstAt: number;
   /** Out: the engine's status at the point that failed. */
   failStatus: number;
+  plan: StampPlan;
+  /** Made on first need: the double-double refinement of small reflections. */
+  refiner: Refiner | undefined;
+  /** The point whose matrix the refiner holds (−1: none). */
+  refinedAt: number;
+  solveOne: (b: Float64Array, x: Float64Array) => void;
+  /** Scratch: a port voltage in double-double. */
+  dd: Float64Array;
+  /** Scratch: the engine's condition hint of the current point. */
+  hint: Float64Array;
+  /** Out: the fewest significant digits of a refined reflection (Infinity: none), where and which port. */
+  fewestDigits: number;
+  fewestAt: number;
+  fewestPort: number;
 }
 
 /**
@@ -653,9 +789,15 @@ function runPoints(L: PointLoop, k0: number, k1: number): number {
   let k = k0;
   while (k < k1) {
     if (k + 1 < k1 && engine.stampFactorTwo(freqs, k, vals)) {
-      finishPoint(L, k);
+      if (finishPoint(L, k) !== 0) {
+        L.failStatus = NON_FINITE;
+        return k;
+      }
       engine.second();
-      finishPoint(L, k + 1);
+      if (finishPoint(L, k + 1) !== 0) {
+        L.failStatus = NON_FINITE;
+        return k + 1;
+      }
       if (L.onProgress) {
         L.onProgress(k + 1, total);
         L.onProgress(k + 2, total);
@@ -668,15 +810,22 @@ function runPoints(L: PointLoop, k0: number, k1: number): number {
       L.failStatus = status;
       return k;
     }
-    finishPoint(L, k);
+    if (finishPoint(L, k) !== 0) {
+      L.failStatus = NON_FINITE;
+      return k;
+    }
     if (L.onProgress) L.onProgress(k + 1, total);
     k++;
   }
   return -1;
 }
 
-/** For point k, factored: notes its condition estimate, solves for the port voltages, writes S. */
-function finishPoint(L: PointLoop, k: number): void {
+/**
+ * For point k, factored: notes its condition estimate, solves for the port voltages, writes S.
+ * Returns 0 when every S value written is finite, else NaN (the sum of x − x over the values: one
+ * subtraction and addition a value, no branch).
+ */
+function finishPoint(L: PointLoop, k: number): number {
   const { engine, rhs, x, v, out, p, invSqrtRef, complexRefs, kr, ki, dr, di } = L;
   if (engine.lastRcond < L.worstRcond) {
     L.worstRcond = engine.lastRcond;
@@ -684,6 +833,7 @@ function finishPoint(L: PointLoop, k: number): void {
   }
   engine.portVoltages(rhs, x, v);
   const base = 2 * p * p * k;
+  let finite = 0;
   for (let i = 0; i < p; i++) {
     const inv = invSqrtRef[i]!;
     for (let j = 0; j < p; j++) {
@@ -691,14 +841,86 @@ function finishPoint(L: PointLoop, k: number): void {
       const vr = v[q]!;
       const vi = v[q + 1]!;
       const o = base + q;
+      let sr: number;
+      let si: number;
       if (complexRefs) {
-        out[o] = vr * kr[i]! - vi * ki[i]! - (i === j ? dr[i]! : 0);
-        out[o + 1] = vr * ki[i]! + vi * kr[i]! - (i === j ? di[i]! : 0);
+        sr = vr * kr[i]! - vi * ki[i]! - (i === j ? dr[i]! : 0);
+        si = vr * ki[i]! + vi * kr[i]! - (i === j ? di[i]! : 0);
       } else {
-        out[o] = vr * inv - (i === j ? 1 : 0);
-        out[o + 1] = vi * inv;
+        sr = vr * inv - (i === j ? 1 : 0);
+        si = vi * inv;
       }
+      out[o] = sr;
+      out[o + 1] = si;
+      finite += sr - sr + (si - si);
     }
+  }
+  if (finite !== 0) return finite;
+  // small reflections whose rounding error would show: refined in double-double (seldom)
+  engine.conditionHint(L.hint);
+  const risk = REFINE_EPS * L.hint[0]!;
+  for (let i = 0; i < p; i++) {
+    const o = base + 2 * (i * p + i);
+    if (risk > REFINE_ABS || risk > REFINE_TOL * (Math.abs(out[o]!) + Math.abs(out[o + 1]!))) refineReflection(L, k, i, o);
+  }
+  return 0;
+}
+
+/**
+ * Replaces S_ii of point k (at out[o..o+1]) by its value from a double-double refinement of the
+ * port's solution (solve/refine.ts), and notes how many digits it keeps. Taken only for the
+ * points and ports {@link finishPoint} finds at risk.
+ */
+function refineReflection(L: PointLoop, k: number, i: number, o: number): void {
+  const plan = L.plan;
+  const refiner = (L.refiner ??= new Refiner(plan));
+  if (L.refinedAt !== k) {
+    refiner.assemble(2 * Math.PI * L.freqs[k]!);
+    L.refinedAt = k;
+  }
+  if (!refiner.refine(plan.portPlus[i]!, plan.portMinus[i]!, L.solveOne, L.dd)) return;
+  const out = L.out;
+  const r = plan.portReference[i]!;
+  const x = plan.portReactance[i]!;
+  const t = plan.portTermination;
+  const tl = plan.portTerminationLo;
+  reflectionFromPortVoltage(L.dd, r, x, t[2 * i]!, t[2 * i + 1]!, tl[2 * i]!, tl[2 * i + 1]!, out, o);
+  // the rest of the column from the refined solution: S_ji = v_j·√R_j/Zref_j, v_j = x_j·2√R_i/Zref_i
+  const p = L.p;
+  const xh = refiner.xh;
+  const xl = refiner.xl;
+  const dr = 2 * L.kr[i]!;
+  const di = 2 * L.ki[i]!;
+  for (let j = 0; j < p; j++) {
+    if (j === i) continue;
+    const pl = plan.portPlus[j]!;
+    const mi = plan.portMinus[j]!;
+    let vr = 0;
+    let vi = 0;
+    if (pl !== GROUND) {
+      vr += xh[2 * pl]! + xl[2 * pl]!;
+      vi += xh[2 * pl + 1]! + xl[2 * pl + 1]!;
+    }
+    if (mi !== GROUND) {
+      vr -= xh[2 * mi]! + xl[2 * mi]!;
+      vi -= xh[2 * mi + 1]! + xl[2 * mi + 1]!;
+    }
+    const wr = vr * dr - vi * di;
+    const wi = vr * di + vi * dr;
+    const q = o - 2 * (i * p + i) + 2 * (j * p + i);
+    out[q] = wr * L.kr[j]! - wi * L.ki[j]!;
+    out[q + 1] = wr * L.ki[j]! + wi * L.kr[j]!;
+  }
+  // the last correction bounds the port voltage's remaining relative error; S_ii ≈ 2R·x/Zref² − …
+  const m = Math.abs(out[o]!) + Math.abs(out[o + 1]!);
+  const v = Math.hypot(L.dd[0]!, L.dd[2]!) * ((2 * r) / (r * r + x * x));
+  // (at least the floor of a double-double residual: about ε² times the condition, relative)
+  const rel = (Math.max(refiner.lastStep, REFINE_EPS * Number.EPSILON * L.hint[0]!) * v) / m;
+  const digits = rel > 0 ? -Math.log10(rel) : Infinity;
+  if (digits < WARN_DIGITS && digits < L.fewestDigits) {
+    L.fewestDigits = digits;
+    L.fewestAt = L.freqs[k]!;
+    L.fewestPort = i;
   }
 }
 
@@ -726,6 +948,9 @@ function checkRanges(circuit: Circuit, freqs: Float64Array): void {
  */
 function explainSingular(circuit: Circuit, plan: StampPlan, f: number, pivot: number, engine: LinearEngine): SingularSystemError {
   const omega = 2 * Math.PI * f;
+  // a value out of floating-point range in the matrix makes the elimination fail: say so first
+  const bad = explainNonFinite(circuit, plan, f, new Float64Array(2 * plan.slotRow.length), false);
+  if (bad) return bad;
   const sets = new NodeSets(circuit.nodeNames.length);
   for (const r of circuit.localReferences) sets.join(r, GROUND);
   const opened: string[] = [];
@@ -766,10 +991,88 @@ function explainSingular(circuit: Circuit, plan: StampPlan, f: number, pivot: nu
   const culprits = blamed.map((i) => plan.unknownNames[i]!);
   const labels = blamed.map((i) => (plan.unknownNode[i]! >= 0 ? `node \`${plan.unknownNames[i]}\`` : plan.unknownNames[i]!));
   const shown = labels.slice(0, 8).join(', ') + (labels.length > 8 ? ` and ${labels.length - 8} more` : '');
+  // entries of extreme size make a system singular to working precision without any resonance
+  const vals = new Float64Array(2 * plan.slotRow.length);
+  stampAt(plan, omega, vals);
+  let big = 0;
+  for (let s = 0; s < plan.slotRow.length; s++) big = Math.max(big, Math.hypot(vals[2 * s]!, vals[2 * s + 1]!));
+  const extreme = big > 1e100;
   return new SingularSystemError(
-    `the circuit cannot be solved at ${at}: the nodal system is singular; ${shown} ${culprits.length === 1 ? 'is' : 'are'} not determined`,
+    `the circuit cannot be solved at ${at}: the nodal system is singular${culprits.length > 0 ? `; ${shown} ${culprits.length === 1 ? 'is' : 'are'} not determined` : ' to working precision'}`,
     f,
     culprits,
-    'look for a resonance with no loss that isolates part of the circuit at this frequency',
+    extreme
+      ? `its largest entry is ${big.toExponential(1)} (an element value or gain of extreme size); values this far apart leave floating-point range`
+      : 'look for a resonance with no loss that isolates part of the circuit at this frequency',
+  );
+}
+
+/**
+ * Names what gave values out of floating-point range at `f` (Hz): an element whose stamp is not
+ * finite, else the unknowns whose matrix entries are not. `always`: a result was not finite, so an
+ * error is returned even where every matrix entry is finite (then the solve overflowed); otherwise
+ * undefined in that case. `vals` is scratch of the plan's slot values' size.
+ */
+function explainNonFinite(circuit: Circuit, plan: StampPlan, f: number, vals: Float64Array, always: true): NonFiniteResultError;
+function explainNonFinite(circuit: Circuit, plan: StampPlan, f: number, vals: Float64Array, always: boolean): NonFiniteResultError | undefined;
+function explainNonFinite(circuit: Circuit, plan: StampPlan, f: number, vals: Float64Array, always: boolean): NonFiniteResultError | undefined {
+  const omega = 2 * Math.PI * f;
+  const at = formatFrequency(f);
+  const finite = (v: Float64Array) => v.every(Number.isFinite);
+  const help = 'look for an element value, length, loss or reference impedance so extreme that the numbers leave floating-point range';
+  // each per-element stamper alone
+  const one = new Float64Array(vals.length);
+  const names: string[] = [];
+  for (let e = 0; e < plan.stampers.length; e++) {
+    one.fill(0);
+    plan.stampers[e]!(omega, one);
+    if (!finite(one)) names.push(plan.stamperNames[e]!);
+  }
+  const where = (name: string) => {
+    const el = circuit.elements.find((x) => x.name === name);
+    return el && el.span.file ? ` (${el.span.file}:${el.span.line})` : '';
+  };
+  if (names.length === 0) {
+    // the batched and constant part: name the rows of the entries out of range
+    vals.set(plan.baseValues);
+    const w = Float64Array.of(omega);
+    plan.batch?.stamp(w, vals);
+    const rows = new Set<number>();
+    for (let s = 0; s < plan.slotRow.length; s++) if (!Number.isFinite(vals[2 * s]!) || !Number.isFinite(vals[2 * s + 1]!)) rows.add(plan.slotRow[s]!);
+    // the batched elements on those rows, each in a plan of its own (few: only those rows' elements)
+    const badNodes = new Set<number>();
+    for (const r of rows) if (plan.unknownNode[r]! >= 0) badNodes.add(plan.unknownNode[r]!);
+    for (const el of circuit.elements) {
+      if (names.length >= 9 || !el.nodes.some((nd) => badNodes.has(nd))) continue;
+      const alone = buildPlan({ ...circuit, elements: [el], ports: [] }, { lowestFrequency: plan.lowestFrequency });
+      const v = new Float64Array(2 * alone.slotRow.length);
+      stampAt(alone, omega, v);
+      if (!finite(v)) names.push(el.name);
+    }
+    if (names.length === 0) {
+      for (const r of rows) names.push(plan.unknownNode[r]! >= 0 ? `node \`${plan.unknownNames[r]}\`` : plan.unknownNames[r]!);
+      if (names.length > 0) {
+        const shown = names.slice(0, 8).join(', ') + (names.length > 8 ? ` and ${names.length - 8} more` : '');
+        return new NonFiniteResultError(`the circuit cannot be solved at ${at}: the matrix entries at ${shown} are out of floating-point range`, f, [...rows].map((r) => plan.unknownNames[r]!), help);
+      }
+    }
+  }
+  if (names.length === 0) {
+    if (!always) return undefined;
+    const refs = Array.from(plan.portReference);
+    const extreme = refs.some((r) => r > 1e100 || r < 1e-100);
+    return new NonFiniteResultError(
+      `the S-parameters at ${at} are out of floating-point range (not a finite number); no element's values are, so the solve overflowed`,
+      f,
+      [],
+      extreme ? 'a port reference impedance is extreme (above 1e100 or below 1e-100 ohm); give references of a practical size' : help,
+    );
+  }
+  const shown = names.slice(0, 8).map((n) => `\`${n}\`${where(n)}`).join(', ') + (names.length > 8 ? ` and ${names.length - 8} more` : '');
+  return new NonFiniteResultError(
+    `the circuit cannot be solved at ${at}: ${names.length === 1 ? 'element' : 'elements'} ${shown} ${names.length === 1 ? 'gives' : 'give'} values out of floating-point range`,
+    f,
+    names,
+    help,
   );
 }

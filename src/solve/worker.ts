@@ -3,7 +3,7 @@
  * other workers, straight into the shared output. Run by the pool of `parallel.ts` from the
  * compiled `dist/` tree.
  */
-import { SweepRunner } from './sweep.js';
+import { SweepRunner, type SweepWorst } from './sweep.js';
 import { unpackCircuit, type PackedCircuit } from './transfer.js';
 
 export interface SweepTask {
@@ -23,8 +23,8 @@ export interface SweepTask {
   chunk: number;
 }
 
-export interface ShareResult {
-  /** The smallest condition estimate below the warning level and its frequency (NaN: none). */
+export interface ShareResult extends SweepWorst {
+  /** The smallest condition estimate below the warning level and its frequency (NaN: none); see SweepRunner.worst. */
   rcond: number;
   frequency: number;
   /** A chunk this thread could not solve (its first point), or −1; the caller re-solves it to report why. */
@@ -61,6 +61,5 @@ export function solveChunks(runner: SweepRunner, task: Pick<SweepTask, 'counter'
 export default function solveShare(task: SweepTask): ShareResult {
   const runner = new SweepRunner(unpackCircuit(task.circuit), { frequencies: task.frequencies, pivotFrequency: task.pivotFrequency, lowestFrequency: task.lowestFrequency }, new Float64Array(task.out));
   const failedAt = solveChunks(runner, task);
-  const w = runner.worst;
-  return { rcond: w.rcond, frequency: w.frequency, failedAt };
+  return { ...runner.worst, failedAt };
 }
