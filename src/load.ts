@@ -119,9 +119,7 @@ export function loadNetlist(text: string, file: string, options: LoadOptions = {
   }
 
   const circuit = elaborate(ast, bag, { overrides, sweep, readNetwork, consume: true });
-  if (options.strict) {
-    for (let i = 0; i < bag.items.length; i++) if (bag.items[i]!.severity === 'warning') bag.items[i] = { ...bag.items[i]!, severity: 'error' };
-  }
+  if (options.strict) bag.warningsAsErrors();
   if (bag.hasErrors) throw new InputError(bag.items, sources);
   return { circuit, warnings: bag.items.filter((d) => d.severity === 'warning'), sources };
 }

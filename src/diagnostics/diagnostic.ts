@@ -56,6 +56,14 @@ export class DiagnosticBag {
   get hasErrors(): boolean {
     return this.errors > 0;
   }
+  /** Makes every warning an error, with the same code, message and place (strict loading). */
+  warningsAsErrors(): void {
+    for (let i = 0; i < this.items.length; i++) {
+      if (this.items[i]!.severity !== 'warning') continue;
+      this.items[i] = { ...this.items[i]!, severity: 'error' };
+      this.errors++;
+    }
+  }
   /** Adds a diagnostic unless the very same one is there already (a block used twice repeats its findings). */
   add(d: Diagnostic): void {
     const key = `${d.severity}\u0000${d.code}\u0000${d.message}\u0000${d.span?.file}\u0000${d.span?.line}\u0000${d.span?.column}`;
