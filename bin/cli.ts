@@ -17,7 +17,7 @@ import { checkBatchNames, checkDistinctOutputs, checkOutputs, ensureFolder } fro
 import { expandInputs, InputsError } from '../src/io/inputs.js';
 import { loadNetworkFile } from '../src/io/read.js';
 import { touchstoneExtension } from '../src/io/touchstone.js';
-import { formatFigureTable } from '../src/io/table.js';
+import { figureTableChunks, tableChunks } from '../src/io/table.js';
 import { convertData, parsePairs, parseReferences, type ConvertTarget } from '../src/io/convert-file.js';
 import { evaluateQuantity } from '../src/load.js';
 import { microstripDispersive, microstripStatic, microstripWidth } from '../src/models/microstrip.js';
@@ -29,7 +29,6 @@ import {
   convertNetwork,
   ConversionError,
   formatDiagnostics,
-  formatTable,
   InputError,
   loadNetlistFile,
   OutputError,
@@ -416,11 +415,11 @@ async function runSolve(a: SolveArgs, io: Io): Promise<number> {
         const f = parseFigure(text, { ports: net.ports });
         return { name: f.canonical, unit: f.spec.unit, values: f.evaluate(net) };
       });
-      io.out(formatFigureTable(net.frequencies, columns, a.format === 'csv'));
+      for (const piece of figureTableChunks(net.frequencies, columns, a.format === 'csv')) io.out(piece);
       return EXIT_OK;
     }
     if (!a.out) {
-      if (!a.format || a.format === 'table') io.out(formatTable(a.param === 'S' ? net : convertNetwork(net, a.param)));
+      if (!a.format || a.format === 'table') for (const piece of tableChunks(a.param === 'S' ? net : convertNetwork(net, a.param))) io.out(piece);
       else io.out(renderNetwork(net, { ...options(files[0]!), format: a.format }));
       return EXIT_OK;
     }

@@ -44,7 +44,7 @@ export { formatJson, parseJson, JsonNetworkError } from './io/json.js';
 export { writeFileAtomic, writeFileAtomicSync, sweepTempFiles } from './io/atomic.js';
 export { checkOutputs, checkOutputTarget, ensureFolder, checkDistinctOutputs, checkBatchNames, explainWriteError, resolveWriteTarget, WriteError, type WriteTarget } from './io/guard.js';
 export { renderNetwork, renderNetworkChunks, writeNetwork, formatFromPath, OutputError, type OutputFormat, type OutputOptions } from './io/output.js';
-export { formatTable } from './io/table.js';
+export { formatTable, tableChunks, formatFigureTable, figureTableChunks } from './io/table.js';
 export {
   toTwoPort,
   fromTwoPort,

@@ -14,10 +14,36 @@ function pad(s: string, w: number): string {
 }
 
 /**
- * A compact text table for the terminal: the frequency, then |Sij| in dB and ∠Sij in degrees for
- * every entry (row-major). Magnitudes below −999.99 dB are shown as `-inf`.
+ * Right-aligned columns of text, handed out in pieces of a few hundred lines. The column widths
+ * come from a first pass that formats every cell and keeps only the widths, so a sweep of
+ * millions of points is never held as rows of strings (nor spread into one call).
  */
-export function formatTable(net: NetworkData): string {
+function* alignedChunks(heads: readonly string[], rowCount: number, cells: (k: number, out: string[]) => void): Generator<string> {
+  const widths = heads.map((h) => h.length);
+  const row: string[] = [];
+  for (let k = 0; k < rowCount; k++) {
+    row.length = 0;
+    cells(k, row);
+    for (let c = 0; c < row.length; c++) if (row[c]!.length > widths[c]!) widths[c] = row[c]!.length;
+  }
+  let piece = heads.map((h, c) => pad(h, widths[c]!)).join('  ') + '\n';
+  for (let k = 0; k < rowCount; k++) {
+    row.length = 0;
+    cells(k, row);
+    piece += row.map((x, c) => pad(x, widths[c]!)).join('  ') + '\n';
+    if (k % 256 === 255) {
+      yield piece;
+      piece = '';
+    }
+  }
+  if (piece) yield piece;
+}
+
+/**
+ * A compact text table for the terminal: the frequency, then |Sij| in dB and ∠Sij in degrees for
+ * every entry (row-major). Magnitudes below −999.99 dB are shown as `-inf`. Handed out in pieces.
+ */
+export function tableChunks(net: NetworkData): Iterable<string> {
   const n = net.ports;
   const { unit, scale } = pickFrequencyUnit(net.frequencies.length ? net.frequencies[net.frequencies.length - 1]! : 0);
   const sep = n >= 10 ? ',' : '';
@@ -25,9 +51,8 @@ export function formatTable(net: NetworkData): string {
   for (let i = 1; i <= n; i++) {
     for (let j = 1; j <= n; j++) heads.push(`|${net.parameter}${i}${sep}${j}|/dB`, `∠${net.parameter}${i}${sep}${j}/°`);
   }
-  const rows: string[][] = [];
-  for (let k = 0; k < net.frequencies.length; k++) {
-    const row = [formatFixed(net.frequencies[k]! / scale, 6)];
+  return alignedChunks(heads, net.frequencies.length, (k, row) => {
+    row.push(formatFixed(net.frequencies[k]! / scale, 6));
     for (let t = 0; t < n * n; t++) {
       const re = net.values[2 * (k * n * n + t)]!;
       const im = net.values[2 * (k * n * n + t) + 1]!;
@@ -35,12 +60,12 @@ export function formatTable(net: NetworkData): string {
       const db = 20 * Math.log10(mag);
       row.push(db < -999.99 ? '-inf' : db.toFixed(2), mag === 0 ? '0.0' : ((Math.atan2(im, re) * 180) / Math.PI).toFixed(1));
     }
-    rows.push(row);
-  }
-  const widths = heads.map((h, c) => Math.max(h.length, ...rows.map((r) => r[c]!.length)));
-  const lines = [heads.map((h, c) => pad(h, widths[c]!)).join('  ')];
-  for (const r of rows) lines.push(r.map((x, c) => pad(x, widths[c]!)).join('  '));
-  return lines.join('\n') + '\n';
+  });
+}
+
+/** {@link tableChunks} as one string. */
+export function formatTable(net: NetworkData): string {
+  return [...tableChunks(net)].join('');
 }
 
 function formatFixed(x: number, digits: number): string {
@@ -70,22 +95,30 @@ function figureCell(v: number, unit: string): string {
  * point (e.g. the maximum available gain of a potentially unstable device, shown `n/a` in the
  * terminal) is an empty field, never NaN or Infinity.
  */
-export function formatFigureTable(frequencies: Float64Array, columns: FigureColumn[], csv = false): string {
-  if (csv) {
-    const head = ['freq_hz', ...columns.map((c) => (c.unit ? `${c.name}_${c.unit}` : c.name))];
-    const lines = [csvRow(head)];
-    const cell = (v: number): string => (Number.isFinite(v) ? String(v) : '');
-    for (let k = 0; k < frequencies.length; k++) lines.push([cell(frequencies[k]!), ...columns.map((c) => cell(c.values[k]!))].join(','));
-    return lines.join('\n') + '\n';
-  }
+export function figureTableChunks(frequencies: Float64Array, columns: FigureColumn[], csv = false): Iterable<string> {
+  if (csv) return figureCsvChunks(frequencies, columns);
   const { unit, scale } = pickFrequencyUnit(frequencies.length ? frequencies[frequencies.length - 1]! : 0);
   const heads = [`f/${unit}`, ...columns.map((c) => (c.unit === 's' ? `${c.name}/ns` : c.unit ? `${c.name}/${c.unit}` : c.name))];
-  const rows: string[][] = [];
+  return alignedChunks(heads, frequencies.length, (k, row) => {
+    row.push(formatFixed(frequencies[k]! / scale, 6));
+    for (const c of columns) row.push(figureCell(c.values[k]!, c.unit));
+  });
+}
+
+function* figureCsvChunks(frequencies: Float64Array, columns: FigureColumn[]): Generator<string> {
+  const cell = (v: number): string => (Number.isFinite(v) ? String(v) : '');
+  let piece = csvRow(['freq_hz', ...columns.map((c) => (c.unit ? `${c.name}_${c.unit}` : c.name))]) + '\n';
   for (let k = 0; k < frequencies.length; k++) {
-    rows.push([formatFixed(frequencies[k]! / scale, 6), ...columns.map((c) => figureCell(c.values[k]!, c.unit))]);
+    piece += [cell(frequencies[k]!), ...columns.map((c) => cell(c.values[k]!))].join(',') + '\n';
+    if (k % 256 === 255) {
+      yield piece;
+      piece = '';
+    }
   }
-  const widths = heads.map((h, c) => Math.max(h.length, ...rows.map((r) => r[c]!.length)));
-  const lines = [heads.map((h, c) => pad(h, widths[c]!)).join('  ')];
-  for (const r of rows) lines.push(r.map((x, c) => pad(x, widths[c]!)).join('  '));
-  return lines.join('\n') + '\n';
+  if (piece) yield piece;
+}
+
+/** {@link figureTableChunks} as one string. */
+export function formatFigureTable(frequencies: Float64Array, columns: FigureColumn[], csv = false): string {
+  return [...figureTableChunks(frequencies, columns, csv)].join('');
 }
