@@ -85,10 +85,11 @@ function save(kind, i, spec, c, o) {
   if (!entry) {
     const dir = join(out, o.status, `${String(classes.size + 1).padStart(3, '0')}-${slug(cls)}`);
     mkdirSync(dir, { recursive: true });
-    entry = { status: o.status, count: 0, dir, first: { kind, i, spec, c, o }, reasons: [] };
+    entry = { status: o.status, count: 0, dir, first: { kind, i, spec, c, o }, reasons: [], hangs: [] };
     classes.set(cls, entry);
   }
   entry.count++;
+  if (o.status === 'hang' && entry.hangs.length < 3) entry.hangs.push(c);
   if (entry.count > opts.save) return;
   const base = `${kind}-${i}`;
   const ext = kind === 'netlist' ? '.sbx' : c.name.replace(/^.*?(\.[^./]*)?$/, '$1') || '.txt';
@@ -178,6 +179,19 @@ if (opts.minimize > 0) {
 }
 await pool.close();
 
+// On a busy machine a slow case can pass the watchdog: run up to three inputs of each hang class
+// again with a watchdog 15 times as long, and report how long they take.
+const confirm = new Map();
+const hangClasses = [...classes.entries()].filter(([, e]) => e.status === 'hang');
+if (hangClasses.length) {
+  const long = new FuzzPool({ libPath: LIB, workers: opts.workers, timeoutMs: opts.timeout * 15 });
+  for (const [cls, e] of hangClasses) {
+    const results = await Promise.all(e.hangs.map((c) => long.run(c)));
+    confirm.set(cls, results.map((o) => (o.status === 'hang' ? `> ${opts.timeout * 15} ms` : `${o.ms} ms (${o.status})`)).join(', '));
+  }
+  await long.close();
+}
+
 // Report
 const secs = ((Date.now() - t0) / 1000).toFixed(0);
 const lines = [];
@@ -192,7 +206,10 @@ lines.push('');
 const sorted = [...classes.entries()].sort((a, b) => b[1].count - a[1].count);
 if (sorted.length) {
   lines.push(`failing classes (${sorted.length}), inputs saved in ${opts.out}/:`);
-  for (const [cls, e] of sorted) lines.push(`  ${String(e.count).padStart(6)}  ${cls}   [${e.dir.slice(out.length + 1)}]`);
+  for (const [cls, e] of sorted) {
+    lines.push(`  ${String(e.count).padStart(6)}  ${cls}   [${e.dir.slice(out.length + 1)}]`);
+    if (confirm.has(cls)) lines.push(`          run again with a ${opts.timeout * 15} ms watchdog: ${confirm.get(cls)}`);
+  }
 }
 if (documented.size) {
   lines.push('');

@@ -1,12 +1,13 @@
-// A pool of worker threads that judge fuzz cases with a watchdog: a case that runs longer than
-// `timeoutMs` is a hang; its worker is terminated and replaced. A worker that dies (out of
+// A pool of worker processes (child processes, so that a fatal V8 error such as an invalid array
+// size aborts only the worker) that judge fuzz cases with a watchdog: a case that runs longer
+// than `timeoutMs` is a hang; its worker is killed and replaced. A worker that dies (out of
 // memory, a native abort) gives a crash outcome for its case and is replaced too.
 import { readdirSync, readFileSync, statSync } from 'node:fs';
 import { join, relative } from 'node:path';
-import { pathToFileURL } from 'node:url';
-import { Worker } from 'node:worker_threads';
+import { fileURLToPath, pathToFileURL } from 'node:url';
+import { fork } from 'node:child_process';
 
-const WORKER = new URL('./worker.mjs', import.meta.url);
+const WORKER = fileURLToPath(new URL('./worker.mjs', import.meta.url));
 
 /**
  * The demo netlists and every file under `root` (circuits/): texts by path relative to `root`.
@@ -45,7 +46,14 @@ export class FuzzPool {
   }
 
   start(slot) {
-    const worker = new Worker(WORKER, { workerData: { libUrl: this.libUrl }, resourceLimits: { maxOldGenerationSizeMb: this.memoryMb } });
+    const worker = fork(WORKER, [this.libUrl], {
+      serialization: 'advanced',
+      execArgv: [`--max-old-space-size=${this.memoryMb}`],
+      stdio: ['ignore', 'ignore', 'pipe', 'ipc'],
+    });
+    // The last lines a dying worker wrote (a V8 fatal error names its cause there).
+    worker.tail = '';
+    worker.stderr.on('data', (d) => (worker.tail = (worker.tail + d).slice(-2000)));
     slot.worker = worker;
     slot.ready = new Promise((resolve, reject) => {
       const onMessage = (m) => {
@@ -57,6 +65,7 @@ export class FuzzPool {
       };
       worker.on('message', onMessage);
       worker.once('error', reject);
+      worker.once('exit', (code) => reject(new Error(`the worker exited at start (code ${code}): ${worker.tail}`)));
     });
     // A worker that died between cases is replaced at its next use.
     worker.once('exit', () => {
@@ -112,28 +121,33 @@ export class FuzzPool {
         worker.off('exit', onExit);
         if (kill) {
           slot.worker = null;
-          worker.terminate().catch(() => {});
+          worker.kill('SIGKILL');
         }
         resolve({ ...outcome, ms: Math.round(performance.now() - t0) });
       };
       const onMessage = (m) => {
         if (m && m.id === id) finish(m.outcome, false);
       };
-      const onError = (e) => {
-        const oom = e && e.code === 'ERR_WORKER_OUT_OF_MEMORY';
-        finish({ status: 'crash', reason: oom ? `worker ran out of memory (${this.memoryMb} MB heap)` : `worker died: ${e && e.message}`, stack: e && e.stack }, true);
+      const onError = (e) => finish({ status: 'crash', reason: `worker failed: ${e && e.message}`, stack: e && e.stack }, true);
+      const onExit = (code, signal) => {
+        // Give the worker's stderr a moment to arrive, then name the cause from it.
+        setTimeout(() => {
+          const tail = worker.tail ?? '';
+          const fatal = /Fatal (?:JavaScript )?(.*)|(heap out of memory)|(Maximum call stack)/i.exec(tail);
+          const cause = fatal ? (fatal[1] ?? fatal[2] ?? fatal[3]).replace(/\d+/g, 'N').trim() : `exit code ${code}, signal ${signal}`;
+          finish({ status: 'crash', reason: `process aborted: ${cause}`, stack: tail.split('\n').slice(0, 12).join('\n') }, true);
+        }, 50);
       };
-      const onExit = (code) => finish({ status: 'crash', reason: `worker exited (code ${code})` }, true);
       const timer = setTimeout(() => finish({ status: 'hang', reason: `no result within ${this.timeoutMs} ms` }, true), this.timeoutMs);
       worker.on('message', onMessage);
       worker.on('error', onError);
       worker.on('exit', onExit);
-      worker.postMessage({ id, c: job.c });
+      worker.send({ id, c: job.c });
     });
   }
 
   async close() {
-    await Promise.all(this.slots.map((s) => (s.worker ? s.worker.terminate() : undefined)));
+    for (const s of this.slots) if (s.worker) s.worker.kill('SIGKILL');
     this.slots.forEach((s) => (s.worker = null));
   }
 }
