@@ -1,6 +1,6 @@
 #!/usr/bin/env node
 // `npm run fuzz`: a seeded fuzz run of the compiled library (dist/) on mutated and generated
-// netlists and network-data files (engine: test/fuzz/engine.mjs), in worker threads with a
+// netlists and network-data files (engine: test/fuzz/engine.mjs), in child processes with a
 // watchdog. Prints counts, writes every failing input to fuzz-out/ grouped by class, and exits
 // non-zero on any crash, hang or non-finite output.
 //

@@ -16,7 +16,7 @@
  * practice for fuzzing: a crash oracle plus an output-validity oracle). Inputs are drawn by
  * fast-check with fixed seeds as small records of integers (`CaseSpec`) that test/fuzz/engine.mjs
  * turns into texts, so fast-check shrinks them to few mutations; a failure prints the shrunk input
- * text (JSON-escaped) and the reason. The cases run in worker threads on the compiled library
+ * text (JSON-escaped) and the reason. The cases run in child processes on the compiled library
  * (dist/, built by `npm test` first) so that a watchdog can stop an endless loop: 30 s, generous,
  * not a timing assertion. `npm run fuzz` is the long run of the same engine (scripts/fuzz.mjs).
  */
