@@ -225,6 +225,7 @@ export function parseJson(text: string): NetworkData {
     }
   });
   const freqs = numberArray(text, doc['frequency_hz'], 'frequency_hz', 'frequency_hz');
+  if (freqs.length === 0) fail(text, 'frequency_hz is empty: network data needs at least one frequency point', 'frequency_hz');
   freqs.forEach((f, k) => {
     if (f < 0) fail(text, `frequency_hz[${k}] is ${f}: frequencies must not be negative`, 'frequency_hz');
     if (k > 0 && !(f > freqs[k - 1]!)) fail(text, `frequency_hz[${k}] (${f} Hz) is not above frequency_hz[${k - 1}] (${freqs[k - 1]} Hz): frequencies must increase`, 'frequency_hz');
