@@ -65,7 +65,7 @@ export function loadNetlist(text: string, file: string, options: LoadOptions = {
       net = extname(path).toLowerCase() === '.json' ? parseJson(body) : parseTouchstone(body, { fileName: path, onWarning });
     } catch (e) {
       if (e instanceof TouchstoneError) throw new DataFileError(e.message, { file: path, line: e.line, column: e.column, length: 1 });
-      if (e instanceof JsonNetworkError && e.line !== undefined) throw new DataFileError(e.message, { file: path, line: e.line, column: e.column ?? 1, length: 1 });
+      if (e instanceof JsonNetworkError) throw new DataFileError(e.message, { file: path, line: e.line, column: e.column, length: 1 });
       throw new DataFileError((e as Error).message);
     }
     // a mixed-mode file's rows are modes; the element's terminals are the single-ended ports

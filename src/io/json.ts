@@ -92,7 +92,7 @@ export function formatJson(net: NetworkData, opts: JsonWriteOptions = {}): strin
  * that overflows).
  */
 export class JsonNetworkError extends Error {
-  constructor(message: string, readonly line?: number, readonly column?: number) {
+  constructor(message: string, readonly line: number, readonly column: number) {
     super(message);
     this.name = 'JsonNetworkError';
   }
@@ -170,9 +170,110 @@ function findOverflow(text: string): { literal: string; path: string; line: numb
   return undefined;
 }
 
+/** Where the document starts: its first character that is not white space (JSON's four). */
+function documentStart(text: string): { line: number; column: number } {
+  const m = /[^ \t\n\r]/.exec(text);
+  return placeOf(text, m ? m.index : text.length);
+}
+
 function fail(text: string, message: string, key?: string): never {
-  const at = key === undefined ? {} : keyPlace(text, key);
+  const found = key === undefined ? {} : keyPlace(text, key);
+  const at = found.line !== undefined && found.column !== undefined ? { line: found.line, column: found.column } : documentStart(text);
   throw new JsonNetworkError(`JSON network: ${message}`, at.line, at.column);
+}
+
+/**
+ * The offset of the first syntax error of a JSON text (RFC 8259), found by a loop with an explicit
+ * stack (no recursion, whatever the nesting), or -1 when the text is valid JSON. The engine's own
+ * messages do not always give a position; this does, so every syntax error points into the file.
+ */
+export function jsonSyntaxErrorAt(text: string): number {
+  const n = text.length;
+  const stack: number[] = []; // 0: in an array, 1: in an object
+  let i = 0;
+  const ws = () => {
+    while (i < n) {
+      const c = text.charCodeAt(i);
+      if (c === 32 || c === 9 || c === 10 || c === 13) i++;
+      else break;
+    }
+  };
+  const string = (): boolean => {
+    i++; // the opening quote
+    while (i < n) {
+      const c = text.charCodeAt(i);
+      if (c === 34) {
+        i++;
+        return true;
+      }
+      if (c < 32) return false;
+      if (c === 92) {
+        const e = text[i + 1];
+        if (e === 'u') {
+          if (!/^[0-9a-fA-F]{4}$/.test(text.slice(i + 2, i + 6))) return false;
+          i += 6;
+        } else if (e !== undefined && '"\\/bfnrt'.includes(e)) i += 2;
+        else return false;
+      } else i++;
+    }
+    return false;
+  };
+  const numberRe = /-?(?:0|[1-9]\d*)(?:\.\d+)?(?:[eE][+-]?\d+)?/y;
+  for (;;) {
+    // a value is expected here
+    ws();
+    if (i >= n) return n;
+    const c = text[i]!;
+    if (c === '{' || c === '[') {
+      i++;
+      ws();
+      const close = c === '{' ? '}' : ']';
+      if (text[i] === close) {
+        i++;
+      } else {
+        stack.push(c === '{' ? 1 : 0);
+        if (c === '{') {
+          if (text[i] !== '"' || !string()) return Math.min(i, n);
+          ws();
+          if (text[i] !== ':') return Math.min(i, n);
+          i++;
+        }
+        continue;
+      }
+    } else if (c === '"') {
+      if (!string()) return Math.min(i, n);
+    } else if (c === '-' || (c >= '0' && c <= '9')) {
+      numberRe.lastIndex = i;
+      const m = numberRe.exec(text);
+      if (!m) return i;
+      i += m[0].length;
+    } else if (text.startsWith('true', i)) i += 4;
+    else if (text.startsWith('false', i)) i += 5;
+    else if (text.startsWith('null', i)) i += 4;
+    else return i;
+    // after a value: close containers, or a comma and the next value
+    for (;;) {
+      ws();
+      if (stack.length === 0) return i < n ? i : -1;
+      const inObject = stack[stack.length - 1] === 1;
+      if (i >= n) return n;
+      if (text[i] === (inObject ? '}' : ']')) {
+        stack.pop();
+        i++;
+        continue;
+      }
+      if (text[i] !== ',') return i;
+      i++;
+      if (inObject) {
+        ws();
+        if (text[i] !== '"' || !string()) return Math.min(i, n);
+        ws();
+        if (text[i] !== ':') return Math.min(i, n);
+        i++;
+      }
+      break;
+    }
+  }
 }
 
 function numberArray(text: string, x: unknown, where: string, key: string, length?: number): number[] {
@@ -201,9 +302,14 @@ export function parseJson(text: string): NetworkData {
     doc = JSON.parse(text);
   } catch (e) {
     const msg = (e as Error).message;
+    const found = jsonSyntaxErrorAt(text);
     const pos = /position (\d+)/.exec(msg);
-    const at = pos ? placeOf(text, Number(pos[1])) : undefined;
-    throw new JsonNetworkError(`JSON network: not valid JSON (${msg})`, at?.line, at?.column);
+    const at = placeOf(text, found >= 0 ? found : pos ? Number(pos[1]) : 0);
+    const what =
+      found >= text.length || (found < 0 && !pos)
+        ? 'not valid JSON: the text ends before the document does'
+        : `not valid JSON: unexpected ${JSON.stringify(text[found >= 0 ? found : Number(pos![1])] ?? '')} here`;
+    throw new JsonNetworkError(`JSON network: ${what}`, at.line, at.column);
   }
   if (!isObject(doc)) fail(text, 'the top level must be an object');
   if (doc['schema'] !== JSON_SCHEMA_ID) {

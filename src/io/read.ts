@@ -47,8 +47,7 @@ export function loadNetworkFile(path: string): LoadedNetworkFile {
       throw new InputError([{ severity: 'error', code: 'bad-data-file', message: e.message, span: { file: path, line: e.line, column: e.column, length: 1 } }], sources);
     }
     if (e instanceof JsonNetworkError) {
-      const span = e.line === undefined ? undefined : { file: path, line: e.line, column: e.column ?? 1, length: 1 };
-      throw new InputError([{ severity: 'error', code: 'bad-data-file', message: span ? e.message : `${path}: ${e.message}`, span }], sources);
+      throw new InputError([{ severity: 'error', code: 'bad-data-file', message: e.message, span: { file: path, line: e.line, column: e.column, length: 1 } }], sources);
     }
     throw e;
   }
