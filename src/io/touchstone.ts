@@ -252,14 +252,21 @@ export function checkDigits(digits: number | undefined, fallback: number): numbe
 
 /** Shortest text that reads back as `x` rounded to `digits` significant digits. */
 export function formatShortest(x: number, digits?: number): string {
-  const v = digits === undefined ? x : Number(x.toPrecision(digits));
+  let v = digits === undefined ? x : Number(x.toPrecision(digits));
+  if (!Number.isFinite(v)) v = x; // rounded up past the largest double (1.7976931348623157e308 to 2 digits): keep it exact
   return v === 0 ? '0' : String(v);
 }
 
 /** Exponent form with `digits` significant digits and an exponent of at least two digits. */
 function formatExp(x: number, digits: number): string {
   const v = x === 0 ? 0 : x; // -0 → 0
-  const s = v.toExponential(digits - 1);
+  let s = v.toExponential(digits - 1);
+  if (!Number.isFinite(Number(s))) {
+    // rounded up past the largest double: cut the exact 17-digit form instead (toward zero, so finite)
+    const full = v.toExponential(16);
+    const e = full.indexOf('e');
+    s = full.slice(0, digits === 1 ? (v < 0 ? 2 : 1) : (v < 0 ? 2 : 1) + digits) + full.slice(e);
+  }
   const e = s.indexOf('e');
   const exp = s.slice(e + 2);
   return `${s.slice(0, e)}e${s[e + 1]}${exp.length < 2 ? '0' + exp : exp}`;

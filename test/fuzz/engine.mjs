@@ -646,7 +646,7 @@ export function judgeError(lib, e, sources) {
     if (!e.diagnostics.some((d) => d.severity === 'error')) return { status: 'crash', reason: 'InputError with no error diagnostic', ...base };
     return { status: 'located', reason: e.diagnostics.find((d) => d.severity === 'error').message, ...base };
   }
-  if (e instanceof lib.JsonNetworkError) {
+  if (lib.JsonNetworkError && e instanceof lib.JsonNetworkError) {
     const p = placeProblem([...sources.keys()].at(-1), e.line, e.column, sources);
     if (p) return { status: 'crash', reason: `${p}: ${short(e.message)}`, ...base };
     return { status: 'located', reason: e.message, ...base };
