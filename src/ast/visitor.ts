@@ -250,7 +250,9 @@ export function parseNetlistItems(text: string, file: string, bag: DiagnosticBag
       left++;
       continued = line.includes('\\');
     } else {
-      rest.push('');
+      // blanked to one space, not to nothing: a lone `\r` before it and a `\n` after it must not
+      // join into one `\r\n` line break
+      rest.push(line === '' ? '' : ' ');
       if (read !== BLANK) fast.push({ keyword: internKeyword(read.keyword), pending: line, line: lineNo, file });
     }
     rest.push(m ? m[0] : '');

@@ -101,6 +101,8 @@ interface BlockDefinition {
   used: boolean;
   /** Elements one instance expands to, counting nested instances (Infinity when it cannot be expanded). */
   size: number;
+  /** Statements an instance runs, nested instances counted (elements, instances and the rest alike). */
+  statements: number;
   /** Levels of block instances one instance opens, itself included. */
   depth: number;
   /** On a cycle of blocks using each other, or using such a block (already reported). */
@@ -216,6 +218,7 @@ export function elaborate(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, op
 
   /** Elements of the flattened netlist so far (instances counted whole when they are opened). */
   let expanded = 0;
+  let statementsRun = 0;
   run(topStatements, topContext);
 
   function run(statements: (StatementItem | undefined)[], ctx: Context) {
@@ -310,7 +313,16 @@ export function elaborate(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, op
         expanded = Infinity;
         return;
       }
+      if (statementsRun + block.statements > MAX_EXPANDED_ELEMENTS) {
+        // elements within the limit, but instances of blocks that bring few or no elements (e.g. a
+        // chain of blocks ending in an unknown one) would still run that many statements
+        const size = block.statements < 1e15 ? `${block.statements}` : 'more than 10^15';
+        bag.error('too-many-elements', `an instance of ${what} expands to ${size} statements; with the others that is more than ${MAX_EXPANDED_ELEMENTS} (the limit of elements and statements after blocks are expanded)`, st.keywordSpan, 'blocks that use other blocks several times multiply their statements');
+        expanded = Infinity;
+        return;
+      }
       expanded += block.size;
+      statementsRun += block.statements;
     }
     if (ctx.chain.includes(block.name)) {
       const chain = [...ctx.chain.slice(ctx.chain.indexOf(block.name)), block.name].join(' → ');
@@ -881,7 +893,7 @@ function splitBlocks(statements: readonly StatementItem[], bag: DiagnosticBag): 
       }
       const def = blockHeader(st, bag);
       if (!def) {
-        open = { name: '?', header: st, terminals: [], params: new Map(), body: [], used: true, size: 0, depth: 1, broken: true };
+        open = { name: '?', header: st, terminals: [], params: new Map(), body: [], used: true, size: 0, statements: 0, depth: 1, broken: true };
         continue;
       }
       if (blocks.has(def.name) || ELEMENTS.has(def.name) || (STATEMENT_KEYWORDS as readonly string[]).includes(def.name)) {
@@ -948,6 +960,7 @@ function measureBlocks(blocks: Map<string, BlockDefinition>, bag: DiagnosticBag)
       // all children done: measure this block
       const b = top.block;
       let size = 0;
+      let statements = b.body.length;
       let depth = 1;
       for (const st of b.body) {
         const c = blocks.get(st.keyword);
@@ -957,9 +970,11 @@ function measureBlocks(blocks: Map<string, BlockDefinition>, bag: DiagnosticBag)
         }
         if (c.broken) b.broken = true;
         size += c.size;
+        statements += c.statements;
         depth = Math.max(depth, c.depth + 1);
       }
       b.size = size;
+      b.statements = statements;
       b.depth = depth;
       colour.set(b, BLACK);
       stack.pop();
@@ -1015,7 +1030,7 @@ function blockHeader(st: Statement, bag: DiagnosticBag): BlockDefinition | undef
       ok = false;
     }
   }
-  return ok ? { name: st.label.text, header: st, terminals, params, body: [], used: false, size: 0, depth: 1, broken: false } : undefined;
+  return ok ? { name: st.label.text, header: st, terminals, params, body: [], used: false, size: 0, statements: 0, depth: 1, broken: false } : undefined;
 }
 
 /** 1e-6, 1e9: a limit as written in the documentation. */

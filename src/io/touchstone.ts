@@ -65,6 +65,7 @@
  * - Output is made only of ECMAScript-specified conversions (toExponential, toPrecision, String)
  *   and Math functions, with "\n" line ends: no locale, no clock, so the same bytes every run.
  */
+import { OutputError } from './guard.js';
 import { MAX_NETWORK_VALUES, MAX_PORTS, MAX_REFERENCE_OHMS, MIN_REFERENCE_OHMS } from '../limits.js';
 import { isMixedMode, modeLabels, PAIR_REFERENCE_TOLERANCE, touchstoneModeOrder, type MixedModeData, type PortPair } from '../network/mixed-mode.js';
 import type { NetworkData, NoiseParameters, ParameterKind } from '../network/types.js';
@@ -220,7 +221,7 @@ export function checkNetworkData(net: NetworkData, what: string): void {
 /**
  * Checks, before anything is written, that every value of `net` times `norm` gives two finite
  * numbers in `format` (a magnitude can overflow where real and imaginary parts do not). Throws a
- * plain Error naming the entry and the frequency otherwise.
+ * an OutputError naming the entry and the frequency otherwise.
  */
 export function checkEncodedFinite(net: NetworkData, format: ComplexFormat, norm: number, what: string): void {
   const n = net.ports;
@@ -233,7 +234,7 @@ export function checkEncodedFinite(net: NetworkData, format: ComplexFormat, norm
       const i = Math.floor((q % (n * n)) / n);
       const j = q % n;
       const scaled = norm !== 1 ? ' after the normalisation to the reference of version 1.1' : '';
-      throw new Error(
+      throw new OutputError(
         `${what}: ${net.parameter}(${i + 1},${j + 1}) at ${net.frequencies[k]} Hz is beyond the range of double-precision numbers in ${format}${scaled}; nothing was written` +
           (format === 'RI' ? '' : ' (RI may still hold it)'),
       );
@@ -347,10 +348,10 @@ export function touchstoneChunks(net: NetworkData, opts: TouchstoneWriteOptions 
   checkNetworkData(net, 'Touchstone');
   const n = net.ports;
   const nf = net.frequencies.length;
-  if (nf === 0) throw new Error('Touchstone: no frequency points to write');
+  if (nf === 0) throw new OutputError('Touchstone: no frequency points to write');
   const mixed = isMixedMode(net);
   if (mixed && version !== '2.0') {
-    throw new Error('Touchstone: mixed-mode data are written as version 2.0, whose [Mixed-Mode Order] says which row is which mode; version 1.1 cannot say it');
+    throw new OutputError('Touchstone: mixed-mode data are written as version 2.0, whose [Mixed-Mode Order] says which row is which mode; version 1.1 cannot say it');
   }
   // Mixed-mode files give the single-ended references in [Reference]; the mode references are
   // 2·Z0 (differential) and Z0/2 (common) of them (Touchstone 2.0, [Mixed-Mode Order]; from memory).
@@ -400,7 +401,7 @@ export function touchstoneChunks(net: NetworkData, opts: TouchstoneWriteOptions 
   for (let k = 0; k < nf; k++) {
     const scaled = net.frequencies[k]! / scale;
     if (!(scaled > lastScaled)) {
-      throw new Error(`Touchstone: frequencies ${net.frequencies[k - 1]} Hz and ${net.frequencies[k]} Hz are equal in ${unit}`);
+      throw new OutputError(`Touchstone: frequencies ${net.frequencies[k - 1]} Hz and ${net.frequencies[k]} Hz are equal in ${unit}`, 'choose a smaller frequency unit, e.g. --freq-unit Hz');
     }
     lastScaled = scaled;
   }

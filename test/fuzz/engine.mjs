@@ -567,8 +567,17 @@ const DOCUMENTED = ['SingularSystemError', 'ConversionError', 'OutputError', 'Tw
 const INTERNAL_NAME = /(?:^|[\s(])([a-z][a-z0-9]*[A-Z][A-Za-z0-9]*):\s/;
 
 /** The lines of a text as the grammar counts them (`\n`, `\r\n` or a lone `\r` end a line). */
+const linesCache = new Map();
+
+/** The lines of a text, split as the grammar splits them; the last few texts are kept (a case may have thousands of diagnostics). */
 export function linesOf(text) {
-  return text.split(/\r\n|\r|\n/);
+  let lines = linesCache.get(text);
+  if (lines === undefined) {
+    if (linesCache.size >= 8) linesCache.clear();
+    lines = text.split(/\r\n|\r|\n/);
+    linesCache.set(text, lines);
+  }
+  return lines;
 }
 
 /**
