@@ -238,6 +238,7 @@ export function parseNetlistItems(text: string, file: string, bag: DiagnosticBag
   let lineNo = 1;
   let continued = false; // the previous line ended in a backslash: this one belongs to it
   const breaks = /\r\n|\n|\r/g;
+  const deepKeywords: string[] = [];
   let from = 0;
   for (;;) {
     const m = breaks.exec(text);
@@ -245,7 +246,21 @@ export function parseNetlistItems(text: string, file: string, bag: DiagnosticBag
     const line = text.slice(from, to);
     // read once to know the line is plain (its objects die young); kept as text until used
     const read = continued ? undefined : readSimpleLine(line, lineNo, file);
-    if (read === undefined) {
+    const deep = read === undefined && !continued && line.length > MAX_EXPRESSION_DEPTH ? parenthesesTooDeep(line) : -1;
+    if (deep >= 0 && !line.includes('\\')) {
+      // nested past the limit by its parentheses alone: reported here, without tokenising a line
+      // that can be megabytes long only to refuse it
+      bag.add({
+        severity: 'error',
+        code: 'too-deep',
+        message: `this expression nests more than ${MAX_EXPRESSION_DEPTH} levels deep (parentheses, function calls, signs and powers)`,
+        span: { file, line: lineNo, column: deep + 1, length: 1 },
+        help: `${MAX_EXPRESSION_DEPTH} levels is the limit; give parts of the expression names with \`let\``,
+      });
+      const keyword = /^[ \t]*([A-Za-z_][A-Za-z0-9_]*)/.exec(line);
+      if (keyword) deepKeywords.push(keyword[1]!);
+      rest.push(' ');
+    } else if (read === undefined) {
       rest.push(line);
       left++;
       continued = line.includes('\\');
@@ -260,8 +275,9 @@ export function parseNetlistItems(text: string, file: string, bag: DiagnosticBag
     from = to + m[0].length;
     lineNo++;
   }
-  if (left === 0) return { file, items: fast, failedKeywords: [] };
+  if (left === 0) return { file, items: fast, failedKeywords: deepKeywords };
   const slow = parseWithGrammar(rest.join(''), file, bag);
+  slow.failedKeywords.push(...deepKeywords);
   if (fast.length === 0) return { file, items: slow.statements, failedKeywords: slow.failedKeywords };
   // merge by line (each list is in line order already)
   const items: StatementItem[] = [];
@@ -279,6 +295,31 @@ export function parseNetlistItems(text: string, file: string, bag: DiagnosticBag
     }
   }
   return { file, items, failedKeywords: slow.failedKeywords };
+}
+
+/**
+ * The offset of the first `(` at which a line's parentheses alone nest deeper than
+ * MAX_EXPRESSION_DEPTH (outside quoted strings and comments), or -1. Every open parenthesis is a
+ * level of the expression depth that the grammar's own check counts, so such a line is too deep
+ * for it too.
+ */
+function parenthesesTooDeep(line: string): number {
+  let depth = 0;
+  for (let i = 0; i < line.length; i++) {
+    const c = line.charCodeAt(i);
+    if (c === 40) {
+      if (++depth > MAX_EXPRESSION_DEPTH) return i;
+    } else if (c === 41) {
+      if (depth > 0) depth--;
+    } else if (c === 35) {
+      return -1; // a comment to the end of the line
+    } else if (c === 34) {
+      const end = line.indexOf('"', i + 1);
+      if (end < 0) return -1; // an open string: the grammar reports it
+      i = end;
+    }
+  }
+  return -1;
 }
 
 /** Parses with the grammar and its visitor alone. */

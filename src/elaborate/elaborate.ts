@@ -103,6 +103,10 @@ interface BlockDefinition {
   size: number;
   /** Statements an instance runs, nested instances counted (elements, instances and the rest alike). */
   statements: number;
+  /** An instance of it gave errors: further instances are not expanded. */
+  failed?: boolean;
+  /** An instance of it has been expanded (with errors elsewhere, it is not expanded again). */
+  expanded?: boolean;
   /** Levels of block instances one instance opens, itself included. */
   depth: number;
   /** On a cycle of blocks using each other, or using such a block (already reported). */
@@ -154,6 +158,8 @@ function typeFacts(type: ElementType): TypeFacts {
  * `bag`; the returned circuit is only meaningful when the bag has no errors.
  */
 export function elaborate(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, options: ElaborateOptions = {}): Circuit {
+  const rootBag = bag;
+  const outerBagHasErrors = () => rootBag.hasErrors;
   const overrides = new Map<string, Override>();
   for (const o of options.overrides ?? []) overrides.set(o.name, o);
   /** Parameters referenced before their definition (already an error there; not "unused" too). */
@@ -302,6 +308,13 @@ export function elaborate(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, op
       return;
     }
     if (block.broken) return; // a cycle, reported at the block
+    // An instance whose body gave errors once gives them again (reported once anyway): the run
+    // has failed, so the block's other instances are not expanded (a doubling chain of blocks
+    // with an error at its end would otherwise repeat it millions of times).
+    if (block.failed) return;
+    // Once the netlist has an error it will not be solved: each block is expanded once more
+    // only for the diagnostics of its body, not once per instance.
+    if (block.expanded && outerBagHasErrors()) return;
     if (ctx === topContext) {
       if (block.depth > MAX_BLOCK_DEPTH) {
         bag.error('too-deep', `an instance of ${what} opens ${block.depth} levels of nested block instances (at most ${MAX_BLOCK_DEPTH})`, st.keywordSpan, 'flatten some of the blocks');
@@ -373,9 +386,11 @@ export function elaborate(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, op
       last = Math.max(last, b.span.line);
     }
     const note = `in instance \`${name}\` of block \`${block.name}\` (line ${st.span.line})`;
+    let failed = false;
     bag = Object.create(outerBag, {
       add: {
         value: (d: Diagnostic) => {
+          if (d.severity === 'error') failed = true;
           const inBody = d.span && d.span.file === bodyFile && d.span.line >= first && d.span.line <= last;
           outerBag.add(inBody && !d.help?.includes('in instance') ? { ...d, help: d.help ? `${d.help}; ${note}` : note } : d);
         },
@@ -386,6 +401,8 @@ export function elaborate(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, op
     } finally {
       bag = outerBag;
     }
+    if (failed) block.failed = true;
+    block.expanded = true;
   }
 
   /** Reads a data file for the statement `st`; a failure becomes an error at its `file=` (and in the file). */

@@ -561,7 +561,7 @@ export function randomSpec(rng, maxOps = 6) {
  */
 
 /** Error classes of the library that are documented outcomes even without a location. */
-const DOCUMENTED = ['SingularSystemError', 'ConversionError', 'OutputError', 'TwoPortConversionError', 'FrequencyGridError', 'CompareError'];
+const DOCUMENTED = ['SingularSystemError', 'NonFiniteResultError', 'ConversionError', 'OutputError', 'TwoPortConversionError', 'FrequencyGridError', 'CompareError'];
 
 /** A message starting with (or containing) an internal function name such as `createModeTransform:`. */
 const INTERNAL_NAME = /(?:^|[\s(])([a-z][a-z0-9]*[A-Z][A-Za-z0-9]*):\s/;
