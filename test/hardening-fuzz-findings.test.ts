@@ -81,3 +81,19 @@ describe('numbers at the edge of double range', () => {
     }
   });
 });
+
+describe('a Touchstone token of 100,000 digits', () => {
+  it('is refused at its place, the message quoting only its start (the number test does not backtrack)', () => {
+    const token = `1${'0'.repeat(100_000)}x`;
+    let caught: unknown;
+    try {
+      parseTouchstone(`# GHz S RI R 50\n1 ${token} 0\n`, { ports: 1, fileName: 'long.s1p' });
+    } catch (e) {
+      caught = e;
+    }
+    const e = caught as { line: number; column: number; message: string };
+    expect(e.line).toBe(2);
+    expect(e.column).toBe(3);
+    expect(e.message.length).toBeLessThan(200);
+  });
+});

@@ -450,7 +450,13 @@ interface Token {
   col: number;
 }
 
-const NUMBER_RE = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
+// one way only to match each digit (no backtracking that grows with the length of a bad token)
+const NUMBER_RE = /^[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?$/;
+
+/** A token as a message quotes it: a long one is cut (a 100,000-digit token is not repeated). */
+function cut(text: string): string {
+  return text.length > 40 ? `${text.slice(0, 32)}…` : text;
+}
 
 const KNOWN_KEYWORDS = new Set([
   'version',
@@ -728,13 +734,13 @@ class Reader {
     const entries: { mode: 'D' | 'C'; p: number; q: number; t: Token }[] = [];
     for (const t of args) {
       const m = /^([DdCcSs])(\d+)(?:,(\d+))?$/.exec(t.text);
-      if (!m) this.fail(line, t.col, `"${t.text}" is not a mixed-mode entry: write D or C and two port numbers, e.g. D1,3`);
-      if (m[1]!.toUpperCase() === 'S') this.fail(line, t.col, `single-ended entries ("${t.text}") in [Mixed-Mode Order] are not supported; every port must belong to a pair`);
-      if (m[3] === undefined) this.fail(line, t.col, `"${t.text}" needs two port numbers, e.g. ${m[1]}1,3`);
+      if (!m) this.fail(line, t.col, `"${cut(t.text)}" is not a mixed-mode entry: write D or C and two port numbers, e.g. D1,3`);
+      if (m[1]!.toUpperCase() === 'S') this.fail(line, t.col, `single-ended entries ("${cut(t.text)}") in [Mixed-Mode Order] are not supported; every port must belong to a pair`);
+      if (m[3] === undefined) this.fail(line, t.col, `"${cut(t.text)}" needs two port numbers, e.g. ${m[1]}1,3`);
       const p = Number(m[2]);
       const q = Number(m[3]);
-      for (const x of [p, q]) if (x < 1 || x > n) this.fail(line, t.col, `"${t.text}" names port ${x}; the ports are 1 to ${n}`);
-      if (p === q) this.fail(line, t.col, `"${t.text}" pairs a port with itself`);
+      for (const x of [p, q]) if (x < 1 || x > n) this.fail(line, t.col, `"${cut(t.text)}" names port ${x}; the ports are 1 to ${n}`);
+      if (p === q) this.fail(line, t.col, `"${cut(t.text)}" pairs a port with itself`);
       entries.push({ mode: m[1]!.toUpperCase() as 'D' | 'C', p, q, t });
     }
     const pairs: PortPair[] = [];
@@ -783,23 +789,23 @@ class Reader {
 
   /** Fails unless `v` (from token `t`) lies in the documented range of reference impedances. */
   private checkReference(v: number, t: Token, what: string): void {
-    if (!(v > 0)) this.fail(this.lineNo, t.col, `${what} must be positive, got ${t.text}`);
+    if (!(v > 0)) this.fail(this.lineNo, t.col, `${what} must be positive, got ${cut(t.text)}`);
     if (v < MIN_REFERENCE_OHMS || v > MAX_REFERENCE_OHMS) {
-      this.fail(this.lineNo, t.col, `${what} ${t.text} ohm is outside the range a data file may give, ${MIN_REFERENCE_OHMS} to ${MAX_REFERENCE_OHMS} ohm`);
+      this.fail(this.lineNo, t.col, `${what} ${cut(t.text)} ohm is outside the range a data file may give, ${MIN_REFERENCE_OHMS} to ${MAX_REFERENCE_OHMS} ohm`);
     }
   }
 
   private positiveInt(t: Token, shown: string): number {
     if (!/^\+?\d+$/.test(t.text) || Number(t.text) < 1) {
-      this.fail(this.lineNo, t.col, `${shown} needs a positive whole number, got "${t.text}"`);
+      this.fail(this.lineNo, t.col, `${shown} needs a positive whole number, got "${cut(t.text)}"`);
     }
     return Number(t.text);
   }
 
   private number(t: Token): number {
-    if (!NUMBER_RE.test(t.text)) this.fail(this.lineNo, t.col, `"${t.text}" is not a number`);
+    if (!NUMBER_RE.test(t.text)) this.fail(this.lineNo, t.col, `"${cut(t.text)}" is not a number`);
     const v = Number(t.text);
-    if (!Number.isFinite(v)) this.fail(this.lineNo, t.col, `"${t.text}" is out of range`);
+    if (!Number.isFinite(v)) this.fail(this.lineNo, t.col, `"${cut(t.text)}" is out of range`);
     return v;
   }
 
@@ -807,7 +813,7 @@ class Reader {
     const refs = this.refs!;
     for (const t of tokens) {
       if (refs.length === this.ports) {
-        this.fail(this.lineNo, t.col, `[Reference] needs ${this.ports} values; "${t.text}" is one too many`);
+        this.fail(this.lineNo, t.col, `[Reference] needs ${this.ports} values; "${cut(t.text)}" is one too many`);
       }
       const v = this.number(t);
       this.checkReference(v, t, 'reference impedance');
@@ -822,7 +828,7 @@ class Reader {
     const tokens = tokenize(content.slice(lead + 1), lead + 1);
     const got = new Set<string>();
     const once = (what: string, t: Token): void => {
-      if (got.has(what)) this.fail(this.lineNo, t.col, `option line gives the ${what} twice ("${t.text}")`);
+      if (got.has(what)) this.fail(this.lineNo, t.col, `option line gives the ${what} twice ("${cut(t.text)}")`);
       got.add(what);
     };
     for (let q = 0; q < tokens.length; q++) {
@@ -854,7 +860,7 @@ class Reader {
           break;
         }
         default:
-          this.fail(this.lineNo, t.col, `unknown option-line field "${t.text}"`);
+          this.fail(this.lineNo, t.col, `unknown option-line field "${cut(t.text)}"`);
       }
     }
   }
@@ -923,9 +929,9 @@ class Reader {
   /** Fails unless the frequency `f` (Hz, from token `t`) is finite and not negative. */
   private checkFrequency(f: number, t: Token): void {
     if (!Number.isFinite(f)) {
-      this.fail(this.lineNo, t.col, `frequency ${t.text} ${this.unitName()} is beyond the range of double-precision numbers (about 1.8e308 Hz)`);
+      this.fail(this.lineNo, t.col, `frequency ${cut(t.text)} ${this.unitName()} is beyond the range of double-precision numbers (about 1.8e308 Hz)`);
     }
-    if (f < 0) this.fail(this.lineNo, t.col, `frequencies must not be negative, got ${t.text}`);
+    if (f < 0) this.fail(this.lineNo, t.col, `frequencies must not be negative, got ${cut(t.text)}`);
   }
 
   private unitName(): string {
