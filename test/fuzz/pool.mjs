@@ -138,7 +138,25 @@ export class FuzzPool {
           finish({ status: 'crash', reason: `process aborted: ${cause}`, stack: tail.split('\n').slice(0, 12).join('\n') }, true);
         }, 50);
       };
-      const timer = setTimeout(() => finish({ status: 'hang', reason: `no result within ${this.timeoutMs} ms` }, true), this.timeoutMs);
+      // When the timer fires, the answer may already be waiting in the pipe: this process may have
+      // been busy itself (building a large case) while the worker ran. Messages that arrived are
+      // delivered before setImmediate's callback, so only a worker still at work is a hang; and a
+      // timer that fired late by more than the budget is given the budget again, from now.
+      const arm = (ms) =>
+        setTimeout(() => {
+          const late = performance.now() - t0 - this.timeoutMs;
+          setImmediate(() => {
+            if (done) return;
+            if (late > this.timeoutMs && !rearmed) {
+              rearmed = true;
+              timer = arm(this.timeoutMs);
+              return;
+            }
+            finish({ status: 'hang', reason: `no result within ${this.timeoutMs} ms` }, true);
+          });
+        }, ms);
+      let rearmed = false;
+      let timer = arm(this.timeoutMs);
       worker.on('message', onMessage);
       worker.on('error', onError);
       worker.on('exit', onExit);
