@@ -281,3 +281,13 @@ describe('small reflections keep their relative accuracy', () => {
     expect(warnings[0]).toMatch(/lost about 11 of their 16 significant digits/);
   });
 });
+
+describe('no digits warning for a reflection that is zero for every practical purpose', () => {
+  it('a matched line with 200 dB of loss: S11 below −300 dB, S21 = e^(−γl) (Pozar, matched line), and no warning', () => {
+    const warnings: string[] = [];
+    const net = solve('line t a=in b=out z0=50 ohm length=1 m alpha_c=200 dB/m at 1 GHz\nport 1 plus=in\nport 2 plus=out\nsweep list freqs=1 GHz\n', (m) => warnings.push(m));
+    expect(Math.hypot(net.values[0]!, net.values[1]!)).toBeLessThan(1e-15);
+    expect(20 * Math.log10(Math.hypot(net.values[4]!, net.values[5]!))).toBeCloseTo(-200, 9);
+    expect(warnings).toEqual([]);
+  });
+});

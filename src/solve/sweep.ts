@@ -75,6 +75,12 @@ const REFINE_EPS = 4 * Number.EPSILON;
 export const REFINE_ABS = 1e-10;
 /** A refined reflection with fewer significant digits than this gives a warning. */
 export const WARN_DIGITS = 12;
+/**
+ * …unless it is below this magnitude (−300 dB): such a reflection is zero for every practical
+ * purpose (a matched line's S11 comes out near 1e-37 or exactly 0, and its relative digits mean
+ * nothing).
+ */
+export const WARN_FLOOR = 1e-15;
 
 /** The nodal system has no unique solution at some frequency (a floating node, say). */
 export class SingularSystemError extends Error {
@@ -917,7 +923,7 @@ function refineReflection(L: PointLoop, k: number, i: number, o: number): void {
   // (at least the floor of a double-double residual: about ε² times the condition, relative)
   const rel = (Math.max(refiner.lastStep, REFINE_EPS * Number.EPSILON * L.hint[0]!) * v) / m;
   const digits = rel > 0 ? -Math.log10(rel) : Infinity;
-  if (digits < WARN_DIGITS && digits < L.fewestDigits) {
+  if (digits < WARN_DIGITS && digits < L.fewestDigits && m >= WARN_FLOOR) {
     L.fewestDigits = digits;
     L.fewestAt = L.freqs[k]!;
     L.fewestPort = i;
