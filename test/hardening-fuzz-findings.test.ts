@@ -97,3 +97,25 @@ describe('a Touchstone token of 100,000 digits', () => {
     expect(e.message.length).toBeLessThan(200);
   });
 });
+
+describe('terminal tables of long sweeps', () => {
+  it('come in pieces of at most 256 lines, each ending a line, whose join is the whole table', async () => {
+    const { tableChunks, formatTable } = await import('../src/index.js');
+    const n = 1000;
+    const net: NetworkData = {
+      parameter: 'S',
+      ports: 1,
+      frequencies: Float64Array.from({ length: n }, (_, k) => 1e6 * (k + 1)),
+      references: Float64Array.from([50]),
+      values: Float64Array.from({ length: 2 * n }, (_, x) => (x % 2 === 0 ? 0.5 : -0.25)),
+    };
+    const pieces = [...tableChunks(net)];
+    expect(pieces.length).toBe(Math.ceil(n / 256));
+    for (const p of pieces) {
+      expect(p.endsWith('\n')).toBe(true);
+      expect(p.split('\n').length - 1).toBeLessThanOrEqual(257); // the heading rides with the first piece
+    }
+    expect(pieces.join('')).toBe(formatTable(net));
+    expect(formatTable(net).split('\n').length - 1).toBe(n + 1);
+  });
+});
