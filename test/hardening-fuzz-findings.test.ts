@@ -119,3 +119,16 @@ describe('terminal tables of long sweeps', () => {
     expect(formatTable(net).split('\n').length - 1).toBe(n + 1);
   });
 });
+
+describe('dB output at the edge of double range', () => {
+  it('a magnitude whose dB text would decode past the largest double is refused before writing (RI holds it)', async () => {
+    const { renderNetwork, OutputError } = await import('../src/index.js');
+    // |S| = 1.7976931348623157e308 (IEEE 754 binary64 maximum) is 6165.094311198341 dB; rounded
+    // to 15 digits and decoded as 10^(dB/20) it lies past the range
+    const net: NetworkData = { parameter: 'S', ports: 1, frequencies: Float64Array.from([1e9]), references: Float64Array.from([50]), values: Float64Array.from([Number.MAX_VALUE, 0]) };
+    expect(() => renderNetwork(net, { format: 'touchstone', data: 'DB' })).toThrow(OutputError);
+    const ri = renderNetwork(net, { format: 'touchstone', data: 'RI' });
+    const back = parseTouchstone(ri, { ports: 1 }).values[0]!;
+    expect(Number.isFinite(back) && Math.abs(back - Number.MAX_VALUE) / Number.MAX_VALUE < 1e-14).toBe(true); // 15 digits, cut toward zero
+  });
+});

@@ -86,7 +86,7 @@ export function csvChunks(net: NetworkData, opts: CsvWriteOptions = {}): Iterabl
   if (SUFFIX[format] === undefined) throw new Error(`CSV: unknown format ${String(format)}`);
   const digits = opts.digits === undefined ? undefined : checkDigits(opts.digits, 17);
   checkNetworkData(net, 'CSV');
-  checkEncodedFinite(net, format, 1, 'CSV');
+  checkEncodedFinite(net, format, 1, 'CSV', digits);
   return inPieces(csvRow(csvHeader(net.parameter, net.ports, format, isMixedMode(net))) + '\n', rows());
 
   function* rows(): Generator<string> {

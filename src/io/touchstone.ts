@@ -218,17 +218,23 @@ export function checkNetworkData(net: NetworkData, what: string): void {
   }
 }
 
+/** The dB value of the largest double (20·log10 of 1.7976931348623157e308, IEEE 754 binary64). */
+const MAX_DB = 20 * Math.log10(Number.MAX_VALUE);
+
 /**
  * Checks, before anything is written, that every value of `net` times `norm` gives two finite
  * numbers in `format` (a magnitude can overflow where real and imaginary parts do not). Throws a
  * an OutputError naming the entry and the frequency otherwise.
  */
-export function checkEncodedFinite(net: NetworkData, format: ComplexFormat, norm: number, what: string): void {
+export function checkEncodedFinite(net: NetworkData, format: ComplexFormat, norm: number, what: string, digits = 17): void {
   const n = net.ports;
   const pair = new Float64Array(2);
   for (let x = 0; x < net.values.length; x += 2) {
     encodeComplex(format, net.values[x]! * norm, net.values[x + 1]! * norm, pair);
-    if (!Number.isFinite(pair[0]!) || !Number.isFinite(pair[1]!)) {
+    // a dB value rounded to `digits` digits may stand for a magnitude past the largest double
+    // (1.7976931348623157e308 is 6165.09431… dB): a reader could not decode it
+    const overDb = format === 'DB' && pair[0]! * (1 + 0.5 * 10 ** (1 - digits)) >= MAX_DB;
+    if (!Number.isFinite(pair[0]!) || !Number.isFinite(pair[1]!) || overDb) {
       const q = x >> 1;
       const k = Math.floor(q / (n * n));
       const i = Math.floor((q % (n * n)) / n);
@@ -372,7 +378,7 @@ export function touchstoneChunks(net: NetworkData, opts: TouchstoneWriteOptions 
     if (net.parameter === 'Z') norm = 1 / r0;
     else if (net.parameter === 'Y') norm = r0;
   }
-  checkEncodedFinite(net, format, norm, 'Touchstone');
+  checkEncodedFinite(net, format, norm, 'Touchstone', digits);
 
   const lines: string[] = [];
   const header: string[] = [];
