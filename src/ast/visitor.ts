@@ -187,6 +187,9 @@ const TOKEN_WORDS = new Map(Object.entries({
   EOF: 'the end of the line',
 }));
 
+/** The words of a range after `vary`. */
+const RANGE_AFTER = new Set(['To', 'Series', 'Step']);
+
 /** Tokens that are names (the range words are names too). */
 const NAME_TOKENS = new Set(['Identifier', 'Vary', 'To', 'Series', 'Step']);
 
@@ -218,6 +221,10 @@ function explain(e: IRecognitionException, line: IToken[]): { message: string; h
   // `resistor r1 r2 a=in`: a second name where an argument should be
   if (isEq(line[idx + 1]) && isName(e.token) && isName(prev) && idx >= 2) {
     return { message: `unexpected \`${image(prev)}\`: expected \`key=value\``, help: 'a statement has one name after its keyword; every argument after it is written `key=value`', at: prev! };
+  }
+  // `let x = 3 to 5`: a range word where a range does not begin (it was read as a key)
+  if (prev && RANGE_AFTER.has(prev.tokenType.name) && /Expecting token of type --> Equals <--/.test(e.message)) {
+    return { message: `unexpected \`${image(prev)}\``, help: 'a design variable is written `let name = value vary LOW to HIGH`, then optionally `series E24` or `step S`', at: prev };
   }
   if (e.name === 'NotAllInputParsedException' || /EOF/.test(e.message)) {
     if (e.token.tokenType.name === 'Equals' && prev) {
