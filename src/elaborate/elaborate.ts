@@ -1123,7 +1123,7 @@ function blockHeader(st: Statement, bag: DiagnosticBag): BlockDefinition | undef
       continue;
     }
     if (a.range) {
-      bag.error('vary-in-block', 'a design variable (`vary`) cannot be declared in a block', a.range.keywordSpan, 'declare it at the top level with `let` and give it to the block where the block is used');
+      bag.error('vary-in-block', 'a design variable (`vary`) cannot be declared inside a block', a.range.keywordSpan, 'declare it at the top level with `let` and give it to the block where the block is used');
       ok = false;
       continue;
     }
