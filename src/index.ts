@@ -8,7 +8,7 @@
  * writeNetwork(s, 'lowpass.s2p', { data: 'DB' }); // atomic write
  * ```
  */
-export type { NetlistAst, Statement, Expr, Arg } from './ast/ast.js';
+export type { NetlistAst, Statement, Expr, Arg, RangeClause } from './ast/ast.js';
 export { parse, loadNetlist, loadNetlistFile, type LoadOptions, type LoadResult } from './load.js';
 export {
   DiagnosticBag,
@@ -20,7 +20,8 @@ export {
   type Severity,
 } from './diagnostics/diagnostic.js';
 export { elaborate, type ElaborateOptions, type Override } from './elaborate/elaborate.js';
-export type { Circuit, Port, ParameterValue } from './elaborate/circuit.js';
+export type { Circuit, Port, ParameterValue, Variable } from './elaborate/circuit.js';
+export { SERIES_NAMES, isSeriesName, seriesTable, nearestInSeries, seriesValuesIn, type SeriesName } from './design/series.js';
 export { ELEMENTS } from './elements/registry.js';
 export type { ElementType, ElementInstance, PropertySpec, TerminalSpec, StampBuilder, Stamper } from './elements/types.js';
 export { buildPlan, lowestOf, stampAt, type PlanOptions, type StampPlan } from './plan/plan.js';

@@ -101,7 +101,7 @@ export function loadNetlist(text: string, file: string, options: LoadOptions = {
     for (const st of parsed.statements) {
       shiftSpans(st, 4);
       const arg = st.args[0];
-      if (st.args.length === 1 && arg && arg.kind === 'key' && arg.values.length === 1 && !arg.at) {
+      if (st.args.length === 1 && arg && arg.kind === 'key' && arg.values.length === 1 && !arg.at && !arg.range) {
         overrides.push({ name: arg.key, expr: arg.values[0]!, span: arg.keySpan });
       } else {
         bag.error('bad-override', '`--set` takes one `name=value`', st.span, 'give each override its own `--set`');

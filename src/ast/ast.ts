@@ -14,13 +14,28 @@ export type Expr =
    */
   | { kind: 'chain'; operands: Expr[]; ops: ('+' | '-' | '*' | '/')[]; span: SourceSpan };
 
-/** `key=value[, value…] [at expr]`, or `key="text"` (then `values` is empty and `text` is set). */
+/** A design variable's range: `vary LOW to HIGH [series E24 | step S]` after a `let` value. */
+export interface RangeClause {
+  lower: Expr;
+  upper: Expr;
+  /** `series E24`: the series name as written. */
+  series?: { name: string; span: SourceSpan };
+  step?: Expr;
+  /** The `vary` word. */
+  keywordSpan: SourceSpan;
+  /** From `vary` to the end of the clause. */
+  span: SourceSpan;
+}
+
+/** `key=value[, value…] [at expr] [range]`, or `key="text"` (then `values` is empty and `text` is set). */
 export interface KeyArg {
   kind: 'key';
   key: string;
   keySpan: SourceSpan;
   values: Expr[];
   at?: Expr;
+  /** `vary … to …`: the value is a design variable (only on `let`). */
+  range?: RangeClause;
   /** The quoted text of `key="text"`. */
   text?: { value: string; span: SourceSpan };
   span: SourceSpan;

@@ -86,6 +86,11 @@ function tokenize(line: string): number {
   return n;
 }
 
+/** `vary`, `to`, `series`, `step` end a value (the grammar's range words): never a unit. */
+function isRangeWord(w: string): boolean {
+  return w === 'vary' || w === 'to' || w === 'series' || w === 'step';
+}
+
 function span(file: string, lineNo: number, t: number): SourceSpan {
   return { file, line: lineNo, column: starts[t]! + 1, length: Math.max(1, images[t]!.length) };
 }
@@ -105,7 +110,7 @@ function readValue(t: number, n: number, file: string, lineNo: number): number {
     const at0 = t;
     t++;
     // a unit is a name right after the number that is not a key (`=`) or a call (`(`, never here)
-    if (t < n && kinds[t] === T_IDENT && kinds[t + 1] !== T_EQUALS) {
+    if (t < n && kinds[t] === T_IDENT && kinds[t + 1] !== T_EQUALS && !isRangeWord(images[t]!)) {
       const unitSpan = span(file, lineNo, t);
       // the span from the number to the end of its unit (joinSpans of the two, without the first)
       const column = starts[at0]! + 1;

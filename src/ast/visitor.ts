@@ -1,8 +1,9 @@
 import type { CstNode, IToken, IRecognitionException } from 'chevrotain';
 import { parseLines, type ParsedLine } from '../parse/parser.js';
+import { RANGE_WORDS } from '../parse/lexer.js';
 import { MAX_EXPRESSION_DEPTH } from '../limits.js';
 import { DiagnosticBag, type Diagnostic, type SourceSpan } from '../diagnostics/diagnostic.js';
-import { joinSpans, unquote, type Arg, type Expr, type NetlistAst, type NetlistItems, type PendingLine, type Statement, type StatementItem } from './ast.js';
+import { joinSpans, unquote, type Arg, type Expr, type NetlistAst, type NetlistItems, type PendingLine, type RangeClause, type Statement, type StatementItem } from './ast.js';
 import { BLANK, internKeyword, readSimpleLine, statementOf } from './fast.js';
 
 type Children = Record<string, (CstNode | IToken)[] | undefined>;
@@ -63,8 +64,31 @@ class AstBuilder {
     const atNode = nodes(c, 'atValue')[0];
     const at = atNode ? this.expression(atNode) : undefined;
     const keySpan = tokSpan(this.file, key);
+    const rangeNode = nodes(c, 'range')[0];
+    if (rangeNode) {
+      const range = this.range(rangeNode);
+      return { kind: 'key', key: key.image, keySpan, values, at, range, span: joinSpans(keySpan, range.span) };
+    }
     const lastExpr = at ?? values[values.length - 1]!;
     return { kind: 'key', key: key.image, keySpan, values, at, span: joinSpans(keySpan, lastExpr.span) };
+  }
+
+  range(node: CstNode): RangeClause {
+    const c = node.children as Children;
+    const keywordSpan = tokSpan(this.file, toks(c, 'Vary')[0]!);
+    const lower = this.expression(nodes(c, 'lower')[0]!);
+    const upper = this.expression(nodes(c, 'upper')[0]!);
+    const seriesTok = toks(c, 'seriesName')[0];
+    const stepNode = nodes(c, 'step')[0];
+    const range: RangeClause = { lower, upper, keywordSpan, span: joinSpans(keywordSpan, upper.span) };
+    if (seriesTok) {
+      range.series = { name: seriesTok.image, span: tokSpan(this.file, seriesTok) };
+      range.span = joinSpans(keywordSpan, range.series.span);
+    } else if (stepNode) {
+      range.step = this.expression(stepNode);
+      range.span = joinSpans(keywordSpan, range.step.span);
+    }
+    return range;
   }
 
   expression(node: CstNode): Expr {
@@ -149,6 +173,10 @@ const TOKEN_WORDS = new Map(Object.entries({
   LParen: '`(`',
   RParen: '`)`',
   At: '`at`',
+  Vary: '`vary`',
+  To: '`to`',
+  Series: '`series`',
+  Step: '`step`',
   Plus: '`+`',
   Minus: '`-`',
   Star: '`*`',
@@ -158,6 +186,12 @@ const TOKEN_WORDS = new Map(Object.entries({
   Newline: 'the end of the line',
   EOF: 'the end of the line',
 }));
+
+/** The words of a range after `vary`. */
+const RANGE_AFTER = new Set(['To', 'Series', 'Step']);
+
+/** Tokens that are names (the range words are names too). */
+const NAME_TOKENS = new Set(['Identifier', 'Vary', 'To', 'Series', 'Step']);
 
 function describe(t: IToken): string {
   if (t.tokenType.name === 'EOF') return 'the end of the line';
@@ -178,7 +212,7 @@ function explain(e: IRecognitionException, line: IToken[]): { message: string; h
   const idx = line.indexOf(e.token);
   const prev = line[idx - 1];
   const prev2 = line[idx - 2];
-  const isName = (t: IToken | undefined) => t?.tokenType.name === 'Identifier';
+  const isName = (t: IToken | undefined) => t !== undefined && NAME_TOKENS.has(t.tokenType.name);
   const isEq = (t: IToken | undefined) => t?.tokenType.name === 'Equals';
   // `key= next=…`: the value of `key` is missing, and `next` was taken for it
   if (isEq(e.token) && isName(prev) && isEq(prev2)) {
@@ -188,9 +222,16 @@ function explain(e: IRecognitionException, line: IToken[]): { message: string; h
   if (isEq(line[idx + 1]) && isName(e.token) && isName(prev) && idx >= 2) {
     return { message: `unexpected \`${image(prev)}\`: expected \`key=value\``, help: 'a statement has one name after its keyword; every argument after it is written `key=value`', at: prev! };
   }
+  // `let x = 3 to 5`: a range word where a range does not begin (it was read as a key)
+  if (prev && RANGE_AFTER.has(prev.tokenType.name) && /Expecting token of type --> Equals <--/.test(e.message)) {
+    return { message: `unexpected \`${image(prev)}\``, help: 'a design variable is written `let name = value vary LOW to HIGH`, then optionally `series E24` or `step S`', at: prev };
+  }
   if (e.name === 'NotAllInputParsedException' || /EOF/.test(e.message)) {
     if (e.token.tokenType.name === 'Equals' && prev) {
       return { message: `unexpected ${found} after \`${image(prev)}\``, help: 'arguments are written `key=value`; a statement starts with a keyword and an optional name, e.g. `resistor r1 a=in b=out value=50 ohm`', at };
+    }
+    if (RANGE_WORDS.includes(e.token.tokenType.name.toLowerCase()) && e.token.tokenType.name !== 'Identifier') {
+      return { message: `unexpected ${found}`, help: 'a design variable is written `let name = value vary LOW to HIGH`, then optionally `series E24` or `step S`', at };
     }
     if (e.token.tokenType.name === 'NumberLit' || e.token.tokenType.name === 'Identifier') {
       return { message: `unexpected ${found}: expected \`key=value\``, help: 'every argument after the statement name is written `key=value`', at };

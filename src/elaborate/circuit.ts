@@ -27,6 +27,26 @@ export interface ParameterValue {
   span: SourceSpan;
 }
 
+/**
+ * A design variable: a `let` parameter with a range (`let c = 3.3 pF vary 1 pF to 10 pF series E24`).
+ * Numbers in SI units.
+ */
+export interface Variable {
+  name: string;
+  /** The value used (the netlist's, or a `--set` override), in SI units. */
+  value: number;
+  lower: number;
+  upper: number;
+  /** The SI unit text ('F', 'H', 'ohm'…), or null for a plain number. */
+  unit: string | null;
+  /** A preferred-number series (IEC 60063) the value is to be taken from. */
+  series?: 'E6' | 'E12' | 'E24' | 'E48' | 'E96' | 'E192';
+  /** A step the value is to be a multiple of (counted from `lower`), in SI units. */
+  step?: number;
+  /** The parameter's name in the `let` line. */
+  span: SourceSpan;
+}
+
 /** The elaborated circuit: plain numbers in SI units, nodes as indices (ground = -1). */
 export interface Circuit {
   file: string;
@@ -43,6 +63,8 @@ export interface Circuit {
   /** Sweep frequencies in Hz, ascending, without duplicates. */
   frequencies: Float64Array;
   parameters: ParameterValue[];
+  /** The design variables (`let … vary …`), in netlist order. */
+  variables: Variable[];
   /** Warnings found while elaborating (errors throw instead). */
   warnings: Diagnostic[];
 }

@@ -1,11 +1,12 @@
-import type { Arg, Expr, KeyArg, NetlistAst, NetlistItems, Statement, StatementItem } from '../ast/ast.js';
+import { joinSpans, type Arg, type Expr, type KeyArg, type NetlistAst, type NetlistItems, type RangeClause, type Statement, type StatementItem } from '../ast/ast.js';
 import { statementOf } from '../ast/fast.js';
 import { DiagnosticBag, type Diagnostic, type SourceSpan } from '../diagnostics/diagnostic.js';
 import { closest, didYouMean } from '../diagnostics/suggest.js';
 import { ELEMENTS, joinedNodes, outsideRange } from '../elements/registry.js';
 import { GROUND, GROUND_NAME, type ElementInstance, type ElementType, type PropertySpec, type TerminalSpec } from '../elements/types.js';
 import type { NetworkData } from '../network/types.js';
-import type { Circuit, ParameterValue, Port } from './circuit.js';
+import type { Circuit, ParameterValue, Port, Variable } from './circuit.js';
+import { SERIES_NAMES, isSeriesName, seriesValuesIn } from '../design/series.js';
 import { describeQuantity, describeUnit, evaluate, literalToSI, math, toSICached, type EvalScope, type Quantity } from './evaluate.js';
 import { dirname, isAbsolute, join } from 'node:path';
 import { formatFrequency } from '../format/frequency.js';
@@ -225,6 +226,11 @@ export function elaborate(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, op
   /** Elements of the flattened netlist so far (instances counted whole when they are opened). */
   let expanded = 0;
   let statementsRun = 0;
+  /** The design variables, in netlist order. */
+  const variables: Variable[] = [];
+  /** A misplaced `vary` (in a block body, on another statement), reported once per line, not once per instance. */
+  const rangeReported = new Set<string>();
+  const once = (span: SourceSpan) => !rangeReported.has(spanKey(span)) && !!rangeReported.add(spanKey(span));
   run(topStatements, topContext);
 
   function run(statements: (StatementItem | undefined)[], ctx: Context) {
@@ -236,6 +242,11 @@ export function elaborate(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, op
       if (ctx.terminals && TOP_LEVEL_ONLY.has(st.keyword)) {
         bag.error('not-in-block', `\`${st.keyword}\` cannot be used inside a block`, st.keywordSpan, st.keyword === 'block' ? 'define blocks at the top level and use them inside others' : 'put it at the top level of the netlist');
         continue;
+      }
+      if (st.keyword !== 'let') {
+        for (const a of st.args) {
+          if (a.kind === 'key' && a.range && once(a.range.keywordSpan)) bag.error('vary-not-let', '`vary` belongs on a `let` line: only a parameter can be a design variable', a.range.keywordSpan, 'write `let name = value vary LOW to HIGH` and use the name here');
+        }
       }
       switch (st.keyword) {
         case 'title': {
@@ -460,11 +471,96 @@ export function elaborate(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, op
           value = undefined;
         }
       }
+      if (a.range) {
+        if (ctx.terminals) {
+          if (once(a.range.keywordSpan)) {
+            bag.error('vary-in-block', 'a design variable (`vary`) cannot be declared inside a block', a.range.keywordSpan, 'declare it at the top level and pass it to the block as a parameter');
+          }
+        } else if (value !== undefined) {
+          defineVariable(a, a.range, ctx, value, o);
+        }
+      }
       const key = spanKey(a.keySpan);
       ctx.scope.entries.set(a.key, { value: value ?? null, span: a.keySpan, key });
       if (!definitions.has(key)) definitions.set(key, { name: a.key, span: a.keySpan, failed: value === undefined, what: 'parameter' });
       if (o) usedKeys.add(key);
     }
+  }
+
+  /**
+   * Checks a design variable's range against its value and records it: the bounds (and a step)
+   * are evaluated once, with units, like the value.
+   */
+  function defineVariable(a: KeyArg, r: RangeClause, ctx: Context, value: Quantity, o: Override | undefined) {
+    const scope = evalScope(ctx);
+    const own = o ? evaluate(a.values[0]!, scope, new DiagnosticBag()) : value;
+    const lowerQ = finiteOrReport(evaluate(r.lower, scope, bag), r.lower.span, bag, 'the lower bound');
+    const upperQ = finiteOrReport(evaluate(r.upper, scope, bag), r.upper.span, bag, 'the upper bound');
+    const stepQ = r.step ? finiteOrReport(evaluate(r.step, scope, bag), r.step.span, bag, 'the step') : undefined;
+    if (own === undefined || lowerQ === undefined || upperQ === undefined || (r.step && stepQ === undefined)) return;
+    let ok = true;
+    const sameAs = (q: Quantity, e: Expr, what: string) => {
+      if (sameDimension(own, q)) return;
+      bag.error('wrong-unit', `${what} is ${describeQuantity(q)}, but \`${a.key}\` is ${describeQuantity(own)}`, e.span, 'give the range in the unit of the value');
+      ok = false;
+    };
+    sameAs(lowerQ, r.lower, 'the lower bound');
+    sameAs(upperQ, r.upper, 'the upper bound');
+    if (stepQ !== undefined && r.step) sameAs(stepQ, r.step, 'the step');
+    let series: Variable['series'];
+    if (r.series) {
+      if (isSeriesName(r.series.name)) series = r.series.name;
+      else {
+        bag.error('unknown-series', `unknown series \`${r.series.name}\``, r.series.span, didYouMean(r.series.name, SERIES_NAMES) ?? `the series are ${SERIES_NAMES.join(', ')}`);
+        ok = false;
+      }
+    }
+    if (!ok) return;
+    const v = siOf(value);
+    const lo = siOf(lowerQ).value;
+    const hi = siOf(upperQ).value;
+    const rangeText = `${showQuantity(lowerQ)} to ${showQuantity(upperQ)}`;
+    const rangeSpan = joinSpans(r.lower.span, r.upper.span);
+    if (!(lo < hi)) {
+      bag.error('empty-range', `the range ${rangeText} is empty`, rangeSpan, 'write the lower bound first: `vary LOW to HIGH`, with LOW below HIGH');
+      return;
+    }
+    // the netlist's own value lies in its range; an override too
+    const inside = (x: number) => x >= lo - 1e-12 * Math.abs(lo) && x <= hi + 1e-12 * Math.abs(hi);
+    const ownSI = o ? siOf(own).value : v.value;
+    if (!inside(ownSI)) {
+      bag.error('out-of-range', `\`${a.key}\` = ${showQuantity(own)} lies outside its range ${rangeText}`, a.values[0]!.span, 'give a value within the range, or widen the range');
+      ok = false;
+    }
+    if (o && !inside(v.value)) {
+      bag.error('out-of-range', `\`--set ${a.key}\`: ${showQuantity(value)} lies outside the range of \`${a.key}\`, ${rangeText}`, o.expr.span, `line ${a.keySpan.line} of ${a.keySpan.file} gives the range`);
+      ok = false;
+    }
+    let step: number | undefined;
+    if (stepQ !== undefined && r.step) {
+      step = siOf(stepQ).value;
+      if (!(step > 0)) {
+        bag.error('bad-step', `the step must be positive, not ${showQuantity(stepQ)}`, r.step.span);
+        ok = false;
+      } else if (step > hi - lo) {
+        bag.error('bad-step', `the step ${showQuantity(stepQ)} is larger than the range ${rangeText}`, r.step.span, 'give a smaller step or a wider range');
+        ok = false;
+      }
+    }
+    if (series && r.series) {
+      if (!(lo > 0)) {
+        bag.error('series-range', `series ${series} does not fit a range that reaches 0 or below`, rangeSpan, 'a preferred-number series holds positive values only: give a positive lower bound, or use `step`');
+        ok = false;
+      } else if (seriesValuesIn(lo, hi, series).length === 0) {
+        bag.error('series-range', `no value of series ${series} lies in the range ${rangeText}`, rangeSpan, 'widen the range, or use a finer series');
+        ok = false;
+      }
+    }
+    if (!ok) return;
+    const variable: Variable = { name: a.key, value: v.value, lower: lo, upper: hi, unit: v.unit === '' ? null : v.unit, span: a.keySpan };
+    if (series) variable.series = series;
+    if (step !== undefined) variable.step = step;
+    variables.push(variable);
   }
 
   function keyArgs(st: Statement, allowed: string[], what: string, textKeys: readonly string[] = []): Map<string, KeyArg> {
@@ -869,6 +965,7 @@ export function elaborate(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, op
     localReferences,
     frequencies,
     parameters,
+    variables,
     warnings: bag.items.filter((d) => d.severity === 'warning'),
   };
 }
@@ -1025,6 +1122,11 @@ function blockHeader(st: Statement, bag: DiagnosticBag): BlockDefinition | undef
       }
       continue;
     }
+    if (a.range) {
+      bag.error('vary-in-block', 'a design variable (`vary`) cannot be declared inside a block', a.range.keywordSpan, 'declare it at the top level with `let` and give it to the block where the block is used');
+      ok = false;
+      continue;
+    }
     if (a.values.length !== 1 || a.at) {
       bag.error('bad-block', `the default of parameter \`${a.key}\` is one value`, a.span);
       ok = false;
@@ -1108,6 +1210,11 @@ function unitHelp(unit: string | null): string | undefined {
 }
 
 const SI_UNITS = ['ohm', 'S', 'F', 'H', 'Hz', 's', 'm', 'rad', 'dB', 'dB/m'];
+
+/** A value as a message shows it: `10 pF`, `6`. */
+function showQuantity(q: Quantity): string {
+  return typeof q === 'number' ? String(q) : q.format({ precision: 6 });
+}
 
 function siOf(q: Quantity): { value: number; unit: string } {
   if (typeof q === 'number') return { value: q, unit: '' };

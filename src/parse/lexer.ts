@@ -41,6 +41,16 @@ export const Identifier = createToken({
 });
 /** `at` introduces the frequency a loss figure is given at (`q=40 at 433 MHz`). */
 export const At = createToken({ name: 'At', pattern: /at\b/, longer_alt: Identifier });
+/**
+ * The words of a design variable's range (`let c = 3.3 pF vary 1 pF to 10 pF series E24`). Each is
+ * also a name (category Identifier): `step=10 MHz` or `let to = 2` read as before.
+ */
+export const Vary = createToken({ name: 'Vary', pattern: /vary\b/, longer_alt: Identifier, categories: [Identifier] });
+export const To = createToken({ name: 'To', pattern: /to\b/, longer_alt: Identifier, categories: [Identifier] });
+export const Series = createToken({ name: 'Series', pattern: /series\b/, longer_alt: Identifier, categories: [Identifier] });
+export const Step = createToken({ name: 'Step', pattern: /step\b/, longer_alt: Identifier, categories: [Identifier] });
+/** Words that end a value instead of being read as its unit. */
+export const RANGE_WORDS: readonly string[] = ['vary', 'to', 'series', 'step'];
 export const Equals = createToken({ name: 'Equals', pattern: /=/ });
 export const Comma = createToken({ name: 'Comma', pattern: /,/ });
 export const LParen = createToken({ name: 'LParen', pattern: /\(/ });
@@ -60,6 +70,10 @@ export const allTokens: TokenType[] = [
   OpenString,
   NumberLit,
   At,
+  Vary,
+  To,
+  Series,
+  Step,
   Identifier,
   Equals,
   Comma,

@@ -1,4 +1,4 @@
-import type { CstNode, IToken, IRecognitionException } from 'chevrotain';
+import type { CstNode, IToken, IRecognitionException, TokenType } from 'chevrotain';
 import { MAX_EXPRESSION_DEPTH } from '../limits.js';
 import { stringBodyEnd } from './scan.js';
 import { CstParser, EOF } from './chevrotain.js';
@@ -16,9 +16,13 @@ import {
   OpenString,
   Plus,
   RParen,
+  Series,
   Slash,
   Star,
+  Step,
   StringLit,
+  To,
+  Vary,
   netlistLexer,
 } from './lexer.js';
 
@@ -27,14 +31,18 @@ import {
  *
  *   statement   := Identifier [label] argument*
  *   label       := Identifier (not followed by '=') | NumberLit
- *   argument    := Identifier '=' (StringLit | valueList [At expression]) | StringLit
+ *   argument    := Identifier '=' (StringLit | valueList [At expression] [range]) | StringLit
+ *   range       := 'vary' expression 'to' expression ['series' Identifier | 'step' expression]
  *   valueList   := expression (',' expression)*
  *   expression  := term (('+' | '-') term)*
  *   term        := factor (('*' | '/') factor)*
  *   factor      := ('-' | '+') factor | power
  *   power       := primary ['^' factor]
  *   primary     := NumberLit [unit] | Identifier '(' [expression (',' expression)*] ')' | Identifier | '(' expression ')'
- *   unit        := Identifier (not followed by '=' or '(')
+ *   unit        := Identifier (not followed by '=' or '(', and not one of vary, to, series, step)
+ *
+ * `vary`, `to`, `series` and `step` are tokens of their own in the category of names, so they stay
+ * usable as names everywhere else.
  *
  * A file is a sequence of lines; each non-empty line is one statement (a trailing backslash continues a line).
  */
@@ -79,6 +87,7 @@ export class NetlistParser extends CstParser {
                   this.CONSUME(At);
                   this.SUBRULE(this.expression, { LABEL: 'atValue' });
                 });
+                this.OPTION2(() => this.SUBRULE(this.range));
               },
             },
           ]);
@@ -86,6 +95,30 @@ export class NetlistParser extends CstParser {
       },
       { ALT: () => this.CONSUME(StringLit, { LABEL: 'text' }) },
     ]);
+  });
+
+  /** A design variable's range on a `let`: `vary LOW to HIGH [series E24 | step S]`. */
+  public range = this.RULE('range', () => {
+    this.CONSUME(Vary);
+    this.SUBRULE(this.expression, { LABEL: 'lower' });
+    this.CONSUME(To);
+    this.SUBRULE2(this.expression, { LABEL: 'upper' });
+    this.OPTION(() => {
+      this.OR([
+        {
+          ALT: () => {
+            this.CONSUME(Series);
+            this.CONSUME(Identifier, { LABEL: 'seriesName' });
+          },
+        },
+        {
+          ALT: () => {
+            this.CONSUME(Step);
+            this.SUBRULE3(this.expression, { LABEL: 'step' });
+          },
+        },
+      ]);
+    });
   });
 
   public valueList = this.RULE('valueList', () => {
@@ -147,7 +180,7 @@ export class NetlistParser extends CstParser {
         ALT: () => {
           this.CONSUME(NumberLit, { LABEL: 'number' });
           this.OPTION({
-            GATE: () => this.LA(2).tokenType !== Equals && this.LA(2).tokenType !== LParen,
+            GATE: () => this.LA(2).tokenType !== Equals && this.LA(2).tokenType !== LParen && !isRangeWord(this.LA(1).tokenType),
             DEF: () => this.CONSUME(Identifier, { LABEL: 'unit' }),
           });
         },
@@ -177,6 +210,10 @@ export class NetlistParser extends CstParser {
       },
     ]);
   });
+}
+
+function isRangeWord(t: TokenType): boolean {
+  return t === Vary || t === To || t === Series || t === Step;
 }
 
 /** Characters that can start a token or a line break: the rest can never be read. */

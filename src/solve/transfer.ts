@@ -158,6 +158,7 @@ export function unpackCircuit(p: PackedCircuit): Circuit {
     localReferences: p.localReferences,
     frequencies: new Float64Array(0),
     parameters: [],
+    variables: [],
     warnings: [],
   };
 }
