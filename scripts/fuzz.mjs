@@ -169,6 +169,8 @@ if (opts.minimize > 0) {
       return classOf(c, o) === cls;
     };
     const text = kind === 'netlist' ? c.files[c.main] : c.text;
+    // a text of megabytes is not shrunk (each step would copy it, and this process would run out of memory)
+    if (text.length > 1_000_000) continue;
     const small = await minimizeText(text, still, budget);
     const mc = withText(small);
     const o = await pool.run(mc);

@@ -41,7 +41,7 @@ export function makeRng(seed) {
 // Dictionary
 
 const STATEMENTS = ['title', 'let', 'port', 'sweep', 'spec', 'block', 'end', 'include'];
-const SWEEP_WORDS = ['linear', 'log', 'list', 'start', 'stop', 'points', 'step', 'per_decade', 'freqs'];
+const SWEEP_WORDS = ['vary', 'to', 'series', 'step', 'E24', 'E96', 'E7', 'linear', 'log', 'list', 'start', 'stop', 'points', 'step', 'per_decade', 'freqs'];
 const PORT_WORDS = ['plus', 'minus', 'ref', 'ref_x'];
 const SPEC_WORDS = ['measure', 'min', 'max', 'over', 'above', 'below', 'il(2,1)', 'rl(1)', 'db(S21)', 'mu', 'k', 'vswr(1)', 'gd(2,1)', 'S(2,1)', 'zin_re(1)', 'zin_im(1)', 'mag', 'msg'];
 const UNITS = ['ohm', 'ohms', 'Ω', 'Ω', 'kohm', 'Mohm', 'mohm', 'kΩ', 'S', 'mS', 'uS', 'µS', 'F', 'pF', 'nF', 'uF', 'fF', 'µF', 'μF', 'H', 'nH', 'pH', 'uH', 'mH',
