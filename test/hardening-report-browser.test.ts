@@ -15,9 +15,8 @@ import { pathToFileURL } from 'node:url';
 import { chromium, type BrowserContext, type Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { loadNetlist } from '../src/load.js';
-import { mixedMode } from '../src/network/mixed-mode.js';
-import type { NetworkData } from '../src/network/types.js';
 import { renderReport } from '../src/report/index.js';
+import { network, twoThroughLines } from './report-fixtures.js';
 import { solveSweep } from '../src/solve/sweep.js';
 
 // browser objects are typed loosely: this test project compiles without the DOM library
@@ -29,21 +28,6 @@ interface Win {
 const CHROMIUM = '/usr/bin/chromium';
 const haveChromium = existsSync(CHROMIUM);
 const ARGS = ['--headless', '--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--no-first-run', '--disable-sync'];
-
-function network(freqs: number[], s: (k: number) => [number, number][][]): NetworkData {
-  const n = s(0).length;
-  const values = new Float64Array(2 * n * n * freqs.length);
-  freqs.forEach((_, k) => {
-    const m = s(k);
-    for (let i = 0; i < n; i++) {
-      for (let j = 0; j < n; j++) {
-        values[2 * ((k * n + i) * n + j)] = m[i]![j]![0];
-        values[2 * ((k * n + i) * n + j) + 1] = m[i]![j]![1];
-      }
-    }
-  });
-  return { parameter: 'S', ports: n, frequencies: Float64Array.from(freqs), references: Float64Array.from(new Array(n).fill(50)), values };
-}
 
 describe.skipIf(!haveChromium)('hardening: the report in a browser', () => {
   let dir: string;
@@ -120,21 +104,7 @@ describe.skipIf(!haveChromium)('hardening: the report in a browser', () => {
   });
 
   it('mixed-mode data reads out by mode (Sdd11, Scd21 …)', async () => {
-    const se = network([1e9, 2e9], (k) => {
-      const r: [number, number] = [0.1 + 0.05 * k, 0.02];
-      const t: [number, number] = [0.9, -0.3 * k];
-      const o: [number, number] = [0, 0];
-      return [
-        [r, t, o, o],
-        [t, r, o, o],
-        [o, o, r, t],
-        [o, o, t, r],
-      ];
-    });
-    const mm = mixedMode(se, [
-      [1, 3],
-      [2, 4],
-    ]);
+    const { mm } = twoThroughLines();
     const { page, errors } = await open('mm.html', renderReport({ source: 'mm', net: mm, entries: [[1, 1], [2, 1], [3, 2]] }));
     await page.evaluate(() => (globalThis as unknown as Win).scatterboxReport.readoutAt(1e9));
     const names = await page.locator('[data-testid="readout"] .ro-item').evaluateAll((els: Dom[]) => els.map((e) => e.getAttribute('data-entry')));

@@ -20,32 +20,17 @@ import { inputImpedance, inputReactance, inputResistance } from '../src/figures/
 import { computeFigure, FigureError, FIGURES, parseFigure } from '../src/figures/registry.js';
 import { OutputError } from '../src/io/output.js';
 import { loadNetlist } from '../src/load.js';
-import { mixedMode, modeLabels } from '../src/network/mixed-mode.js';
+import { modeLabels } from '../src/network/mixed-mode.js';
 import type { NetworkData } from '../src/network/types.js';
 import { gammaToImpedance, renderPlotSvg, renderReport } from '../src/report/index.js';
 import { solveSweep } from '../src/solve/sweep.js';
+import { network, twoThroughLines } from './report-fixtures.js';
 
 const math = create(all, {});
 const root = join(import.meta.dirname, '..');
 const cli = join(root, 'bin', 'scatterbox.js');
 const lines = (...l: string[]) => l.join('\n') + '\n';
 type C = { re: number; im: number };
-
-/** A network of S data given per point as rows of [re, im] pairs (layout of src/network/types.ts). */
-function network(freqs: number[], s: (k: number) => [number, number][][], references?: number[]): NetworkData {
-  const n = s(0).length;
-  const values = new Float64Array(2 * n * n * freqs.length);
-  freqs.forEach((_, k) => {
-    const m = s(k);
-    for (let i = 0; i < n; i++) {
-      for (let j = 0; j < n; j++) {
-        values[2 * ((k * n + i) * n + j)] = m[i]![j]![0];
-        values[2 * ((k * n + i) * n + j) + 1] = m[i]![j]![1];
-      }
-    }
-  });
-  return { parameter: 'S', ports: n, frequencies: Float64Array.from(freqs), references: Float64Array.from(references ?? new Array(n).fill(50)), values };
-}
 
 function expectRel(got: number, want: number, rel: number, what: string): void {
   expect(Math.abs(got - want), `${what}: got ${got}, want ${want}`).toBeLessThanOrEqual(rel * Math.max(1, Math.abs(want)));
@@ -395,21 +380,7 @@ describe('the dB axis is not stretched by numerical zeros', () => {
 
 describe('mixed-mode data is labelled by mode', () => {
   // a 4-port of two uncoupled through lines, 1→2 and 3→4, with some reflection; pairs (1,3) and (2,4)
-  const se = network([1e9, 2e9], (k) => {
-    const r: [number, number] = [0.1 + 0.05 * k, 0.02];
-    const t: [number, number] = [0.9, -0.3 * k];
-    const o: [number, number] = [0, 0];
-    return [
-      [r, t, o, o],
-      [t, r, o, o],
-      [o, o, r, t],
-      [o, o, t, r],
-    ];
-  });
-  const mm = mixedMode(se, [
-    [1, 3],
-    [2, 4],
-  ]);
+  const { mm } = twoThroughLines();
   // the naming of D. E. Bockelman and W. R. Eisenstadt, "Combined differential and common-mode
   // scattering parameters", IEEE Trans. MTT 43(7), 1995: S, the response mode, the drive mode,
   // then the response and drive pair numbers (from memory)
