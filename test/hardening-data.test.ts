@@ -14,16 +14,21 @@ import type { NetworkData } from '../src/network/types.js';
 
 const lines = (...l: string[]) => l.join('\n') + '\n';
 
-/** Runs `fn`, expects a TouchstoneError at (line, column) whose message matches. */
-function located(fn: () => unknown, line: number, column: number, message: RegExp): TouchstoneError {
+/** Runs `fn` and returns what it throws, which must be a `type`. */
+function thrown<T>(fn: () => unknown, type: abstract new (...args: never[]) => T): T {
   let caught: unknown;
   try {
     fn();
   } catch (e) {
     caught = e;
   }
-  expect(caught).toBeInstanceOf(TouchstoneError);
-  const err = caught as TouchstoneError;
+  expect(caught).toBeInstanceOf(type);
+  return caught as T;
+}
+
+/** Runs `fn`, expects a TouchstoneError at (line, column) whose message matches. */
+function located(fn: () => unknown, line: number, column: number, message: RegExp): TouchstoneError {
+  const err = thrown(fn, TouchstoneError);
   expect(err.message).toMatch(message);
   expect([err.line, err.column]).toEqual([line, column]);
   return err;
@@ -52,14 +57,7 @@ describe('resource limits of the readers', () => {
 
   it('JSON "ports": 100000 is refused at the "ports" key, stating the limit', () => {
     const text = `{\n  "schema": "scatterbox.network/1",\n  "parameter": "S",\n  "ports": 100000,\n  "references_ohm": [],\n  "frequency_hz": [],\n  "data": []\n}\n`;
-    let caught: unknown;
-    try {
-      parseJson(text);
-    } catch (e) {
-      caught = e;
-    }
-    expect(caught).toBeInstanceOf(JsonNetworkError);
-    const e = caught as JsonNetworkError;
+    const e = thrown(() => parseJson(text), JsonNetworkError);
     expect(e.message).toMatch(new RegExp(`"ports" is 100000, above the limit of ${MAX_PORTS}`));
     expect([e.line, e.column]).toEqual([4, 3]);
   });
@@ -129,14 +127,7 @@ describe('no non-finite value from the JSON reader', () => {
 
   it('an overflowing number (1e400 reads as Infinity in JSON.parse) is named and located', () => {
     const text = JSON.stringify(base, null, 2).replace('1000000000', '1e400');
-    let caught: unknown;
-    try {
-      parseJson(text);
-    } catch (e) {
-      caught = e;
-    }
-    expect(caught).toBeInstanceOf(JsonNetworkError);
-    const e = caught as JsonNetworkError;
+    const e = thrown(() => parseJson(text), JsonNetworkError);
     expect(e.message).toMatch(/frequency_hz\[0\] is 1e400, beyond the range/);
     const at = text.split('\n').findIndex((l) => l.includes('1e400'));
     expect([e.line, e.column]).toEqual([at + 1, text.split('\n')[at]!.indexOf('1e400') + 1]);
