@@ -79,3 +79,4 @@ export { evaluateQuantity } from './load.js';
 export { microstripStatic, microstripDispersive, microstripWidth, microstripAt } from './models/microstrip.js';
 export { renderReport, renderPlotSvg, type ReportInput, type PlotSvgOptions } from './report/index.js';
 export { solveSweepParallel, closeSweepPool, type ParallelOptions } from './solve/parallel.js';
+export { DesignModel, VariableError, setText, type DesignOptions, type MarginGradient, type NetworkDerivatives } from './design/model.js';

@@ -1,0 +1,202 @@
+/**
+ * A design model: a netlist with design variables, evaluated again and again at new variable
+ * values — the engine behind `vary`, `fit`, `sensitivity` and the library's own loops.
+ *
+ * ```ts
+ * const model = DesignModel.load('circuits/match-50-75-915.sbx');
+ * model.setValues({ lser: 10e-9 });          // SI units; bounds checked
+ * const specs = model.checkSpecs();          // solves only the frequencies the specs look at
+ * const s = model.solve();                   // the whole sweep
+ * ```
+ *
+ * @module
+ */
+import { readInputText } from '../io/source-file.js';
+import { loadNetlist, type LoadOptions } from '../load.js';
+import type { Circuit, Variable } from '../elaborate/circuit.js';
+import type { NetworkData } from '../network/types.js';
+import type { SpecResult } from '../check/types.js';
+import { evaluateSpecs } from '../check/evaluate.js';
+import { solveSweep, type SolverChoice } from '../solve/sweep.js';
+
+export interface DesignOptions extends LoadOptions {
+  /** The linear solver (default `auto`). */
+  solver?: SolverChoice;
+}
+
+/** A variable value outside its range, or a name that is no variable. */
+export class VariableError extends RangeError {
+  constructor(
+    message: string,
+    readonly variable?: string,
+  ) {
+    super(message);
+    this.name = 'VariableError';
+  }
+}
+
+/** The text of a value in SI units for a `--set` option: `1.2e-11 F`. */
+export function setText(v: Variable, value: number): string {
+  return `${v.name}=${String(value)}${v.unit ? ` ${v.unit}` : ''}`;
+}
+
+export class DesignModel {
+  /** The circuit as elaborated at the values given when the model was made. */
+  readonly circuit: Circuit;
+  /** The design variables, in netlist order. */
+  readonly variables: readonly Variable[];
+  /** Source texts by file name, for formatting diagnostics. */
+  readonly sources: Map<string, string>;
+  private readonly current: Float64Array;
+  private readonly nominal: Float64Array;
+
+  private constructor(
+    private readonly text: string,
+    private readonly file: string,
+    private readonly options: DesignOptions,
+  ) {
+    const { circuit, sources } = loadNetlist(text, file, options);
+    this.circuit = circuit;
+    this.variables = circuit.variables;
+    this.sources = sources;
+    this.nominal = Float64Array.from(circuit.variables, (v) => v.value);
+    this.current = Float64Array.from(this.nominal);
+  }
+
+  /** A model of the netlist file at `path` (throws InputError as loadNetlistFile does). */
+  static load(path: string, options: DesignOptions = {}): DesignModel {
+    return new DesignModel(readInputText(path), path, options);
+  }
+
+  /** A model of a netlist text (`file` names it in messages and resolves its includes). */
+  static fromText(text: string, file: string, options: DesignOptions = {}): DesignModel {
+    return new DesignModel(text, file, options);
+  }
+
+  /** The current variable values, SI units, in the order of {@link variables} (a copy). */
+  get values(): Float64Array {
+    return Float64Array.from(this.current);
+  }
+
+  /** The values the model was made with (the netlist's, or its `--set` overrides). */
+  get nominalValues(): Float64Array {
+    return Float64Array.from(this.nominal);
+  }
+
+  /** The index of a variable by name, or -1. */
+  indexOf(name: string): number {
+    return this.variables.findIndex((v) => v.name === name);
+  }
+
+  /**
+   * Sets variable values in SI units: a full vector (in the order of {@link variables}) or some
+   * by name. A value outside its variable's range or not finite throws {@link VariableError}
+   * and changes nothing.
+   */
+  setValues(values: ArrayLike<number> | Readonly<Record<string, number>>): void {
+    const next = Float64Array.from(this.current);
+    if (isArrayLike(values)) {
+      if (values.length !== this.variables.length) throw new VariableError(`${values.length} values for ${this.variables.length} variables`);
+      for (let i = 0; i < values.length; i++) next[i] = values[i]!;
+    } else {
+      for (const [name, value] of Object.entries(values)) {
+        const i = this.indexOf(name);
+        if (i < 0) throw new VariableError(`\`${name}\` is not a design variable${this.variables.length ? ` (the variables are ${this.variables.map((v) => v.name).join(', ')})` : ''}`, name);
+        next[i] = value;
+      }
+    }
+    this.variables.forEach((v, i) => {
+      const x = next[i]!;
+      if (!Number.isFinite(x) || x < v.lower || x > v.upper) {
+        throw new VariableError(`${v.name} = ${x}${v.unit ? ` ${v.unit}` : ''} is outside its range ${v.lower} to ${v.upper}${v.unit ? ` ${v.unit}` : ''}`, v.name);
+      }
+    });
+    this.current.set(next);
+  }
+
+  /** The current values as `--set` texts (`name=value unit`). */
+  setOptions(values: ArrayLike<number> = this.current): string[] {
+    return this.variables.map((v, i) => setText(v, values[i]!));
+  }
+
+  /** The circuit at the current values. */
+  currentCircuit(): Circuit {
+    const set = [...(this.options.set ?? []).filter((s) => !this.variables.some((v) => s.trim().startsWith(`${v.name}=`) || s.trim().startsWith(`${v.name} `))), ...this.setOptions()];
+    return loadNetlist(this.text, this.file, { ...this.options, set }).circuit;
+  }
+
+  /** S over the sweep (or the given frequencies, Hz, ascending) at the current values. */
+  solve(frequencies?: Float64Array): NetworkData {
+    return solveSweep(this.currentCircuit(), { frequencies, solver: this.options.solver });
+  }
+
+  /** The specs' results at the current values. */
+  checkSpecs(): SpecResult[] {
+    const c = this.currentCircuit();
+    return evaluateSpecs(c.specs, solveSweep(c, { solver: this.options.solver }));
+  }
+
+  /** The specs' results and the derivatives of their worst margins (see {@link MarginGradient}). */
+  marginGradient(): MarginGradient {
+    const base = Float64Array.from(this.current);
+    const results = this.checkSpecs();
+    const nv = this.variables.length;
+    const gradient = new Float64Array(results.length * nv);
+    for (let v = 0; v < nv; v++) {
+      const [lo, hi, h] = this.steps(v, base);
+      this.current.set(base);
+      this.current[v] = hi;
+      const up = this.checkSpecs();
+      this.current[v] = lo;
+      const down = this.checkSpecs();
+      for (let s = 0; s < results.length; s++) gradient[s * nv + v] = (up[s]!.worstMargin - down[s]!.worstMargin) / h;
+    }
+    this.current.set(base);
+    return { results, gradient };
+  }
+
+  /** S over the sweep (or the given frequencies) and its derivatives (see {@link NetworkDerivatives}). */
+  derivatives(frequencies?: Float64Array): NetworkDerivatives {
+    const base = Float64Array.from(this.current);
+    const network = this.solve(frequencies);
+    const derivatives = this.variables.map((_, v) => {
+      const [lo, hi, h] = this.steps(v, base);
+      this.current.set(base);
+      this.current[v] = hi;
+      const up = this.solve(frequencies).values;
+      this.current[v] = lo;
+      const down = this.solve(frequencies).values;
+      return up.map((u, k) => (u - down[k]!) / h);
+    });
+    this.current.set(base);
+    return { network, derivatives };
+  }
+
+  /** A central-difference step for variable v, kept inside its range: [low, high, high − low]. */
+  private steps(v: number, base: Float64Array): [number, number, number] {
+    const x = base[v]!;
+    const { lower, upper } = this.variables[v]!;
+    const d = 1e-6 * Math.max(Math.abs(x), (upper - lower) * 1e-3);
+    const hi = Math.min(upper, x + d);
+    const lo = Math.max(lower, x - d);
+    return [lo, hi, hi - lo];
+  }
+}
+
+/** Spec results with the derivative of each spec's worst margin with respect to each variable. */
+export interface MarginGradient {
+  results: SpecResult[];
+  /** d(worst margin of spec s)/d(variable v) at gradient[s·variables + v], per SI unit of the variable. */
+  gradient: Float64Array;
+}
+
+/** S over a sweep with its derivatives with respect to each variable. */
+export interface NetworkDerivatives {
+  network: NetworkData;
+  /** Per variable: dS/dx in the layout of `network.values` (complex interleaved), per SI unit of x. */
+  derivatives: Float64Array[];
+}
+
+function isArrayLike(x: unknown): x is ArrayLike<number> {
+  return ArrayBuffer.isView(x) || Array.isArray(x);
+}
