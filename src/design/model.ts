@@ -17,7 +17,9 @@ import type { Circuit, Variable } from '../elaborate/circuit.js';
 import type { NetworkData } from '../network/types.js';
 import type { SpecResult } from '../check/types.js';
 import { evaluateSpecs } from '../check/evaluate.js';
-import { solveSweep, type SolverChoice } from '../solve/sweep.js';
+import { solveSweep, SweepRunner, type SolverChoice } from '../solve/sweep.js';
+import { ParameterGraph } from '../params/graph.js';
+import { buildPlan, PatternChangedError, restampElements, type StampPlan } from '../plan/plan.js';
 
 export interface DesignOptions extends LoadOptions {
   /** The linear solver (default `auto`). */
@@ -49,6 +51,12 @@ export class DesignModel {
   readonly sources: Map<string, string>;
   private readonly current: Float64Array;
   private readonly nominal: Float64Array;
+  /**
+   * The fast path (undefined where some number that depends on a variable cannot be followed
+   * without elaborating again, Circuit.unfollowed): the parameter graph, the working circuit it
+   * changes, the stamp plan and the sweeps set up on it.
+   */
+  private readonly fast: FastPath | undefined;
 
   private constructor(
     private readonly text: string,
@@ -61,6 +69,54 @@ export class DesignModel {
     this.sources = sources;
     this.nominal = Float64Array.from(circuit.variables, (v) => v.value);
     this.current = Float64Array.from(this.nominal);
+    if (circuit.unfollowed.length === 0) {
+      const graph = new ParameterGraph(circuit);
+      const working = graph.workingCopy(circuit);
+      this.fast = { graph, working, plan: buildPlan(working, { replayable: graph.elements }), applied: Float64Array.from(this.nominal), runners: new Map(), specPoints: specPoints(circuit) };
+    }
+  }
+
+  /**
+   * Whether new values are taken by the fast path (re-stamping the plan) rather than by
+   * elaborating the netlist again; false where a number that depends on a variable lies outside
+   * the elements (a port reference, the sweep, a spec), see Circuit.unfollowed.
+   */
+  get followsVariables(): boolean {
+    return this.fast !== undefined;
+  }
+
+  /** Brings the plan to the current values (only the elements that depend on changed variables). */
+  private update(fast: FastPath): void {
+    if (sameValues(fast.applied, this.current)) return;
+    const changed = fast.graph.apply(fast.working, this.current, fast.applied, this.circuit.frequencies);
+    fast.applied.set(this.current);
+    try {
+      restampElements(fast.plan, fast.working, changed);
+      for (const r of fast.runners.values()) r.refresh();
+    } catch (e) {
+      if (!(e instanceof PatternChangedError)) throw e;
+      fast.plan = buildPlan(fast.working, { replayable: fast.graph.elements });
+      fast.runners.clear();
+    }
+  }
+
+  /** The sweep runner over `freqs` on the current plan (made once per frequency set and kept). */
+  private runner(fast: FastPath, key: string, freqs: Float64Array): SweepRunner {
+    let r = fast.runners.get(key);
+    if (!r) {
+      r = new SweepRunner(fast.working, { frequencies: freqs, plan: fast.plan, solver: this.options.solver, lowestFrequency: fast.plan.lowestFrequency });
+      fast.runners.set(key, r);
+    }
+    return r;
+  }
+
+  /** Solves `freqs` at the current values on the fast path; the values are a fresh copy. */
+  private solveFast(fast: FastPath, key: string, freqs: Float64Array): NetworkData {
+    this.update(fast);
+    const r = this.runner(fast, key, freqs);
+    r.run(0, freqs.length);
+    const net = r.finish();
+    return { ...net, values: Float64Array.from(net.values) };
   }
 
   /** A model of the netlist file at `path` (throws InputError as loadNetlistFile does). */
@@ -121,17 +177,42 @@ export class DesignModel {
 
   /** The circuit at the current values. */
   currentCircuit(): Circuit {
+    const fast = this.fast;
+    if (fast) {
+      this.update(fast);
+      const elements = fast.working.elements.map((el) => ({ ...el, props: { ...el.props }, at: { ...el.at } }));
+      return { ...fast.working, elements, variables: this.variables.map((v, i) => ({ ...v, value: this.current[i]! })) };
+    }
     const set = [...(this.options.set ?? []).filter((s) => !this.variables.some((v) => s.trim().startsWith(`${v.name}=`) || s.trim().startsWith(`${v.name} `))), ...this.setOptions()];
     return loadNetlist(this.text, this.file, { ...this.options, set }).circuit;
   }
 
   /** S over the sweep (or the given frequencies, Hz, ascending) at the current values. */
   solve(frequencies?: Float64Array): NetworkData {
-    return solveSweep(this.currentCircuit(), { frequencies, solver: this.options.solver });
+    const fast = this.fast;
+    if (!fast) return solveSweep(this.currentCircuit(), { frequencies, solver: this.options.solver });
+    if (!frequencies || frequencies === this.circuit.frequencies) return this.solveFast(fast, 'sweep', this.circuit.frequencies);
+    if (frequencies.length > 0 && frequencies[0]! < fast.plan.lowestFrequency) {
+      // below the lowest frequency the plan was built for: a plan of their own
+      this.update(fast);
+      return solveSweep(fast.working, { frequencies, solver: this.options.solver });
+    }
+    const key = `list:${frequencies.join(',')}`;
+    if (!fast.runners.has(key)) {
+      // keep a few lists, not every one ever asked for
+      const lists = [...fast.runners.keys()].filter((k) => k.startsWith('list:'));
+      if (lists.length >= 4) fast.runners.delete(lists[0]!);
+    }
+    return this.solveFast(fast, key, frequencies);
   }
 
   /** The specs' results at the current values. */
   checkSpecs(): SpecResult[] {
+    const fast = this.fast;
+    if (fast) {
+      const freqs = fast.specPoints;
+      return evaluateSpecs(this.circuit.specs, freqs.length > 0 ? this.solveFast(fast, 'specs', freqs) : this.solveFast(fast, 'sweep', this.circuit.frequencies));
+    }
     const c = this.currentCircuit();
     return evaluateSpecs(c.specs, solveSweep(c, { solver: this.options.solver }));
   }
@@ -195,6 +276,47 @@ export interface NetworkDerivatives {
   network: NetworkData;
   /** Per variable: dS/dx in the layout of `network.values` (complex interleaved), per SI unit of x. */
   derivatives: Float64Array[];
+}
+
+interface FastPath {
+  graph: ParameterGraph;
+  working: Circuit;
+  plan: StampPlan;
+  /** The variable values the plan holds. */
+  applied: Float64Array;
+  /** Sweeps set up on the plan, by frequency set ('sweep', 'specs', or a list). */
+  runners: Map<string, SweepRunner>;
+  /** The sweep points the specs look at (empty: the whole sweep is needed). */
+  specPoints: Float64Array;
+}
+
+function sameValues(a: Float64Array, b: Float64Array): boolean {
+  for (let i = 0; i < a.length; i++) if (!Object.is(a[i], b[i])) return false;
+  return true;
+}
+
+/**
+ * The sweep points the specs look at: those inside a spec's band (with the tolerance of
+ * evaluateSpecs), and their neighbours, since a group delay takes the phase of the points on
+ * either side. Empty (the whole sweep) when a spec's figure needs every point before it (the
+ * unwrapped phase) or when nothing is saved.
+ */
+function specPoints(circuit: Circuit): Float64Array {
+  const f = circuit.frequencies;
+  if (circuit.specs.length === 0 || circuit.specs.some((s) => /^\s*uphase\b/i.test(s.figure))) return new Float64Array(0);
+  const keep = new Uint8Array(f.length);
+  for (const spec of circuit.specs) {
+    const [lo, hi] = spec.band;
+    for (let k = 0; k < f.length; k++) {
+      if (f[k]! < lo * (1 - 1e-12) || f[k]! > hi * (1 + 1e-12)) continue;
+      keep[k] = 1;
+      if (k > 0) keep[k - 1] ||= 2;
+      if (k + 1 < f.length) keep[k + 1] ||= 2;
+    }
+  }
+  const out: number[] = [];
+  for (let k = 0; k < f.length; k++) if (keep[k]) out.push(f[k]!);
+  return out.length < f.length ? Float64Array.from(out) : new Float64Array(0);
 }
 
 function isArrayLike(x: unknown): x is ArrayLike<number> {

@@ -1,6 +1,7 @@
 import type { Diagnostic, SourceSpan } from '../diagnostics/diagnostic.js';
 import type { ElementInstance } from '../elements/types.js';
 import type { SpecDefinition } from '../check/types.js';
+import type { Compiled } from '../params/compile.js';
 
 /** A port after elaboration: numbered from 1, between two nodes, with a real reference impedance. */
 export interface Port {
@@ -47,6 +48,31 @@ export interface Variable {
   span: SourceSpan;
 }
 
+/**
+ * A number of an element that depends on design variables: property `key` (or the frequency
+ * after its `at`) of element `element` (an index into Circuit.elements) as a compiled function
+ * of the variables' SI values (src/params/compile.ts).
+ */
+export interface ValueBinding {
+  element: number;
+  target: 'prop' | 'at';
+  key: string;
+  value: Compiled;
+  /** The expression, for messages. */
+  span: SourceSpan;
+}
+
+/**
+ * A number outside the elements that depends on a design variable (a port reference, a sweep
+ * or spec value), or an expression whose plain numbers cannot follow the variables: a new
+ * variable value then needs the netlist elaborated again.
+ */
+export interface Unfollowed {
+  what: string;
+  span: SourceSpan;
+  reason: string;
+}
+
 /** The elaborated circuit: plain numbers in SI units, nodes as indices (ground = -1). */
 export interface Circuit {
   file: string;
@@ -65,6 +91,10 @@ export interface Circuit {
   parameters: ParameterValue[];
   /** The design variables (`let … vary …`), in netlist order. */
   variables: Variable[];
+  /** The element numbers that follow the variables (empty without variables). */
+  bindings: ValueBinding[];
+  /** Numbers that depend on variables but that re-evaluation cannot follow (see {@link Unfollowed}). */
+  unfollowed: Unfollowed[];
   /** Warnings found while elaborating (errors throw instead). */
   warnings: Diagnostic[];
 }

@@ -5,7 +5,7 @@ import { closest, didYouMean } from '../diagnostics/suggest.js';
 import { ELEMENTS, joinedNodes, outsideRange } from '../elements/registry.js';
 import { GROUND, GROUND_NAME, type ElementInstance, type ElementType, type PropertySpec, type TerminalSpec } from '../elements/types.js';
 import type { NetworkData } from '../network/types.js';
-import type { Circuit, ParameterValue, Port, Variable } from './circuit.js';
+import type { Circuit, ParameterValue, Port, Unfollowed, ValueBinding, Variable } from './circuit.js';
 import { SERIES_NAMES, isSeriesName, seriesValuesIn } from '../design/series.js';
 import { describeQuantity, describeUnit, evaluate, literalToSI, math, toSICached, type EvalScope, type Quantity } from './evaluate.js';
 import { dirname, isAbsolute, join } from 'node:path';
@@ -15,6 +15,7 @@ import { elaborateSpec } from './spec.js';
 import { buildSweep } from './sweep.js';
 import type { SpecDefinition } from '../check/types.js';
 import { MAX_BLOCK_DEPTH, MAX_EXPANDED_ELEMENTS, MAX_PORTS, MAX_REFERENCE_OHMS, MIN_REFERENCE_OHMS } from '../limits.js';
+import { compileExpr, NotCompilable, variableNode, type Compiled } from '../params/compile.js';
 
 /** A parameter override from outside the netlist (`--set name=value`). */
 export interface Override {
@@ -65,6 +66,8 @@ interface ParamEntry {
   span: SourceSpan;
   /** Identity for "never used" warnings, shared by every instance of a block. */
   key: string;
+  /** The value as a function of the design variables, when it depends on any. */
+  node?: Compiled;
 }
 
 /** Parameters visible at a place: a block instance's own, then the netlist's. */
@@ -177,6 +180,28 @@ export function elaborate(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, op
   const globals = new ParamScope();
   const topContext: Context = { scope: globals, prefix: '', terminals: null, chain: [], later: laterOf(topStatements) };
 
+  /** Element numbers that follow the variables (their elements' indices filled in at the end). */
+  const pendingBindings: { el: ElementInstance; target: 'prop' | 'at'; key: string; value: Compiled; span: SourceSpan }[] = [];
+  /** Numbers outside the elements that depend on a variable. */
+  const unfollowed: Unfollowed[] = [];
+  /**
+   * The expression as a function of the design variables, when it depends on any (only then is
+   * anything compiled: a netlist without variables pays nothing). Where plain numbers cannot
+   * follow it, it is recorded as not followed.
+   */
+  const follow = (e: Expr, ctx: Context, what: string): Compiled | undefined => {
+    if (variables.length === 0) return undefined;
+    try {
+      return compileExpr(e, {
+        node: (n) => ctx.scope.find(n)?.node,
+        constant: (x) => evaluate(x, evalScope(ctx), new DiagnosticBag()),
+      });
+    } catch (err) {
+      if (!(err instanceof NotCompilable)) throw err;
+      unfollowed.push({ what, span: e.span, reason: err.message });
+      return undefined;
+    }
+  };
   const evalScope = (ctx: Context): EvalScope => ({
     lookup: (n) => ctx.scope.find(n)?.value,
     names: () => ctx.scope.names(),
@@ -382,7 +407,8 @@ export function elaborate(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, op
       const value = finiteOrReport(a ? evaluate(a.values[0]!, outer, bag) : evaluate(def.expr, defaults, bag), a ? a.values[0]!.span : def.expr.span, bag, p);
       if (value === undefined) ok = false;
       const key = spanKey(def.span);
-      scope.entries.set(p, { value: value ?? null, span: def.span, key });
+      const node = value !== undefined ? follow(a ? a.values[0]! : def.expr, a ? ctx : topContext, `parameter \`${p}\` of instance \`${name}\``) : undefined;
+      scope.entries.set(p, { value: value ?? null, span: def.span, key, ...(node ? { node } : {}) });
       if (!definitions.has(key)) definitions.set(key, { name: p, span: def.span, failed: value === undefined, what: `parameter of block \`${block.name}\`` });
     }
     if (!ok) return;
@@ -471,6 +497,7 @@ export function elaborate(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, op
           value = undefined;
         }
       }
+      const before = variables.length;
       if (a.range) {
         if (ctx.terminals) {
           if (once(a.range.keywordSpan)) {
@@ -481,7 +508,10 @@ export function elaborate(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, op
         }
       }
       const key = spanKey(a.keySpan);
-      ctx.scope.entries.set(a.key, { value: value ?? null, span: a.keySpan, key });
+      let node: Compiled | undefined;
+      if (variables.length > before) node = variableNode(before);
+      else if (value !== undefined) node = follow(o ? o.expr : a.values[0]!, ctx, `parameter \`${a.key}\``);
+      ctx.scope.entries.set(a.key, { value: value ?? null, span: a.keySpan, key, ...(node ? { node } : {}) });
       if (!definitions.has(key)) definitions.set(key, { name: a.key, span: a.keySpan, failed: value === undefined, what: 'parameter' });
       if (o) usedKeys.add(key);
     }
@@ -610,7 +640,11 @@ export function elaborate(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, op
     return useNode(ctx.prefix + e.name, e.span, by, isPort);
   }
 
-  function numberArg(a: KeyArg, unit: string | null, quantity: string, ctx: Context = topContext): number | undefined {
+  /**
+   * A number argument in SI units of `unit`. Where it depends on a design variable, its compiled
+   * form goes to `onFollow` (an element's number), or, without one, it is recorded as not followed.
+   */
+  function numberArg(a: KeyArg, unit: string | null, quantity: string, ctx: Context = topContext, onFollow?: (c: Compiled, span: SourceSpan) => void): number | undefined {
     if (a.values.length !== 1) {
       bag.error('bad-value', `\`${a.key}\` takes one value`, a.span);
       return undefined;
@@ -622,6 +656,11 @@ export function elaborate(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, op
       const q = evaluate(e, evalScope(ctx), bag, unit);
       if (q === undefined) return undefined;
       r = toSICached(q, unit);
+      if (!('error' in r) && variables.length > 0) {
+        const c = follow(e, ctx, `\`${a.key}\``);
+        if (c && onFollow) onFollow(c, e.span);
+        else if (c) unfollowed.push({ what: `\`${a.key}\``, span: e.span, reason: 'only the numbers of elements follow the variables' });
+      }
     }
     if ('error' in r) {
       bag.error('wrong-unit', `\`${a.key}\` must be ${unit === null ? 'a plain number' : article(quantity) + ` (${unit})`}, but ${r.error}`, a.values[0]!.span, unitHelp(unit));
@@ -634,7 +673,7 @@ export function elaborate(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, op
     return r.value;
   }
 
-  function atArg(a: KeyArg, ctx: Context): number | undefined {
+  function atArg(a: KeyArg, ctx: Context, onFollow?: (c: Compiled, span: SourceSpan) => void): number | undefined {
     if (!a.at) return undefined;
     const e = a.at;
     // plain literals (`at 433 MHz`) through the cached unit factors, like numberArg
@@ -643,6 +682,10 @@ export function elaborate(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, op
       const q = evaluate(e, evalScope(ctx), bag, 'Hz');
       if (q === undefined) return undefined;
       r = toSICached(q, 'Hz');
+      if (!('error' in r) && variables.length > 0) {
+        const c = follow(e, ctx, `the frequency after \`at\``);
+        if (c) onFollow?.(c, e.span);
+      }
     }
     if ('error' in r) {
       bag.error('wrong-unit', `the value after \`at\` must be a frequency (Hz), but ${r.error}`, a.at.span, unitHelp('Hz'));
@@ -752,7 +795,7 @@ export function elaborate(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, op
         bag.error('missing-at', `\`${p.key}\` needs the frequency it holds at`, a.span, `write e.g. \`${p.key}=40 at 433 MHz\``);
         ok = false;
       }
-      const v = numberArg(a, p.unit, p.quantity, ctx);
+      const v = numberArg(a, p.unit, p.quantity, ctx, (value, span) => pendingBindings.push({ el, target: 'prop', key: p.key, value, span }));
       if (v === undefined) {
         ok = false;
         continue;
@@ -763,7 +806,7 @@ export function elaborate(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, op
       }
       el.props[p.key] = v;
       if (p.takesAt && a.at) {
-        const f = atArg(a, ctx);
+        const f = atArg(a, ctx, (value, span) => pendingBindings.push({ el, target: 'at', key: p.key, value, span }));
         if (f === undefined) ok = false;
         else (el.at === NONE_AT ? (el.at = {}) : el.at)[p.key] = f;
       }
@@ -955,6 +998,15 @@ export function elaborate(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, op
     parameters.push({ name, ...siOf(p.value), span: p.span });
   }
 
+  const bindings: ValueBinding[] = [];
+  if (pendingBindings.length > 0) {
+    const index = new Map(elements.map((e, i) => [e, i]));
+    for (const b of pendingBindings) {
+      const element = index.get(b.el);
+      if (element !== undefined) bindings.push({ element, target: b.target, key: b.key, value: b.value, span: b.span });
+    }
+  }
+
   return {
     file: ast.file,
     title,
@@ -966,6 +1018,8 @@ export function elaborate(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, op
     frequencies,
     parameters,
     variables,
+    bindings,
+    unfollowed,
     warnings: bag.items.filter((d) => d.severity === 'warning'),
   };
 }

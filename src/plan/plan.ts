@@ -63,6 +63,54 @@ export interface StampPlan {
    * needs only forward sweeps for the port voltages (see `solve/sparse/symmetric.ts`).
    */
   symmetric: boolean;
+  /**
+   * What {@link restampElements} needs to give elements new values on the same pattern: kept only
+   * for the elements whose numbers follow design variables (Circuit.bindings).
+   */
+  replay?: PlanReplay;
+}
+
+/** One element's share of the plan, recorded as it was compiled. */
+interface ElementRecord {
+  /** Its index in {@link StampPlan.stampers}, or -1. */
+  stamper: number;
+  /** The branch unknowns it asked for, in order. */
+  branches: number[];
+  /** Its kernel-batched admittances, in order: the kernel and the element's place in its group. */
+  placements: { kernel: AdmittanceKernel; k: number }[];
+}
+
+/** The frequency-independent admittances: port terminations and constant kernels (see {@link fillBase}). */
+interface ConstantGroup {
+  kernel: AdmittanceKernel;
+  params: Float64Array;
+  count: number;
+  quads: number[];
+  plus: number[];
+  minus: number[];
+}
+
+interface Termination {
+  s: Int32Array;
+  gr: number;
+  gi: number;
+}
+
+export interface PlanReplay {
+  slots: SlotTable;
+  records: Map<number, ElementRecord>;
+  /** Each kernel's parameter array (shared with the batch, so that new values reach the sweep). */
+  params: Map<AdmittanceKernel, Float64Array>;
+  constants: ConstantGroup[];
+  terminations: Termination[];
+}
+
+/** The new values of some elements do not fit the plan's pattern (an element chose another formulation). */
+export class PatternChangedError extends Error {
+  constructor(element: string) {
+    super(`the new values of \`${element}\` change the stamp pattern`);
+    this.name = 'PatternChangedError';
+  }
 }
 
 export interface PlanOptions {
@@ -71,6 +119,8 @@ export interface PlanOptions {
    * sweep). Solving below it is refused.
    */
   lowestFrequency?: number;
+  /** Elements (indices into Circuit.elements) that {@link restampElements} may later be given. */
+  replayable?: ReadonlySet<number>;
 }
 
 /** The lowest of a list of frequencies (0 for an empty list). */
@@ -81,7 +131,7 @@ export function lowestOf(freqs: ArrayLike<number>): number {
 }
 
 /** Slot numbers by (row, col): open addressing over typed arrays, for plans of many elements. */
-class SlotTable {
+export class SlotTable {
   private rows: Int32Array;
   private cols: Int32Array;
   private values: Int32Array;
@@ -149,6 +199,8 @@ export function buildPlan(circuit: Circuit, options: PlanOptions = {}): StampPla
   // have slots (element, then the slots of +y, +y, −y, −y), and the (slot, element) pairs that
   // receive +y and −y for the rest (an element with a grounded terminal, say).
   const groups = new Map<AdmittanceKernel, KernelSlots>();
+  /** The record of the element being compiled, when it is one to replay. */
+  let recording: ElementRecord | undefined;
   let lastKernel: AdmittanceKernel | undefined;
   let lastGroup: KernelSlots | undefined;
   // Slots are handed out in order of first use; entries touching ground get no slot.
@@ -162,6 +214,7 @@ export function buildPlan(circuit: Circuit, options: PlanOptions = {}): StampPla
   const builder: StampBuilder = {
     branch(label) {
       branchNames.push(label);
+      recording?.branches.push(nodeCount + branchNames.length - 1);
       return nodeCount + branchNames.length - 1;
     },
     entry(row, col) {
@@ -184,6 +237,7 @@ export function buildPlan(circuit: Circuit, options: PlanOptions = {}): StampPla
       if (params.length !== kernel.stride) throw new Error(`stamp plan: ${params.length} parameters for a kernel of stride ${kernel.stride}`);
       const k = g.params.length / kernel.stride;
       for (let q = 0; q < params.length; q++) g.params.push(params[q]!);
+      recording?.placements.push({ kernel, k });
       const saa = this.entry(a, a);
       const sab = this.entry(a, c);
       const sba = this.entry(c, a);
@@ -201,23 +255,27 @@ export function buildPlan(circuit: Circuit, options: PlanOptions = {}): StampPla
 
   const stampers: Stamper[] = [];
   const stamperNames: string[] = [];
-  for (const el of circuit.elements) {
+  const replayable = options.replayable;
+  const records = new Map<number, ElementRecord>();
+  const elements = circuit.elements;
+  for (let e = 0; e < elements.length; e++) {
+    const el = elements[e]!;
     const type = ELEMENTS.get(el.type)!;
-    // the element with its nodes as unknowns (written out: faster than a spread for many elements)
-    const nodes = new Array<number>(el.nodes.length);
-    for (let t = 0; t < nodes.length; t++) nodes[t] = toUnknown(el.nodes[t]!);
-    const mapped: ElementInstance = { type: el.type, name: el.name, nodes, nodeNames: el.nodeNames, props: el.props, at: el.at, span: el.span, text: el.text, data: el.data };
-    const st = type.compile(mapped, builder);
+    recording = replayable?.has(e) ? { stamper: -1, branches: [], placements: [] } : undefined;
+    const st = type.compile(mappedElement(el, nodeUnknown), builder);
     if (st) {
+      if (recording) recording.stamper = stampers.length;
       stampers.push(st);
       stamperNames.push(el.name);
     }
+    if (recording) records.set(e, recording);
   }
+  recording = undefined;
   const portPlus = new Int32Array(circuit.ports.length);
   const portMinus = new Int32Array(circuit.ports.length);
   const portReference = new Float64Array(circuit.ports.length);
   const portReactance = new Float64Array(circuit.ports.length);
-  const terminations: { s: Int32Array; gr: number; gi: number }[] = [];
+  const terminations: Termination[] = [];
   const portTermination = new Float64Array(2 * circuit.ports.length);
   const portTerminationLo = new Float64Array(2 * circuit.ports.length);
   circuit.ports.forEach((p, k) => {
@@ -260,32 +318,8 @@ export function buildPlan(circuit: Circuit, options: PlanOptions = {}): StampPla
   const size = nodeCount + branchNames.length;
   for (let i = 0; i < size; i++) builder.entry(i, i);
   const baseValues = new Float64Array(2 * rows.length);
-  const partSlots: number[] = [];
-  const partValues: number[] = [];
-  const part = (slot: number, re: number, im: number) => {
-    if (slot < 0) return;
-    partSlots.push(slot);
-    partValues.push(re, im);
-  };
-  for (const t of terminations) {
-    addAdmittance(baseValues, t.s, t.gr, t.gi);
-    part(t.s[0]!, t.gr, t.gi);
-    part(t.s[1]!, -t.gr, -t.gi);
-    part(t.s[2]!, -t.gr, -t.gi);
-    part(t.s[3]!, t.gr, t.gi);
-  }
-  // the terminations' rounding errors, as parts of their own (added without rounding by the refinement)
-  terminations.forEach((t, k) => {
-    const lr = portTerminationLo[2 * k]!;
-    const li = portTerminationLo[2 * k + 1]!;
-    if (lr === 0 && li === 0) return;
-    part(t.s[0]!, lr, li);
-    part(t.s[1]!, -lr, -li);
-    part(t.s[2]!, -lr, -li);
-    part(t.s[3]!, lr, li);
-  });
-  const batch = batchAdmittances(groups, baseValues, part);
-  const baseParts = { slots: Int32Array.from(partSlots), values: Float64Array.from(partValues) };
+  const { batch, constants, params } = batchAdmittances(groups);
+  const baseParts = fillBase(baseValues, terminations, portTerminationLo, constants);
   const symmetric = stampers.length === 0 && batchSymmetric(groups, rows, cols) && baseSymmetric(baseValues, rows, cols, slots);
   const unknownNode = new Int32Array(size).fill(-1);
   for (let i = 0; i < nodeUnknown.length; i++) if (nodeUnknown[i]! >= 0) unknownNode[nodeUnknown[i]!] = i;
@@ -309,7 +343,113 @@ export function buildPlan(circuit: Circuit, options: PlanOptions = {}): StampPla
     portTerminationLo,
     lowestFrequency,
     symmetric,
+    ...(records.size > 0 ? { replay: { slots, records, params, constants, terminations } } : {}),
   };
+}
+
+/** The element with its nodes as unknowns (written out: faster than a spread for many elements). */
+function mappedElement(el: ElementInstance, nodeUnknown: Int32Array): ElementInstance {
+  const nodes = new Array<number>(el.nodes.length);
+  for (let t = 0; t < nodes.length; t++) nodes[t] = el.nodes[t] === GROUND ? GROUND : nodeUnknown[el.nodes[t]!]!;
+  return { type: el.type, name: el.name, nodes, nodeNames: el.nodeNames, props: el.props, at: el.at, span: el.span, text: el.text, data: el.data };
+}
+
+/**
+ * Sets the frequency-independent slot values: the port terminations, then the constant kernels,
+ * in that order (so that a plan given new values sums exactly as a fresh one). Returns the same
+ * contributions unsummed, with the terminations' rounding errors as parts of their own (added
+ * without rounding by the refinement, src/solve/refine.ts).
+ */
+function fillBase(base: Float64Array, terminations: readonly Termination[], lo: Float64Array, constants: readonly ConstantGroup[]): StampPlan['baseParts'] {
+  base.fill(0);
+  const partSlots: number[] = [];
+  const partValues: number[] = [];
+  const part = (slot: number, re: number, im: number) => {
+    if (slot < 0) return;
+    partSlots.push(slot);
+    partValues.push(re, im);
+  };
+  for (const t of terminations) {
+    addAdmittance(base, t.s, t.gr, t.gi);
+    part(t.s[0]!, t.gr, t.gi);
+    part(t.s[1]!, -t.gr, -t.gi);
+    part(t.s[2]!, -t.gr, -t.gi);
+    part(t.s[3]!, t.gr, t.gi);
+  }
+  terminations.forEach((t, k) => {
+    const lr = lo[2 * k]!;
+    const li = lo[2 * k + 1]!;
+    if (lr === 0 && li === 0) return;
+    part(t.s[0]!, lr, li);
+    part(t.s[1]!, -lr, -li);
+    part(t.s[2]!, -lr, -li);
+    part(t.s[3]!, lr, li);
+  });
+  for (const g of constants) {
+    const y = new Float64Array(2 * g.count);
+    g.kernel.run(ZERO, 0, g.params, g.count, y, 0);
+    const add = (slot: number, k: number, sign: number) => {
+      base[2 * slot] += sign * y[2 * k]!;
+      base[2 * slot + 1] += sign * y[2 * k + 1]!;
+      part(slot, sign * y[2 * k]!, sign * y[2 * k + 1]!);
+    };
+    for (let t = 0; t < g.quads.length; t += 5) {
+      const k = g.quads[t]!;
+      add(g.quads[t + 1]!, k, 1);
+      add(g.quads[t + 2]!, k, 1);
+      add(g.quads[t + 3]!, k, -1);
+      add(g.quads[t + 4]!, k, -1);
+    }
+    for (let t = 0; t < g.plus.length; t += 2) add(g.plus[t]!, g.plus[t + 1]!, 1);
+    for (let t = 0; t < g.minus.length; t += 2) add(g.minus[t]!, g.minus[t + 1]!, -1);
+  }
+  return { slots: Int32Array.from(partSlots), values: Float64Array.from(partValues) };
+}
+
+/**
+ * Gives the plan new values for some elements (indices into `circuit.elements`, whose numbers
+ * have changed; the plan must have been built with them in `replayable`): each is compiled again
+ * onto the slots, branches and kernel places it had, its kernel parameters written in place and
+ * its stamper replaced, and the frequency-independent part summed again where it changed. The
+ * pattern, the unknowns and everything built on them (a solver's ordering and pivot sequence)
+ * stay valid. Throws {@link PatternChangedError} when an element now compiles to another pattern
+ * (an inductor that now needs a branch current, say): the plan must then be built afresh.
+ */
+export function restampElements(plan: StampPlan, circuit: Circuit, changed: Iterable<number>): void {
+  const r = plan.replay;
+  let constantsChanged = false;
+  const lowestOmega = 2 * Math.PI * plan.lowestFrequency;
+  for (const e of changed) {
+    const el = circuit.elements[e]!;
+    const rec = r?.records.get(e);
+    if (!r || !rec) throw new PatternChangedError(el.name);
+    let bi = 0;
+    let pi = 0;
+    const fail = () => new PatternChangedError(el.name);
+    const builder: StampBuilder = {
+      branch() {
+        if (bi >= rec.branches.length) throw fail();
+        return rec.branches[bi++]!;
+      },
+      entry(row, col) {
+        if (row < 0 || col < 0) return -1;
+        const s = r.slots.get(row, col);
+        if (s < 0) throw fail();
+        return s;
+      },
+      lowestOmega,
+      admittance(_a, _c, kernel, params) {
+        const pl = rec.placements[pi++];
+        if (!pl || pl.kernel !== kernel) throw fail();
+        r.params.get(kernel)!.set(params, pl.k * kernel.stride);
+        if (kernel.constant) constantsChanged = true;
+      },
+    };
+    const st = ELEMENTS.get(el.type)!.compile(mappedElement(el, plan.nodeUnknown), builder);
+    if (bi !== rec.branches.length || pi !== rec.placements.length || (st === undefined) !== (rec.stamper < 0)) throw fail();
+    if (st) plan.stampers[rec.stamper] = st;
+  }
+  if (constantsChanged && r) plan.baseParts = fillBase(plan.baseValues, r.terminations, plan.portTerminationLo, r.constants);
 }
 
 /** The sum of five numbers with compensation (Neumaier's summation): error about ε·|sum| + ε²·Σ|terms|. */
@@ -593,11 +733,13 @@ export class AdmittanceBatch {
  * Gathers the kernel-batched admittances. Constant kernels are evaluated here, once, into `base`.
  * Undefined when nothing varies with frequency.
  */
-function batchAdmittances(
-  groups: Map<AdmittanceKernel, KernelSlots>,
-  base: Float64Array,
-  part: (slot: number, re: number, im: number) => void,
-): AdmittanceBatch | undefined {
+function batchAdmittances(groups: Map<AdmittanceKernel, KernelSlots>): {
+  batch: AdmittanceBatch | undefined;
+  constants: ConstantGroup[];
+  params: Map<AdmittanceKernel, Float64Array>;
+} {
+  const constants: ConstantGroup[] = [];
+  const paramsOf = new Map<AdmittanceKernel, Float64Array>();
   const varying: KernelGroup[] = [];
   let nQuads = 0;
   let nPlus = 0;
@@ -620,23 +762,9 @@ function batchAdmittances(
   for (const [kernel, g] of groups) {
     const count = g.params.length / kernel.stride;
     const params = Float64Array.from(g.params);
+    paramsOf.set(kernel, params);
     if (kernel.constant) {
-      const y = new Float64Array(2 * count);
-      kernel.run(ZERO, 0, params, count, y, 0);
-      const add = (slot: number, k: number, sign: number) => {
-        base[2 * slot] += sign * y[2 * k]!;
-        base[2 * slot + 1] += sign * y[2 * k + 1]!;
-        part(slot, sign * y[2 * k]!, sign * y[2 * k + 1]!);
-      };
-      for (let t = 0; t < g.quads.length; t += 5) {
-        const k = g.quads[t]!;
-        add(g.quads[t + 1]!, k, 1);
-        add(g.quads[t + 2]!, k, 1);
-        add(g.quads[t + 3]!, k, -1);
-        add(g.quads[t + 4]!, k, -1);
-      }
-      for (let t = 0; t < g.plus.length; t += 2) add(g.plus[t]!, g.plus[t + 1]!, 1);
-      for (let t = 0; t < g.minus.length; t += 2) add(g.minus[t]!, g.minus[t + 1]!, -1);
+      constants.push({ kernel, params, count, quads: g.quads, plus: g.plus, minus: g.minus });
       continue;
     }
     varying.push({ kernel, params, count, offset: total });
@@ -655,6 +783,6 @@ function batchAdmittances(
     }
     total += count;
   }
-  if (varying.length === 0) return undefined;
-  return new AdmittanceBatch(varying, quadY, quadSlots, plus, minus, total);
+  const batch = varying.length === 0 ? undefined : new AdmittanceBatch(varying, quadY, quadSlots, plus, minus, total);
+  return { batch, constants, params: paramsOf };
 }

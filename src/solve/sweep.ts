@@ -177,6 +177,8 @@ interface LinearEngine {
    * written to into[0] (a number returned from a call V8 does not inline would be boxed).
    */
   conditionHint(into: Float64Array): void;
+  /** After the plan's frequency-independent values changed (src/plan/plan.ts restampElements): takes them up. */
+  refresh(): void;
 }
 
 /** The dense engine (classes, not closures: one set of functions for every sweep, which the JIT keeps). */
@@ -233,6 +235,7 @@ class DenseEngine implements LinearEngine {
   conditionHint(into: Float64Array): void {
     into[0] = 1 / this.lastRcond;
   }
+  refresh(): void {}
 }
 
 /** After a pair of points failed to factor together, the next this many points are taken one at a time. */
@@ -261,7 +264,7 @@ class SparseEngine implements LinearEngine {
    * stampers): the image of the constant part in the factor storage, and the batch retargeted
    * to add straight into it. The slot values are then only built where a fallback needs them.
    */
-  private readonly direct: { image: Float64Array; batch: AdmittanceBatch | undefined } | undefined;
+  private readonly direct: { image: Float64Array; batch: AdmittanceBatch | undefined; target: Int32Array } | undefined;
   /**
    * Where the matrix is symmetric (a reciprocal network) and the reference factorisation kept its
    * pivots on the diagonal: the port solve by forward sweeps alone, used with the main factor when
@@ -313,12 +316,19 @@ class SparseEngine implements LinearEngine {
     if (plan.stampers.length === 0) {
       const target = this.main.slotTarget;
       const image = new Float64Array(2 * this.main.entries);
-      const base = plan.baseValues;
-      for (let k = 0; k < target.length; k++) {
-        image[target[k]!] += base[2 * k]!;
-        image[target[k]! + 1] += base[2 * k + 1]!;
-      }
-      this.direct = { image, batch: plan.batch?.retargeted(target) };
+      this.direct = { image, batch: plan.batch?.retargeted(target), target };
+      this.refresh();
+    }
+  }
+  refresh(): void {
+    const direct = this.direct;
+    if (!direct) return;
+    const { image, target } = direct;
+    const base = this.plan.baseValues;
+    image.fill(0);
+    for (let k = 0; k < target.length; k++) {
+      image[target[k]!] += base[2 * k]!;
+      image[target[k]! + 1] += base[2 * k + 1]!;
     }
   }
   stampFactor(freqs: Float64Array, k: number, vals: Float64Array): number {
@@ -659,6 +669,20 @@ export class SweepRunner {
    */
   get method(): SolveMethod {
     return this.engine.method;
+  }
+
+  /**
+   * Takes up new element values given to the plan (src/plan/plan.ts restampElements): the next
+   * points are solved with them, in the same ordering and pivot sequence.
+   */
+  refresh(): void {
+    this.engine.refresh();
+    const L = this.loop;
+    L.worstRcond = WARN_RCOND;
+    L.worstAt = NaN;
+    L.fewestDigits = Infinity;
+    L.fewestAt = NaN;
+    L.fewestPort = -1;
   }
 
   /** Solves the points k0 ≤ k < k1; throws {@link SingularSystemError} where the system is singular. */

@@ -159,6 +159,8 @@ export function unpackCircuit(p: PackedCircuit): Circuit {
     frequencies: new Float64Array(0),
     parameters: [],
     variables: [],
+    bindings: [],
+    unfollowed: [],
     warnings: [],
   };
 }
