@@ -19,6 +19,8 @@ import type { SpecResult } from '../check/types.js';
 import { evaluateSpecs } from '../check/evaluate.js';
 import { solveSweep, SweepRunner, type SolverChoice } from '../solve/sweep.js';
 import { ParameterGraph } from '../params/graph.js';
+import { stampDifferences, sweepDerivatives } from './sensitivity.js';
+import { parseFigure } from '../figures/registry.js';
 import { buildPlan, PatternChangedError, restampElements, type StampPlan } from '../plan/plan.js';
 
 export interface DesignOptions extends LoadOptions {
@@ -219,6 +221,27 @@ export class DesignModel {
 
   /** The specs' results and the derivatives of their worst margins (see {@link MarginGradient}). */
   marginGradient(): MarginGradient {
+    const fast = this.fast;
+    if (fast) {
+      const key = fast.specPoints.length > 0 ? 'specs' : 'sweep';
+      const { network, derivatives } = this.derivativesFast(fast, key, fast.specPoints.length > 0 ? fast.specPoints : this.circuit.frequencies);
+      return marginDerivatives(this.circuit.specs, network, derivatives, this.variables, this.current);
+    }
+    return this.marginGradientByDifferences();
+  }
+
+  /** S and its exact derivatives on the fast path (see src/design/sensitivity.ts). */
+  private derivativesFast(fast: FastPath, key: string, freqs: Float64Array): NetworkDerivatives {
+    const network = this.solveFast(fast, key, freqs);
+    const runner = this.runner(fast, key, freqs);
+    const diffs = stampDifferences(fast.plan, fast.working, fast.graph, this.variables, this.current);
+    const derivatives = this.variables.map(() => new Float64Array(network.values.length));
+    sweepDerivatives(runner, diffs, derivatives);
+    return { network, derivatives };
+  }
+
+  /** {@link marginGradient} by central differences of whole evaluations (where the fast path is not taken). */
+  private marginGradientByDifferences(): MarginGradient {
     const base = Float64Array.from(this.current);
     const results = this.checkSpecs();
     const nv = this.variables.length;
@@ -236,8 +259,18 @@ export class DesignModel {
     return { results, gradient };
   }
 
-  /** S over the sweep (or the given frequencies) and its derivatives (see {@link NetworkDerivatives}). */
+  /**
+   * S over the sweep (or the given frequencies) and its derivatives (see {@link NetworkDerivatives}):
+   * exact on the fast path (the direct method on each point's factorisation, src/design/sensitivity.ts),
+   * else central differences of whole solves.
+   */
   derivatives(frequencies?: Float64Array): NetworkDerivatives {
+    const fast = this.fast;
+    if (fast && (!frequencies || frequencies === this.circuit.frequencies)) return this.derivativesFast(fast, 'sweep', this.circuit.frequencies);
+    if (fast && frequencies!.length > 0 && frequencies![0]! >= fast.plan.lowestFrequency) {
+      this.solve(frequencies);
+      return this.derivativesFast(fast, `list:${frequencies!.join(',')}`, frequencies!);
+    }
     const base = Float64Array.from(this.current);
     const network = this.solve(frequencies);
     const derivatives = this.variables.map((_, v) => {
@@ -276,6 +309,51 @@ export interface NetworkDerivatives {
   network: NetworkData;
   /** Per variable: dS/dx in the layout of `network.values` (complex interleaved), per SI unit of x. */
   derivatives: Float64Array[];
+}
+
+/** The offsets and weights of a fourth-order central difference, in steps of τ. */
+const FIG_OFFSETS = [-2, -1, 1, 2] as const;
+const FIG_WEIGHTS = [1 / 12, -8 / 12, 8 / 12, -1 / 12] as const;
+
+/**
+ * The derivatives of the specs' worst margins from S and dS/dθ: each figure's derivative along
+ * dS/dθ at its worst point, taken as a fourth-order central difference of the figure in S
+ * (F(S + τ·dS) at τ = ±1, ±2 steps of 10⁻⁴ of the variable's value: the figures are smooth
+ * functions of S, so the error is about 1e-12 relative). Where the worst point is shared or
+ * switches, this is the derivative of the margin at the worst point (a one-sided choice, as for
+ * any minimum).
+ */
+export function marginDerivatives(specs: Circuit['specs'], network: NetworkData, derivatives: Float64Array[], variables: readonly Variable[], x: Float64Array): MarginGradient {
+  const results = evaluateSpecs(specs, network);
+  const nv = variables.length;
+  const gradient = new Float64Array(results.length * nv);
+  const figures = new Map<string, { values: Float64Array; d: Float64Array[] }>();
+  const moved = new Float64Array(network.values.length);
+  const movedNet: NetworkData = { ...network, values: moved };
+  for (const r of results) {
+    if (figures.has(r.spec.figure)) continue;
+    const fig = parseFigure(r.spec.figure, { ports: network.ports });
+    const values = fig.evaluate(network);
+    const d = variables.map((v, i) => {
+      const tau = 1e-4 * Math.max(Math.abs(x[i]!), 1e-3 * (v.upper - v.lower));
+      const dS = derivatives[i]!;
+      const acc = new Float64Array(values.length);
+      FIG_OFFSETS.forEach((t, q) => {
+        for (let k = 0; k < moved.length; k++) moved[k] = network.values[k]! + t * tau * dS[k]!;
+        const f = fig.evaluate(movedNet);
+        for (let k = 0; k < acc.length; k++) acc[k] += (FIG_WEIGHTS[q]! / tau) * f[k]!;
+      });
+      return acc;
+    });
+    figures.set(r.spec.figure, { values, d });
+  }
+  results.forEach((r, s) => {
+    const k = network.frequencies.indexOf(r.worstFrequency);
+    if (k < 0 || !Number.isFinite(r.worstMargin)) return;
+    const { d } = figures.get(r.spec.figure)!;
+    for (let v = 0; v < nv; v++) gradient[s * nv + v] = (r.spec.bound === 'max' ? -1 : 1) * d[v]![k]!;
+  });
+  return { results, gradient };
 }
 
 interface FastPath {

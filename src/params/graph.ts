@@ -68,7 +68,7 @@ export class ParameterGraph {
    * {@link ElementValueError} for a number it cannot take — after which the circuit holds the new
    * numbers up to that element: give it values that work before solving.
    */
-  apply(circuit: Circuit, x: Float64Array, previous: Float64Array | undefined, frequencies: Float64Array): number[] {
+  apply(circuit: Circuit, x: Float64Array, previous: Float64Array | undefined, frequencies: Float64Array | undefined): number[] {
     const mark = this.mark;
     const touched: number[] = [];
     for (let v = 0; v < this.byVariable.length; v++) {
@@ -91,8 +91,13 @@ export class ParameterGraph {
       changed.add(binding.element);
     }
     const out = [...changed].sort((a, b) => a - b);
-    for (const e of out) checkElement(circuit.elements[e]!, frequencies);
+    if (frequencies) for (const e of out) checkElement(circuit.elements[e]!, frequencies);
     return out;
+  }
+
+  /** The elements whose numbers depend on variable v (ascending indices into Circuit.elements). */
+  elementsOf(v: number): number[] {
+    return [...new Set(this.byVariable[v]!.map((b) => this.bindings[b]!.element))].sort((a, b) => a - b);
   }
 }
 

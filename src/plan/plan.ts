@@ -786,3 +786,65 @@ function batchAdmittances(groups: Map<AdmittanceKernel, KernelSlots>): {
   const batch = varying.length === 0 ? undefined : new AdmittanceBatch(varying, quadY, quadSlots, plus, minus, total);
   return { batch, constants, params: paramsOf };
 }
+
+/** One element's contribution to the slot values, compiled on its own (see {@link captureElement}). */
+export interface CapturedStamp {
+  /** Its kernel-batched admittances: kernel, parameters, and the slots of +y, +y, −y, −y (−1: ground). */
+  kernels: { kernel: AdmittanceKernel; params: Float64Array; slots: Int32Array }[];
+  stampers: Stamper[];
+}
+
+/**
+ * Element e of `circuit` (with whatever numbers it holds now) compiled onto the plan's slots and
+ * branches but kept apart from the plan, so that its contribution alone can be stamped
+ * ({@link addCaptured}): for derivatives of the matrix with respect to its numbers. The plan must
+ * have been built with e in `replayable`. Throws {@link PatternChangedError} where the element's
+ * numbers give another pattern.
+ */
+export function captureElement(plan: StampPlan, circuit: Circuit, e: number): CapturedStamp {
+  const r = plan.replay;
+  const el = circuit.elements[e]!;
+  const rec = r?.records.get(e);
+  if (!r || !rec) throw new PatternChangedError(el.name);
+  const fail = () => new PatternChangedError(el.name);
+  const out: CapturedStamp = { kernels: [], stampers: [] };
+  let bi = 0;
+  const builder: StampBuilder = {
+    branch() {
+      if (bi >= rec.branches.length) throw fail();
+      return rec.branches[bi++]!;
+    },
+    entry(row, col) {
+      if (row < 0 || col < 0) return -1;
+      const s = r.slots.get(row, col);
+      if (s < 0) throw fail();
+      return s;
+    },
+    lowestOmega: 2 * Math.PI * plan.lowestFrequency,
+    admittance(a, c, kernel, params) {
+      out.kernels.push({ kernel, params: Float64Array.from(params), slots: Int32Array.of(this.entry(a, a), this.entry(c, c), this.entry(a, c), this.entry(c, a)) });
+    },
+  };
+  const st = ELEMENTS.get(el.type)!.compile(mappedElement(el, plan.nodeUnknown), builder);
+  if (st) out.stampers.push(st);
+  return out;
+}
+
+/**
+ * Adds a captured element's contribution at angular frequency `w[0]` into the slot values `v`
+ * (complex interleaved); `y` is scratch of two numbers.
+ */
+export function addCaptured(c: CapturedStamp, w: Float64Array, y: Float64Array, v: Float64Array): void {
+  for (const k of c.kernels) {
+    k.kernel.run(k.kernel.constant ? ZERO : w, 0, k.params, 1, y, 0);
+    const s = k.slots;
+    for (let q = 0; q < 4; q++) {
+      const slot = s[q]!;
+      if (slot < 0) continue;
+      const sign = q < 2 ? 1 : -1;
+      v[2 * slot] += sign * y[0]!;
+      v[2 * slot + 1] += sign * y[1]!;
+    }
+  }
+  for (const st of c.stampers) st(w[0]!, v);
+}

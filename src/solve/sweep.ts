@@ -685,6 +685,30 @@ export class SweepRunner {
     L.fewestPort = -1;
   }
 
+  /**
+   * Stamps and factors point k on its own, for work beyond the sweep's (derivatives by the direct
+   * method, src/design/sensitivity.ts): {@link solveFactored} then solves with its factors. Throws
+   * as {@link run} does where the system is singular.
+   */
+  factorPoint(k: number): void {
+    const status = this.engine.stampFactor(this.frequencies, k, this.loop.vals);
+    if (status !== -1) throw explainSingular(this.circuit, this.plan, this.frequencies[k]!, status >= 0 ? status : -1, this.engine);
+  }
+
+  /** Solves A·x = b (every unknown, complex interleaved) with the factors of the last {@link factorPoint}. */
+  solveFactored(b: Float64Array, x: Float64Array): void {
+    this.engine.solveOne(b, x);
+  }
+
+  /**
+   * How port voltages become S (see {@link solveSweep}): the right-hand sides (n × p, column j
+   * drives port j), and per port i the factor k_i (complex: kr, ki) with S_ij = v_ij·k_i − δij·d_i.
+   */
+  get waves(): { rhs: Float64Array; kr: Float64Array; ki: Float64Array } {
+    const L = this.loop;
+    return { rhs: L.rhs, kr: L.kr, ki: L.ki };
+  }
+
   /** Solves the points k0 ≤ k < k1; throws {@link SingularSystemError} where the system is singular. */
   run(k0: number, k1: number): void {
     const failed = runPoints(this.loop, k0, k1);
