@@ -25,6 +25,7 @@ import { formatFrequency } from '../src/check/format.js';
 import { renderPlotSvg, renderReport } from '../src/report/index.js';
 import { formatFromPath } from '../src/io/output.js';
 import { FigureError, parseFigure } from '../src/figures/registry.js';
+import { runSensitivity, sensitivityBuilder, type SensitivityArgs } from './commands/sensitivity.js';
 import {
   convertNetwork,
   ConversionError,
@@ -128,6 +129,14 @@ export async function main(argv: string[], io: Io = defaultIo): Promise<number> 
           .epilog('Exit codes: 0 every check passes, 1 a check fails, 2 usage error, 3 input error.'),
       async (args) => {
         code = await runCheck(args as unknown as CheckArgs, io);
+      },
+    )
+    .command(
+      'sensitivity <netlist>',
+      'per spec, the design variables that move its worst margin most (exact derivatives)',
+      sensitivityBuilder,
+      (args) => {
+        code = runSensitivity(args as unknown as SensitivityArgs, io, describeError);
       },
     )
     .command(

@@ -106,7 +106,9 @@ export class DesignModel {
   private runner(fast: FastPath, key: string, freqs: Float64Array): SweepRunner {
     let r = fast.runners.get(key);
     if (!r) {
-      r = new SweepRunner(fast.working, { frequencies: freqs, plan: fast.plan, solver: this.options.solver, lowestFrequency: fast.plan.lowestFrequency });
+      // one pivot reference for every frequency set (the sweep's first point), so that the spec
+      // points give the values the whole sweep gives
+      r = new SweepRunner(fast.working, { frequencies: freqs, plan: fast.plan, solver: this.options.solver, lowestFrequency: fast.plan.lowestFrequency, pivotFrequency: this.circuit.frequencies[0] });
       fast.runners.set(key, r);
     }
     return r;
