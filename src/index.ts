@@ -80,3 +80,10 @@ export { microstripStatic, microstripDispersive, microstripWidth, microstripAt }
 export { renderReport, renderPlotSvg, type ReportInput, type PlotSvgOptions } from './report/index.js';
 export { solveSweepParallel, closeSweepPool, type ParallelOptions } from './solve/parallel.js';
 export { DesignModel, VariableError, setText, type DesignOptions, type MarginGradient, type NetworkDerivatives } from './design/model.js';
+export { rankSensitivities, formatSensitivities, formatValue, type SpecSensitivity, type VariableEffect } from './design/rank.js';
+export { marginDerivatives } from './design/model.js';
+export { stampDifferences, sweepDerivatives, stepFor, type StampDifferences } from './design/sensitivity.js';
+export { ParameterGraph, ElementValueError } from './params/graph.js';
+export { compileExpr, type Compiled, type CompileScope } from './params/compile.js';
+export { restampElements, captureElement, addCaptured, PatternChangedError, type CapturedStamp } from './plan/plan.js';
+export type { ValueBinding, Unfollowed } from './elaborate/circuit.js';
