@@ -194,11 +194,18 @@ describe('sensitivities', () => {
     const il = 20 * Math.log10(n / 2);
     const dNdR1 = (-2 * r2) / r1 ** 2 - (2 * z0) / r1 ** 2 - (2 * z0 * r2) / r1 ** 3;
     const dNdR2 = 2 / r1 + 1 / z0 + z0 / r1 ** 2;
-    const k = 20 / Math.LN10;
+    const k0 = 20 / Math.LN10;
+    const k = k0;
     expect(g.results[0]!.worstValue).toBeCloseTo(il, 10);
     // max spec: margin = 12 − IL; min spec: margin = IL − 8
     const want = [-k * dNdR1 / n, -k * dNdR2 / n, k * dNdR1 / n, k * dNdR2 / n];
     want.forEach((w, q) => expect(Math.abs(g.gradient[q]! - w)).toBeLessThanOrEqual(1e-8 * Math.abs(w)));
+    // the figure itself over the sweep: d(il)/d(rse) at every point
+    const fd = model.figureDerivatives('il(2,1)');
+    for (let k = 0; k < fd.frequencies.length; k++) {
+      expect(Math.abs(fd.values[k]! - il)).toBeLessThanOrEqual(1e-10);
+      expect(Math.abs(fd.derivatives[1]![k]! - (k0 * dNdR2) / n)).toBeLessThanOrEqual(1e-8 * Math.abs((k0 * dNdR2) / n));
+    }
     // ranked per 1 % change: the series resistor moves the attenuation more than the shunt ones
     const ranked = rankSensitivities(g, model.variables, model.values);
     expect(ranked[0]!.effects.map((e) => e.variable)).toEqual([Math.abs(dNdR2 * r2) > Math.abs(dNdR1 * r1) ? 'rse' : 'rsh', Math.abs(dNdR2 * r2) > Math.abs(dNdR1 * r1) ? 'rsh' : 'rse']);

@@ -288,6 +288,17 @@ export class DesignModel {
     return { network, derivatives };
   }
 
+  /**
+   * A figure as specs name it (`il(2,1)`, `rl(1)`, `gd(S21)`…) over the sweep (or the given
+   * frequencies) at the current values, and its derivative with respect to each variable (per SI
+   * unit of the variable), from {@link derivatives}.
+   */
+  figureDerivatives(figure: string, frequencies?: Float64Array): { frequencies: Float64Array; values: Float64Array; derivatives: Float64Array[] } {
+    const { network, derivatives } = this.derivatives(frequencies);
+    const { values, d } = figureAlong(figure, network, derivatives, this.variables, this.current);
+    return { frequencies: network.frequencies, values, derivatives: d };
+  }
+
   /** A central-difference step for variable v, kept inside its range: [low, high, high − low]. */
   private steps(v: number, base: Float64Array): [number, number, number] {
     const x = base[v]!;
@@ -330,24 +341,8 @@ export function marginDerivatives(specs: Circuit['specs'], network: NetworkData,
   const nv = variables.length;
   const gradient = new Float64Array(results.length * nv);
   const figures = new Map<string, { values: Float64Array; d: Float64Array[] }>();
-  const moved = new Float64Array(network.values.length);
-  const movedNet: NetworkData = { ...network, values: moved };
   for (const r of results) {
-    if (figures.has(r.spec.figure)) continue;
-    const fig = parseFigure(r.spec.figure, { ports: network.ports });
-    const values = fig.evaluate(network);
-    const d = variables.map((v, i) => {
-      const tau = 1e-4 * Math.max(Math.abs(x[i]!), 1e-3 * (v.upper - v.lower));
-      const dS = derivatives[i]!;
-      const acc = new Float64Array(values.length);
-      FIG_OFFSETS.forEach((t, q) => {
-        for (let k = 0; k < moved.length; k++) moved[k] = network.values[k]! + t * tau * dS[k]!;
-        const f = fig.evaluate(movedNet);
-        for (let k = 0; k < acc.length; k++) acc[k] += (FIG_WEIGHTS[q]! / tau) * f[k]!;
-      });
-      return acc;
-    });
-    figures.set(r.spec.figure, { values, d });
+    if (!figures.has(r.spec.figure)) figures.set(r.spec.figure, figureAlong(r.spec.figure, network, derivatives, variables, x));
   }
   results.forEach((r, s) => {
     const k = network.frequencies.indexOf(r.worstFrequency);
@@ -356,6 +351,29 @@ export function marginDerivatives(specs: Circuit['specs'], network: NetworkData,
     for (let v = 0; v < nv; v++) gradient[s * nv + v] = (r.spec.bound === 'max' ? -1 : 1) * d[v]![k]!;
   });
   return { results, gradient };
+}
+
+/**
+ * A figure over the network's points and its derivative along each variable's dS/dθ (a
+ * fourth-order central difference of the figure in S; see {@link marginDerivatives}).
+ */
+export function figureAlong(figure: string, network: NetworkData, derivatives: Float64Array[], variables: readonly Variable[], x: ArrayLike<number>): { values: Float64Array; d: Float64Array[] } {
+  const fig = parseFigure(figure, { ports: network.ports });
+  const values = fig.evaluate(network);
+  const moved = new Float64Array(network.values.length);
+  const movedNet: NetworkData = { ...network, values: moved };
+  const d = variables.map((v, i) => {
+    const tau = 1e-4 * Math.max(Math.abs(x[i]!), 1e-3 * (v.upper - v.lower));
+    const dS = derivatives[i]!;
+    const acc = new Float64Array(values.length);
+    FIG_OFFSETS.forEach((t, q) => {
+      for (let k = 0; k < moved.length; k++) moved[k] = network.values[k]! + t * tau * dS[k]!;
+      const f = fig.evaluate(movedNet);
+      for (let k = 0; k < acc.length; k++) acc[k] += (FIG_WEIGHTS[q]! / tau) * f[k]!;
+    });
+    return acc;
+  });
+  return { values, d };
 }
 
 interface FastPath {
