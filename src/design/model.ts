@@ -226,8 +226,21 @@ export class DesignModel {
     const fast = this.fast;
     if (fast) {
       const key = fast.specPoints.length > 0 ? 'specs' : 'sweep';
-      const { network, derivatives } = this.derivativesFast(fast, key, fast.specPoints.length > 0 ? fast.specPoints : this.circuit.frequencies);
-      return marginDerivatives(this.circuit.specs, network, derivatives, this.variables, this.current);
+      const freqs = fast.specPoints.length > 0 ? fast.specPoints : this.circuit.frequencies;
+      const network = this.solveFast(fast, key, freqs);
+      const results = evaluateSpecs(this.circuit.specs, network);
+      // derivatives only where the margins are taken: each spec's worst point and its neighbours
+      const need = new Uint8Array(freqs.length);
+      for (const r of results) {
+        const k = freqs.indexOf(r.worstFrequency);
+        if (k < 0 || !Number.isFinite(r.worstMargin)) continue;
+        if (needsWholeSweep(r.spec.figure)) need.fill(1);
+        else for (let q = Math.max(0, k - 1); q <= Math.min(freqs.length - 1, k + 1); q++) need[q] = 1;
+      }
+      const points: number[] = [];
+      need.forEach((n, k) => n && points.push(k));
+      const derivatives = this.derivativesAt(fast, key, freqs, Int32Array.from(points), network.values.length);
+      return marginDerivatives(this.circuit.specs, network, derivatives, this.variables, this.current, results);
     }
     return this.marginGradientByDifferences();
   }
@@ -235,11 +248,17 @@ export class DesignModel {
   /** S and its exact derivatives on the fast path (see src/design/sensitivity.ts). */
   private derivativesFast(fast: FastPath, key: string, freqs: Float64Array): NetworkDerivatives {
     const network = this.solveFast(fast, key, freqs);
+    return { network, derivatives: this.derivativesAt(fast, key, freqs, undefined, network.values.length) };
+  }
+
+  /** dS/dθ at some points of `freqs` (all without `points`; zero elsewhere), the plan at the current values. */
+  private derivativesAt(fast: FastPath, key: string, freqs: Float64Array, points: Int32Array | undefined, length: number): Float64Array[] {
+    this.update(fast);
     const runner = this.runner(fast, key, freqs);
     const diffs = stampDifferences(fast.plan, fast.working, fast.graph, this.variables, this.current);
-    const derivatives = this.variables.map(() => new Float64Array(network.values.length));
-    sweepDerivatives(runner, diffs, derivatives);
-    return { network, derivatives };
+    const derivatives = this.variables.map(() => new Float64Array(length));
+    sweepDerivatives(runner, diffs, derivatives, points);
+    return derivatives;
   }
 
   /** {@link marginGradient} by central differences of whole evaluations (where the fast path is not taken). */
@@ -336,21 +355,42 @@ const FIG_WEIGHTS = [1 / 12, -8 / 12, 8 / 12, -1 / 12] as const;
  * switches, this is the derivative of the margin at the worst point (a one-sided choice, as for
  * any minimum).
  */
-export function marginDerivatives(specs: Circuit['specs'], network: NetworkData, derivatives: Float64Array[], variables: readonly Variable[], x: Float64Array): MarginGradient {
-  const results = evaluateSpecs(specs, network);
+export function marginDerivatives(specs: Circuit['specs'], network: NetworkData, derivatives: Float64Array[], variables: readonly Variable[], x: ArrayLike<number>, results = evaluateSpecs(specs, network)): MarginGradient {
   const nv = variables.length;
   const gradient = new Float64Array(results.length * nv);
-  const figures = new Map<string, { values: Float64Array; d: Float64Array[] }>();
-  for (const r of results) {
-    if (!figures.has(r.spec.figure)) figures.set(r.spec.figure, figureAlong(r.spec.figure, network, derivatives, variables, x));
-  }
+  const done = new Map<string, Float64Array>();
   results.forEach((r, s) => {
     const k = network.frequencies.indexOf(r.worstFrequency);
     if (k < 0 || !Number.isFinite(r.worstMargin)) return;
-    const { d } = figures.get(r.spec.figure)!;
-    for (let v = 0; v < nv; v++) gradient[s * nv + v] = (r.spec.bound === 'max' ? -1 : 1) * d[v]![k]!;
+    const key = `${r.spec.figure}@${k}`;
+    let d = done.get(key);
+    if (!d) {
+      // the figure on the worst point and its neighbours (a group delay takes both), or on
+      // every point where it needs them all (the unwrapped phase)
+      const [a, b] = needsWholeSweep(r.spec.figure) ? [0, network.frequencies.length - 1] : [Math.max(0, k - 1), Math.min(network.frequencies.length - 1, k + 1)];
+      const w = pointsOf(network, derivatives, a, b);
+      const along = figureAlong(r.spec.figure, w.network, w.derivatives, variables, x);
+      d = Float64Array.from(along.d, (dv) => dv[k - a]!);
+      done.set(key, d);
+    }
+    for (let v = 0; v < nv; v++) gradient[s * nv + v] = (r.spec.bound === 'max' ? -1 : 1) * d[v]!;
   });
   return { results, gradient };
+}
+
+/** Whether a figure at one point depends on every point before it (the unwrapped phase). */
+function needsWholeSweep(figure: string): boolean {
+  return /^\s*uphase\b/i.test(figure);
+}
+
+/** Points a…b (inclusive) of a network and of its derivatives. */
+function pointsOf(net: NetworkData, derivatives: Float64Array[], a: number, b: number): { network: NetworkData; derivatives: Float64Array[] } {
+  if (a === 0 && b === net.frequencies.length - 1) return { network: net, derivatives };
+  const per = 2 * net.ports * net.ports;
+  return {
+    network: { ...net, frequencies: net.frequencies.subarray(a, b + 1), values: net.values.subarray(a * per, (b + 1) * per) },
+    derivatives: derivatives.map((d) => d.subarray(a * per, (b + 1) * per)),
+  };
 }
 
 /**

@@ -67,10 +67,10 @@ export function stampDifferences(plan: StampPlan, circuit: Circuit, graph: Param
 
 /**
  * dS/dθ for every variable over the runner's points, into `out[v]` (the layout of the runner's S
- * values: 2·p·p per point, complex interleaved). The runner must hold the plan at the values the
- * differences were captured at.
+ * values: 2·p·p per point, complex interleaved), at every point or at the given point indices.
+ * The runner must hold the plan at the values the differences were captured at.
  */
-export function sweepDerivatives(runner: SweepRunner, diffs: StampDifferences, out: Float64Array[]): void {
+export function sweepDerivatives(runner: SweepRunner, diffs: StampDifferences, out: Float64Array[], points?: ArrayLike<number>): void {
   const plan = runner.plan;
   const n = plan.size;
   const p = plan.portPlus.length;
@@ -89,7 +89,9 @@ export function sweepDerivatives(runner: SweepRunner, diffs: StampDifferences, o
   const tmp = new Float64Array(2 * nSlots);
   const w = new Float64Array(1);
   const y = new Float64Array(2);
-  for (let k = 0; k < freqs.length; k++) {
+  const count = points ? points.length : freqs.length;
+  for (let q = 0; q < count; q++) {
+    const k = points ? points[q]! : q;
     runner.factorPoint(k);
     w[0] = 2 * Math.PI * freqs[k]!;
     // the solution for each driven port, every unknown
