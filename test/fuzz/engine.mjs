@@ -278,6 +278,16 @@ export function generateNetlist(seed, dict, scale = 1) {
     out.push(`let ${name} = ${genExpr(rng, params, 0)}`);
     params.push(name);
   }
+  // design variables (grammar/README.md §3.2): a value inside its range, in a unit or none
+  if (rng.chance(0.3)) {
+    for (let i = 0, n = 1 + rng.int(2); i < n; i++) {
+      const unit = rng.pick(['', ' pF', ' nH', ' ohm', ' mS']);
+      const v = Number((0.5 + 9 * rng.float()).toPrecision(3));
+      const series = rng.chance(0.3) ? ` series ${rng.pick(['E6', 'E24', 'E96'])}` : rng.chance(0.2) ? ` step ${(v / 20).toPrecision(2)}${unit}` : '';
+      out.push(`let v${i} = ${v}${unit} vary ${(v / 3).toPrecision(3)}${unit} to ${(v * 3).toPrecision(3)}${unit}${series}`);
+      params.push(`v${i}`);
+    }
+  }
   const nEl = 1 + rng.int(8);
   for (let i = 0; i < nEl; i++) out.push(genElement(rng, dict, params, nodes, `e${i}`));
   if (family === 1 || family === 2 || family === 3) {
@@ -561,7 +571,7 @@ export function randomSpec(rng, maxOps = 6) {
  */
 
 /** Error classes of the library that are documented outcomes even without a location. */
-const DOCUMENTED = ['SingularSystemError', 'NonFiniteResultError', 'ConversionError', 'OutputError', 'TwoPortConversionError', 'FrequencyGridError', 'CompareError'];
+const DOCUMENTED = ['ElementValueError', 'VariableError', 'SingularSystemError', 'NonFiniteResultError', 'ConversionError', 'OutputError', 'TwoPortConversionError', 'FrequencyGridError', 'CompareError'];
 
 /** A message starting with (or containing) an internal function name such as `createModeTransform:`. */
 const INTERNAL_NAME = /(?:^|[\s(])([a-z][a-z0-9]*[A-Z][A-Za-z0-9]*):\s/;
@@ -720,6 +730,65 @@ function writeAll(lib, net, what, convert) {
 }
 
 /**
+ * A netlist with design variables, evaluated by the design model (parameter graph, re-stamped
+ * plan) at two values of every variable, against the netlist elaborated afresh at the same
+ * values: the same S to rounding, or the same refusal (the model's documented errors).
+ */
+function designCheck(lib, c, options, sources) {
+  const text = c.files[c.main];
+  let model;
+  try {
+    model = lib.DesignModel.fromText(text, c.main, options);
+  } catch (e) {
+    const o = judgeError(lib, e, sources);
+    return o.status === 'crash' ? { status: 'crash', reason: `design model: ${o.reason}`, stack: o.stack } : undefined;
+  }
+  const names = new Set(model.variables.map((v) => v.name));
+  const keep = (options.set ?? []).filter((s) => !names.has(s.split('=')[0].trim()));
+  for (const f of [0.3, 0.85]) {
+    const x = model.variables.map((v) => {
+      const t = v.lower + f * (v.upper - v.lower);
+      return Math.min(v.upper, Math.max(v.lower, t));
+    });
+    model.setValues(x);
+    let fast;
+    let fastErr;
+    try {
+      fast = model.solve();
+    } catch (e) {
+      fastErr = e;
+    }
+    let ref;
+    let refErr;
+    try {
+      ref = lib.solve(lib.loadNetlist(text, c.main, { ...options, set: [...keep, ...model.setOptions()] }).circuit);
+    } catch (e) {
+      refErr = e;
+    }
+    if (fastErr) {
+      const o = judgeError(lib, fastErr, sources);
+      if (o.status === 'crash') return { status: 'crash', reason: `design model: ${o.reason}`, stack: o.stack };
+      continue;
+    }
+    const bad = checkNetwork(fast, 'design model');
+    if (bad) return { status: 'nonfinite', reason: bad };
+    if (!ref) {
+      if (refErr instanceof lib.InputError) return { status: 'crash', reason: `design model solved values that elaboration refuses: ${short(refErr.diagnostics.find((d) => d.severity === 'error')?.message ?? '')}` };
+      continue;
+    }
+    let worst = 0;
+    let scale = 1;
+    for (let k = 0; k < ref.values.length; k++) {
+      worst = Math.max(worst, Math.abs(fast.values[k] - ref.values[k]));
+      scale = Math.max(scale, Math.abs(ref.values[k]));
+    }
+    // the same pattern, ordering and pivot sequence; only the reference pivots may differ (rounding)
+    if (!(worst <= 1e-9 * scale)) return { status: 'crash', reason: `design model differs from elaboration by ${worst} (S up to ${scale})` };
+  }
+  return undefined;
+}
+
+/**
  * Runs one case through the library in-process and judges the outcome.
  * @param {any} lib the library (src/index.ts or dist/src/index.js)
  * @param {FuzzCase} c
@@ -758,6 +827,11 @@ export function runCase(lib, c) {
         return { status: 'ok', reason: 'solved (complex references)' };
       }
       writeAll(lib, net, 'solve', false);
+      if (r.circuit.variables.length > 0 && lib.DesignModel) {
+        const bad = designCheck(lib, c, options, sources);
+        if (bad) return bad;
+        return { status: 'ok', reason: 'solved, written and re-evaluated' };
+      }
       return { status: 'ok', reason: 'solved and written' };
     }
     sources.set(c.name, c.text);
