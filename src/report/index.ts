@@ -7,6 +7,7 @@
 
 export { renderReport, defaultTableFrequencies, type ReportInput } from './html.js';
 export { renderPlotSvg, type PlotSvgOptions } from './svg.js';
+export { prepareOverlay, type Dataset, type Overlay, type OverlayPart } from './model.js';
 export {
   resistanceCircle,
   reactanceCircle,
