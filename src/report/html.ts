@@ -447,6 +447,7 @@ function renderOverlayReport(input: OverlayReportInput): string {
   const limits: PlotLimit[] = [];
   const limitKey = new Map<string, PlotLimit>();
   const fails: PlotFail[] = [];
+  const shaded = new Set<string>();
   parts.forEach((p, q) => {
     for (const l of p.model.limits) {
       const key = `${l.spec}\u0000${l.plot}\u0000${l.bound}\u0000${JSON.stringify(l.points)}`;
@@ -458,7 +459,12 @@ function renderOverlayReport(input: OverlayReportInput): string {
         limits.push(copy);
       }
     }
-    for (const fl of p.model.fails) fails.push({ ...fl, spec: `${p.label} · ${fl.spec}`, entry: `${p.label} · ${fl.entry}` });
+    for (const fl of p.model.fails) {
+      // an interval where several inputs fail the same spec is shaded once (one more shade would darken it)
+      const intervals = fl.intervals.filter((iv) => !shaded.has(`${fl.spec}\u0000${fl.plot}\u0000${iv[0]}\u0000${iv[1]}`));
+      for (const iv of fl.intervals) shaded.add(`${fl.spec}\u0000${fl.plot}\u0000${iv[0]}\u0000${iv[1]}`);
+      fails.push({ ...fl, intervals, spec: `${p.label} · ${fl.spec}`, entry: `${p.label} · ${fl.entry}` });
+    }
   });
   const allSpecs = parts.flatMap((p) => p.specs);
   const data = {
@@ -508,7 +514,13 @@ function renderOverlayReport(input: OverlayReportInput): string {
   const passingInputs = withSpecs.filter((p) => p.specs.every((r) => r.pass)).length;
   const verdictStatus = withSpecs.length === 0 ? 'none' : passingInputs === withSpecs.length ? 'pass' : 'fail';
   const verdictText =
-    withSpecs.length === 0 ? 'no specs' : passingInputs === withSpecs.length ? `all ${withSpecs.length} inputs with specs pass` : `${withSpecs.length - passingInputs} of ${withSpecs.length} inputs fail a spec`;
+    withSpecs.length === 0
+      ? 'no specs'
+      : passingInputs === withSpecs.length
+        ? withSpecs.length === 1
+          ? 'every spec passes'
+          : `all ${withSpecs.length} inputs pass their specs`
+        : `${withSpecs.length - passingInputs} of ${withSpecs.length} inputs fail a spec`;
   const csp = "default-src 'none'; script-src 'unsafe-inline'; style-src 'unsafe-inline'; img-src data:; font-src 'none'; connect-src 'none'; media-src 'none'; object-src 'none'; frame-src 'none'; worker-src 'none'; base-uri 'none'; form-action 'none'";
 
   const out: string[] = [];

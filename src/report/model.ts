@@ -418,7 +418,12 @@ export function prepareOverlay(datasets: readonly Dataset[], entries?: readonly 
       model.plots = { db: [], phase: [], gd: [] };
       model.smith = [];
     }
-    for (const e of model.entries) if (!dashes.has(e.label)) dashes.set(e.label, DASHES[dashes.size % DASHES.length]!);
+    // an entry drawn as `S11 = S22` gives S22 the dash of S11 in every input
+    for (const e of model.entries) {
+      if (dashes.has(e.label)) continue;
+      const dash = DASHES[new Set(dashes.values()).size % DASHES.length]!;
+      for (const name of e.display.split(' = ')) if (!dashes.has(name)) dashes.set(name, dash);
+    }
     return { label, color: PALETTE[k % PALETTE.length]!, model, specs, dataset: d };
   });
   const counts = [...new Set(parts.map((p) => p.model.s.ports))];

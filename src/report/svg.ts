@@ -10,7 +10,7 @@ import type { SpecResult } from '../check/types.js';
 import type { NetworkData } from '../network/types.js';
 import { OutputError } from '../io/output.js';
 import { coord, dbAxisFloor, delayUnit, entryLabel, escapeXml, fixed, frequencyUnit, modesOf, portReference, referenceList, ticks, type DisplayUnit } from './format.js';
-import { buildModel, COLORS, entryDelay, entrySeries, prepareOverlay, type Dataset, type PlotKind, type PlotLimit, type ReportModel, type TraceEntry } from './model.js';
+import { buildModel, COLORS, entryDelay, entrySeries, prepareOverlay, type Dataset, type PlotFail, type PlotKind, type PlotLimit, type ReportModel, type TraceEntry } from './model.js';
 import { smithFragment } from './smith.js';
 
 /** What {@link renderPlotSvg} draws. */
@@ -41,6 +41,20 @@ interface Series {
   dash?: string;
   f: Float64Array;
   y: Float64Array;
+}
+
+/** Failing intervals of several inputs: an interval where several fail the same spec is shaded once. */
+function sharedFails(fails: readonly PlotFail[]): PlotFail[] {
+  const seen = new Set<string>();
+  return fails.map((fl) => {
+    const intervals = fl.intervals.filter((iv) => {
+      const key = `${fl.spec}\u0000${iv[0]}\u0000${iv[1]}`;
+      if (seen.has(key)) return false;
+      seen.add(key);
+      return true;
+    });
+    return intervals.length === fl.intervals.length ? fl : { ...fl, intervals };
+  });
 }
 
 /**
@@ -204,7 +218,7 @@ function rectSvg(parts: Part[], kind: PlotKind, options: PlotSvgOptions, id: str
     }
   }
   const limits = sharedLimits(parts.flatMap((p) => p.model.limits.filter((l) => l.plot === kind)));
-  const fails = parts.flatMap((p) => p.model.fails.filter((l) => l.plot === kind));
+  const fails = sharedFails(parts.flatMap((p) => p.model.fails.filter((l) => l.plot === kind)));
   if (kind === 'gd') {
     let big = 0;
     for (const r of raw) for (const v of r.y) if (Number.isFinite(v)) big = Math.max(big, Math.abs(v));
