@@ -101,7 +101,7 @@ export async function runVary(a: VaryArgs, io: Io): Promise<number> {
       io.out(formatSpecTable(r.specs));
       io.out('\n');
     }
-    if (circuit.specs.length > 0) io.out(`${passing} of ${results.length} member${results.length === 1 ? '' : 's'} pass every spec\n`);
+    if (circuit.specs.length > 0) io.out(`${passing} of ${results.length} member${results.length === 1 ? '' : 's'} pass${passing === 1 ? 'es' : ''} every spec\n`);
 
     const title = a.title ?? `${circuit.title ?? a.netlist}: ${axes.map((x) => x.name).join(' × ')} varied`;
     const datasets: Dataset[] = results.map((r) => ({ label: r.label, network: r.network, specs: r.specs, circuit, source: a.netlist }));
