@@ -72,7 +72,7 @@ const toleranceOptions = (y: Argv) =>
     .option('tol-abs', { type: 'number', describe: 'compare the complex difference |a − b| with this bound instead of dB and degrees' })
     .option('floor-db', { type: 'number', default: -100, describe: 'magnitudes below this (dB) are not judged in dB and degrees' });
 
-export const solveOptions = (y: Argv) =>
+const solveOptions = (y: Argv) =>
   y
     .option('jobs', { alias: 'j', type: 'number', default: availableParallelism(), describe: 'threads for long sweeps, this one included (1: solve in one thread)' })
     .option('set', { type: 'string', array: true, describe: 'override a parameter: name=value, with units (repeatable)' })

@@ -8,7 +8,9 @@
  * `--require-pass` — some member fails a spec; 2 a usage error.
  */
 import { dirname, extname } from 'node:path';
+import { Presets, SingleBar } from 'cli-progress';
 import type { Argv } from 'yargs';
+import { formatMargin } from '../../src/check/format.js';
 import { formatSpecTable } from '../../src/check/report.js';
 import { DesignModel } from '../../src/design/model.js';
 import { evaluateFamily, familyMembers, formatValue, parseOver, FamilyMemberError, type FamilyMember, type MemberResult, type OverAxis } from '../../src/design/family.js';
@@ -19,7 +21,7 @@ import { formatFromPath } from '../../src/io/output.js';
 import { MAX_NETWORK_VALUES } from '../../src/limits.js';
 import { writeNetwork } from '../../src/io/output.js';
 import { renderPlotSvg, renderReport, type Dataset } from '../../src/report/index.js';
-import { describeError, EXIT_INPUT, EXIT_OK, solveOptions, type Io } from '../cli.js';
+import { describeError, EXIT_INPUT, EXIT_OK, type Io } from '../cli.js';
 
 export interface VaryArgs {
   netlist: string;
@@ -34,12 +36,15 @@ export interface VaryArgs {
   sweep?: string;
   quiet: boolean;
   strict?: boolean;
-  jobs: number;
 }
 
 /** The options of `vary` (yargs builder). */
 export function varyBuilder(y: Argv) {
-  return solveOptions(y)
+  return y
+    .option('set', { type: 'string', array: true, describe: 'override a parameter: name=value, with units (repeatable); a varied variable takes the --over values' })
+    .option('sweep', { type: 'string', describe: 'replace the netlist sweep: segments as after `sweep`, joined by `;`' })
+    .option('quiet', { alias: 'q', type: 'boolean', default: false, describe: 'no progress bar' })
+    .option('strict', { type: 'boolean', default: false, describe: 'treat every warning of the netlist as an error (exit 1), e.g. in CI' })
     .positional('netlist', { type: 'string', describe: 'netlist file (.sbx) with design variables (let NAME = VALUE vary LOW to HIGH)', demandOption: true })
     .option('over', {
       type: 'string',
@@ -92,7 +97,17 @@ export async function runVary(a: VaryArgs, io: Io): Promise<number> {
     const outputs = [a.report, a.plot, ...(out === undefined ? [] : out.kind === 'touchstone' ? out.paths : [out.path])];
     checkOutputs(outputs, model.sources.keys());
 
-    const results = evaluateFamily(model, axes, members);
+    const bar =
+      !a.quiet && process.stderr.isTTY && members.length >= PROGRESS_MIN_MEMBERS
+        ? new SingleBar({ format: 'members [{bar}] {value}/{total}', stream: process.stderr, hideCursor: true, clearOnComplete: true }, Presets.shades_classic)
+        : undefined;
+    bar?.start(members.length, 0);
+    let results: MemberResult[];
+    try {
+      results = evaluateFamily(model, axes, members, (done) => bar?.update(done));
+    } finally {
+      bar?.stop();
+    }
 
     // the terminal: one table per member, then the count
     const passing = results.filter((r) => r.specs.every((s) => s.pass)).length;
@@ -101,6 +116,7 @@ export async function runVary(a: VaryArgs, io: Io): Promise<number> {
       io.out(formatSpecTable(r.specs));
       io.out('\n');
     }
+    if (circuit.specs.length > 0 && results.length > 1) io.out(`${summaryTable(results)}\n`);
     if (circuit.specs.length > 0) io.out(`${passing} of ${results.length} member${results.length === 1 ? '' : 's'} pass${passing === 1 ? 'es' : ''} every spec\n`);
 
     const title = a.title ?? `${circuit.title ?? a.netlist}: ${axes.map((x) => x.name).join(' × ')} varied`;
@@ -124,6 +140,24 @@ export async function runVary(a: VaryArgs, io: Io): Promise<number> {
     io.err(describeError(e, a.quiet) + '\n');
     return EXIT_INPUT;
   }
+}
+
+/** Families at least this large show a progress bar on a terminal (stderr, without --quiet). */
+const PROGRESS_MIN_MEMBERS = 20;
+
+/** One line per member: each spec's verdict and worst margin, then whether all pass. */
+function summaryTable(results: readonly MemberResult[]): string {
+  const names = results[0]!.specs.map((r) => r.spec.name);
+  const head = ['member', 'values', ...names, 'all'];
+  const rows = results.map((m) => [
+    String(m.index + 1),
+    m.label,
+    ...m.specs.map((r) => (r.points === 0 ? 'FAIL (no points)' : `${r.pass ? 'pass' : 'FAIL'} ${formatMargin(r.worstMargin, r.spec.unit)}`)),
+    m.specs.every((r) => r.pass) ? 'pass' : 'FAIL',
+  ]);
+  const widths = head.map((h, c) => Math.max(h.length, ...rows.map((r) => r[c]!.length)));
+  const line = (cells: string[]) => cells.map((x, c) => x.padEnd(widths[c]!)).join('  ').trimEnd();
+  return [line(head), line(widths.map((w) => '-'.repeat(w))), ...rows.map(line)].join('\n') + '\n';
 }
 
 function writeFamily(out: NonNullable<OutPlan>, a: VaryArgs, axes: readonly OverAxis[], results: readonly MemberResult[], title: string) {
