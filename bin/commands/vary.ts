@@ -19,7 +19,7 @@ import { familyCsvChunks, formatFamilyJson, type FamilyVariable } from '../../sr
 import { checkOutputs, ensureFolder, OutputError } from '../../src/io/guard.js';
 import { formatFromPath } from '../../src/io/output.js';
 import { MAX_NETWORK_VALUES } from '../../src/limits.js';
-import { writeNetwork } from '../../src/io/output.js';
+import { renderNetwork } from '../../src/io/output.js';
 import { renderPlotSvg, renderReport, type Dataset } from '../../src/report/index.js';
 import { describeError, EXIT_INPUT, EXIT_OK, type Io } from '../cli.js';
 
@@ -111,26 +111,34 @@ export async function runVary(a: VaryArgs, io: Io): Promise<number> {
 
     // the terminal: one table per member, then the count
     const passing = results.filter((r) => r.specs.every((s) => s.pass)).length;
-    for (const r of results) {
-      io.out(`${r.label}  (member ${r.index + 1} of ${results.length})\n`);
-      io.out(formatSpecTable(r.specs));
-      io.out('\n');
+    if (circuit.specs.length === 0) {
+      for (const r of results) io.out(`${r.label}  (member ${r.index + 1} of ${results.length})\n`);
+      io.out(`no specs in this netlist: nothing to check per member\n`);
+    } else {
+      for (const r of results) {
+        io.out(`${r.label}  (member ${r.index + 1} of ${results.length})\n`);
+        io.out(formatSpecTable(r.specs));
+        io.out('\n');
+      }
     }
     if (circuit.specs.length > 0 && results.length > 1) io.out(`${summaryTable(results)}\n`);
     if (circuit.specs.length > 0) io.out(`${passing} of ${results.length} member${results.length === 1 ? '' : 's'} pass${passing === 1 ? 'es' : ''} every spec\n`);
 
+    // every file is made before the first is written, so that a failure leaves none half done
     const title = a.title ?? `${circuit.title ?? a.netlist}: ${axes.map((x) => x.name).join(' × ')} varied`;
     const datasets: Dataset[] = results.map((r) => ({ label: r.label, network: r.network, specs: r.specs, circuit, source: a.netlist }));
-    if (a.report) writeFileAtomicSync(a.report, renderReport({ datasets, title, source: a.netlist }));
+    const files: [string, string | Uint8Array | Iterable<string>][] = [];
+    if (a.report) files.push([a.report, renderReport({ datasets, title, source: a.netlist })]);
     if (a.plot) {
       const svg = renderPlotSvg(datasets, { kind: a.kind, title: a.title });
-      if (extname(a.plot).toLowerCase() === '.svg') writeFileAtomicSync(a.plot, svg);
+      if (extname(a.plot).toLowerCase() === '.svg') files.push([a.plot, svg]);
       else {
         const { Resvg } = await import('@resvg/resvg-js');
-        writeFileAtomicSync(a.plot, new Resvg(svg, { background: 'white', font: { loadSystemFonts: true } }).render().asPng());
+        files.push([a.plot, new Resvg(svg, { background: 'white', font: { loadSystemFonts: true } }).render().asPng()]);
       }
     }
-    if (out) writeFamily(out, a, axes, results, title);
+    if (out) files.push(...familyFiles(out, a, axes, results, title));
+    for (const [path, data] of files) writeFileAtomicSync(path, data);
     return a.requirePass && passing < results.length ? EXIT_INPUT : EXIT_OK;
   } catch (e) {
     if (e instanceof FamilyMemberError) {
@@ -160,15 +168,15 @@ function summaryTable(results: readonly MemberResult[]): string {
   return [line(head), line(widths.map((w) => '-'.repeat(w))), ...rows.map(line)].join('\n') + '\n';
 }
 
-function writeFamily(out: NonNullable<OutPlan>, a: VaryArgs, axes: readonly OverAxis[], results: readonly MemberResult[], title: string) {
+/** The files of `-o`: paths and texts (every number checked before any is written). */
+function familyFiles(out: NonNullable<OutPlan>, a: VaryArgs, axes: readonly OverAxis[], results: readonly MemberResult[], title: string): [string, string | Iterable<string>][] {
   const variables: FamilyVariable[] = axes.map((x) => ({ name: x.name, unit: x.unit, spacing: x.spacing }));
   if (out.kind === 'touchstone') {
     const paths = out.paths;
-    results.forEach((r, k) => {
-      writeNetwork(r.network, paths[k]!, { comments: [`scatterbox vary ${a.netlist}`, `member ${r.index + 1} of ${results.length}: ${r.label}`] });
-    });
-  } else if (out.kind === 'json') writeFileAtomicSync(out.path, formatFamilyJson(title, variables, results));
-  else writeFileAtomicSync(out.path, familyCsvChunks(variables, results));
+    return results.map((r, k) => [paths[k]!, renderNetwork(r.network, { comments: [`scatterbox vary ${a.netlist}`, `member ${r.index + 1} of ${results.length}: ${r.label}`] }, paths[k]!)]);
+  }
+  if (out.kind === 'json') return [[out.path, formatFamilyJson(title, variables, results)]];
+  return [[out.path, familyCsvChunks(variables, results)]];
 }
 
 /**

@@ -539,7 +539,7 @@ function renderOverlayReport(input: OverlayReportInput): string {
   out.push('<body>');
   out.push('<header class="sbx-head">');
   out.push('<div class="sbx-titles">');
-  out.push(`<p class="sbx-kicker">scatterbox · ${parts.length} inputs overlaid</p>`);
+  out.push(`<p class="sbx-kicker">scatterbox · ${parts.length === 1 ? 'network report' : `${parts.length} inputs overlaid`}</p>`);
   out.push(`<h1 data-testid="title">${escapeXml(title)}</h1>`);
   out.push(`<div class="sbx-source">source <code data-testid="source">${escapeXml(source)}</code></div>`);
   out.push('</div>');
