@@ -178,3 +178,23 @@ describe('scatterbox vary: report, plot and exit codes', () => {
     expect(ext.err).toContain('the file name ends in .s3p but the network has 2 port(s)');
   });
 });
+
+describe('the documented example (docs-draft/vary-overlays.md, for the README)', () => {
+  it('prints the summary shown in the docs', () => {
+    const r = run(['vary', 'circuits/match-50-75-915.sbx', '--over', 'cshunt=1.5pF,1.64pF,1.8pF']);
+    expect(r.code).toBe(0);
+    const tail = r.out.slice(r.out.indexOf('member  values'));
+    expect(tail).toBe(
+      [
+        'member  values            channel_match  feed_vswr     channel_loss  usable_band   all',
+        '------  ----------------  -------------  ------------  ------------  ------------  ----',
+        '1       cshunt = 1.5 pF   FAIL -6.92 dB  pass 0.05     pass 0.08 dB  pass 3.65 dB  FAIL',
+        '2       cshunt = 1.64 pF  pass 3.68 dB   pass 0.08     pass 0.08 dB  pass 2.09 dB  pass',
+        '3       cshunt = 1.8 pF   FAIL -4.95 dB  pass 0.00451  pass 0.07 dB  pass 0.16 dB  FAIL',
+        '',
+        '1 of 3 members passes every spec',
+        '',
+      ].join('\n'),
+    );
+  });
+});
