@@ -688,7 +688,12 @@ function overlaySmithFigure(parts: readonly OverlayPart[], traces: readonly Over
   const toggles = shown
     .map((t) => `<button type="button" data-testid="smith-toggle" data-entry="${escapeXml(t.label)}" aria-pressed="true" style="--c:${t.color}"><i></i>${escapeXml(t.display)}</button>`)
     .join('');
-  const refs = [...new Set(parts.flatMap((p) => referenceList(p.model.s)))];
+  // the references as the single report words them, when every input has the same
+  const words = (s: NetworkData) => {
+    const list = referenceList(s);
+    return list.length === 1 ? list[0]! : Array.from(s.references, (_, p) => `${portReference(s, p + 1)} (port ${p + 1})`).join(', ');
+  };
+  const refs = [...new Set(parts.map((p) => words(p.model.s)))];
   const sub = refs.length === 1 ? `reflections, normalised to ${refs[0]!}` : 'reflections, each input normalised to its own references';
   return (
     `<figure class="smith-card" data-plot="smith"><figcaption>Smith chart<span class="sub">${escapeXml(sub)}</span></figcaption>${svg}` +
@@ -704,6 +709,7 @@ function overlayFrequencyTable(traces: readonly OverlayTrace[], cols: readonly n
     .map((k) => `<th colspan="2" class="entry"><span class="swatch" style="background:${traces[k]!.part.color}"></span>${escapeXml(traces[k]!.display)}</th>`)
     .join('');
   const head2 = cols.map(() => '<th class="num">|S| dB</th><th class="num">∠ deg</th>').join('');
+  let anyMoved = false;
   const rows = freqs.map((want) => {
     const cells = cols
       .map((q) => {
@@ -711,6 +717,7 @@ function overlayFrequencyTable(traces: readonly OverlayTrace[], cols: readonly n
         const own = t.part.model.s.frequencies;
         const k = nearestIndex(own, want);
         const moved = Math.abs(own[k]! - want) > 1e-9 * Math.max(Math.abs(want), 1);
+        anyMoved ||= moved;
         const db = t.series.db[k]!;
         const deg = t.series.deg[k]!;
         const note = moved ? ` title="at ${escapeXml(formatFrequency(own[k]!))}, the input's nearest point"` : '';
@@ -721,6 +728,6 @@ function overlayFrequencyTable(traces: readonly OverlayTrace[], cols: readonly n
   });
   return (
     `<div class="table-wrap"><table class="freq-table" data-testid="freq-table"><thead><tr><th rowspan="2" class="freq">frequency</th>${head1}</tr><tr>${head2}</tr></thead>` +
-    `<tbody>${rows.join('\n')}</tbody></table></div><p class="muted">* the input has no point at that frequency: its nearest point is shown.</p>`
+    `<tbody>${rows.join('\n')}</tbody></table></div>${anyMoved ? '<p class="muted">* the input has no point at that frequency: its nearest point is shown.</p>' : ''}`
   );
 }
