@@ -2,7 +2,7 @@
 // outside-independent check: every member of a family equals a plain `solve --set name=value`
 // run of the same netlist (to 1e-12), whatever file form the family is written in.
 import { spawnSync } from 'node:child_process';
-import { existsSync, mkdtempSync, readdirSync, readFileSync } from 'node:fs';
+import { existsSync, mkdtempSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
@@ -174,8 +174,24 @@ describe('scatterbox vary: report, plot and exit codes', () => {
     expect(self.code).toBe(1);
     expect(self.err).toContain('is an input of this run');
     expect(self.out).toBe('');
+    const json = run(['vary', DEMO, '--over', 'cshunt=1pF,2pF', '-o', join(dir, 'x-{index}.json')]);
+    expect(json.err).toContain('is one JSON file for the whole family, so {index} and {values} have no place in its name');
+    expect(json.out).toBe('');
     const ext = run(['vary', DEMO, '--over', 'cshunt=1pF,2pF', '-o', join(dir, 'x-{index}.s3p')]);
     expect(ext.err).toContain('the file name ends in .s3p but the network has 2 port(s)');
+  });
+});
+
+describe('scatterbox vary: a member that cannot be evaluated', () => {
+  it('names the member, shows the netlist error located, exits 1 and writes nothing', () => {
+    const netlist = join(dir, 'zero.sbx');
+    writeFileSync(netlist, 'let rs = 50 ohm vary 0 ohm to 100 ohm\nresistor r1 a=p1 b=p2 value=rs\nport 1 plus=p1\nport 2 plus=p2\nsweep list freqs=1 MHz\n');
+    const out = join(dir, 'zero.json');
+    const r = run(['vary', netlist, '--over', 'rs=10,0', '-o', out]);
+    expect(r.code).toBe(1);
+    expect(r.err).toMatch(/^while evaluating rs = 0 ohm \(member 2\):\n.*zero\.sbx:2:29: error: `value` must be other than zero\n/);
+    expect(r.err.match(/nothing was written/g)).toHaveLength(1);
+    expect(existsSync(out)).toBe(false);
   });
 });
 

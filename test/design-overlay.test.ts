@@ -172,6 +172,19 @@ describe('overlay plots (SVG)', () => {
   });
 });
 
+describe('labels are text, never markup', () => {
+  it('a label with markup is escaped in the page, its data block and the SVG', () => {
+    const evil = '</script><b onmouseover="x">&amp;';
+    const html = renderReport({ datasets: [{ label: evil, network: A.network }, B] });
+    expect(html).not.toContain('</script><b');
+    expect(html).not.toContain('<b onmouseover');
+    expect(dataOf(html).inputs[0]!.label).toBe(evil); // the data block reads back as the label
+    const svg = renderPlotSvg([{ label: evil, network: A.network }, B], { kind: 'db' });
+    expect(svg).not.toContain('<b onmouseover');
+    expect(svg).toContain('&lt;/script&gt;&lt;b onmouseover=&quot;x&quot;&gt;&amp;amp;');
+  });
+});
+
 describe('prepareOverlay', () => {
   it('makes labels unique, cycles the palette after its last colour, and refuses empty inputs', () => {
     const many = Array.from({ length: PALETTE.length + 2 }, (_, k) => ({ label: 'same.s2p', network: series(10 * (k + 1), [1e9, 2e9]) }));

@@ -142,7 +142,8 @@ export async function runVary(a: VaryArgs, io: Io): Promise<number> {
     return a.requirePass && passing < results.length ? EXIT_INPUT : EXIT_OK;
   } catch (e) {
     if (e instanceof FamilyMemberError) {
-      io.err(`${describeError(e.cause, a.quiet)}\n  (while evaluating ${e.member.label}, member ${e.member.index + 1})\nnothing was written\n`);
+      const text = describeError(e.cause, a.quiet);
+      io.err(`while evaluating ${e.member.label} (member ${e.member.index + 1}):\n${text}${/nothing was written$/.test(text) ? '' : '\nnothing was written'}\n`);
       return EXIT_INPUT;
     }
     io.err(describeError(e, a.quiet) + '\n');
@@ -187,6 +188,9 @@ function familyFiles(out: NonNullable<OutPlan>, a: VaryArgs, axes: readonly Over
 function outPlan(path: string | undefined, members: readonly FamilyMember[], axes: readonly OverAxis[], ports: number): OutPlan {
   if (path === undefined) return undefined;
   const format = formatFromPath(path);
+  if ((format === 'json' || format === 'csv') && /\{(index|values)\}/.test(path)) {
+    throw new OutputError(`${path} is one ${format.toUpperCase()} file for the whole family, so {index} and {values} have no place in its name`, 'name the file plainly (family.json), or write one Touchstone file per member (out/lpf-{index}.s2p)');
+  }
   if (format === 'json' || format === 'csv') return { kind: format, path };
   if (format !== 'touchstone') {
     throw new OutputError(`cannot tell what to write from the name ${JSON.stringify(path)}`, 'use .json or .csv for the family in one file, or a Touchstone name with {index} (e.g. out/lpf-{index}.s2p) for one file per member');
