@@ -192,6 +192,7 @@ describe('prepareOverlay', () => {
     expect(o.parts.map((p) => p.label).slice(0, 3)).toEqual(['same.s2p', 'same.s2p (2)', 'same.s2p (3)']);
     expect(o.parts[PALETTE.length]!.color).toBe(PALETTE[0]);
     expect(o.parts[1]!.color).toBe(PALETTE[1]);
+    expect(o.notes).toContain(`${PALETTE.length + 2} inputs share ${PALETTE.length} colours: the colours repeat from input ${PALETTE.length + 1} on (the legend and the readout name each input)`);
     expect(() => prepareOverlay([])).toThrow('there are no inputs to show');
     expect(() => prepareOverlay([{ label: 'empty', network: series(1, []) }])).toThrow('empty has no frequency points');
   });

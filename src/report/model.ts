@@ -430,5 +430,6 @@ export function prepareOverlay(datasets: readonly Dataset[], entries?: readonly 
   if (counts.length > 1) {
     notes.unshift(`the inputs have different port counts (${parts.map((p) => `${p.label}: ${p.model.s.ports}`).join(', ')}): each shows its own entries`);
   }
+  if (parts.length > PALETTE.length) notes.push(`${parts.length} inputs share ${PALETTE.length} colours: the colours repeat from input ${PALETTE.length + 1} on (the legend and the readout name each input)`);
   return { parts, dashOf: (entry) => dashes.get(entry) ?? '', notes };
 }
