@@ -22,7 +22,8 @@ import { convertData, parsePairs, parseReferences, type ConvertTarget } from '..
 import { evaluateQuantity } from '../src/load.js';
 import { microstripDispersive, microstripStatic, microstripWidth } from '../src/models/microstrip.js';
 import { formatFrequency } from '../src/check/format.js';
-import { renderPlotSvg, renderReport } from '../src/report/index.js';
+import { renderPlotSvg, renderReport, type Dataset } from '../src/report/index.js';
+import { runVary, varyBuilder, type VaryArgs } from './commands/vary.js';
 import { formatFromPath } from '../src/io/output.js';
 import { FigureError, parseFigure } from '../src/figures/registry.js';
 import { runSensitivity, sensitivityBuilder, type SensitivityArgs } from './commands/sensitivity.js';
@@ -50,7 +51,7 @@ export const EXIT_OK = 0;
 export const EXIT_INPUT = 1;
 export const EXIT_USAGE = 2;
 
-interface Io {
+export interface Io {
   out: (s: string) => void;
   err: (s: string) => void;
 }
@@ -193,27 +194,30 @@ export async function main(argv: string[], io: Io = defaultIo): Promise<number> 
       },
     )
     .command(
-      'report <input>',
-      'a self-contained HTML report: summary, specs, Smith chart, |S|, phase and group delay',
+      'report <input..>',
+      'a self-contained HTML report: summary, specs, Smith chart, |S|, phase and group delay (several inputs: overlaid)',
       (y: Argv) =>
         solveOptions(y)
-          .positional('input', { type: 'string', describe: 'netlist (.sbx) or network-data file (.sNp, .json)', demandOption: true })
+          .positional('input', { type: 'string', array: true, describe: 'netlists (.sbx) or network-data files (.sNp, .json); several are overlaid, one legend entry each', demandOption: true })
+          .option('label', { type: 'string', array: true, describe: 'legend labels of the inputs, in their order (default: the file names)' })
           .option('out', { alias: 'o', type: 'string', demandOption: true, describe: 'the HTML file to write' })
           .option('at', { type: 'string', describe: 'frequencies for the table, comma-separated, inside the sweep (the nearest point is shown), e.g. "2.40 GHz, 2.44 GHz"' })
           .option('entry', { type: 'string', array: true, describe: 'entries to plot, e.g. 21 11 (default: all)' })
           .option('title', { type: 'string', describe: 'title (default: the netlist title or the file name)' })
           .example('$0 report circuits/bandpass-2g4.sbx -o report.html', 'report of a demo, specs included')
-          .example('$0 report measured.s2p -o measured.html --at "915 MHz"', 'report of a data file'),
+          .example('$0 report measured.s2p -o measured.html --at "915 MHz"', 'report of a data file')
+          .example('$0 report circuits/bandpass-2g4.sbx circuits/data/bandpass-2g45-measured.s2p -o overlay.html', 'simulated against measured, overlaid'),
       async (args) => {
         code = await runReport(args as unknown as ReportArgs, io);
       },
     )
     .command(
-      'plot <input>',
-      'a static SVG (or PNG) plot for docs and code review',
+      'plot <input..>',
+      'a static SVG (or PNG) plot for docs and code review (several inputs: overlaid)',
       (y: Argv) =>
         solveOptions(y)
-          .positional('input', { type: 'string', describe: 'netlist (.sbx) or network-data file (.sNp, .json)', demandOption: true })
+          .positional('input', { type: 'string', array: true, describe: 'netlists (.sbx) or network-data files (.sNp, .json); several are overlaid, one legend entry each', demandOption: true })
+          .option('label', { type: 'string', array: true, describe: 'legend labels of the inputs, in their order (default: the file names)' })
           .option('out', { alias: 'o', type: 'string', demandOption: true, describe: 'the .svg or .png file to write' })
           .option('kind', { choices: ['db', 'phase', 'gd', 'smith'] as const, default: 'db', describe: 'what to plot' })
           .option('entry', { type: 'string', array: true, describe: 'entries to plot, e.g. 21 11 (default: all)' })
@@ -221,9 +225,18 @@ export async function main(argv: string[], io: Io = defaultIo): Promise<number> 
           .option('height', { type: 'number', default: 420, describe: 'height in pixels' })
           .option('title', { type: 'string', describe: 'title of the plot' })
           .example('$0 plot circuits/bandpass-2g4.sbx -o bandpass.svg --kind db', '|S| in dB with the spec limits')
-          .example('$0 plot circuits/match-50-75-915.sbx -o match.png --kind smith --entry 11', 'a Smith chart as PNG'),
+          .example('$0 plot circuits/match-50-75-915.sbx -o match.png --kind smith --entry 11', 'a Smith chart as PNG')
+          .example('$0 plot circuits/bandpass-2g4.sbx circuits/data/bandpass-2g45-measured.s2p -o overlay.svg --entry 21', 'simulated against measured'),
       async (args) => {
         code = await runPlot(args as unknown as PlotArgs, io);
+      },
+    )
+    .command(
+      'vary <netlist>',
+      'a family of curves: evaluate the design at several values of one or two design variables',
+      varyBuilder,
+      async (args) => {
+        code = await runVary(args as unknown as VaryArgs, io);
       },
     )
     .demandCommand(1, 'give a command, e.g. `scatterbox solve circuits/harmonic-lowpass-433.sbx`')
@@ -459,7 +472,8 @@ function splitFigures(list: string): string[] {
 }
 
 interface ReportArgs {
-  input: string;
+  input: string[];
+  label?: string[];
   out: string;
   at?: string;
   entry?: string[];
@@ -510,11 +524,42 @@ function parseEntries(list: string[] | undefined, ports: number): [number, numbe
     });
 }
 
+/**
+ * The inputs of an overlay (`report`/`plot` with several inputs), each solved or read, labelled by
+ * `--label` (in order) or its file name.
+ */
+async function overlayOf(a: ReportArgs, io: Io): Promise<{ datasets: Dataset[]; inputs: string[] }> {
+  const labels = a.label ?? [];
+  if (labels.length > a.input.length) throw new OutputError(`${labels.length} labels for ${a.input.length} inputs`, 'give at most one --label per input, in the order of the inputs');
+  const datasets: Dataset[] = [];
+  const inputs: string[] = [];
+  for (const [q, file] of a.input.entries()) {
+    const { net, circuit, specs, inputs: read } = await networkOf({ ...a, input: file }, io);
+    datasets.push({ label: labels[q] ?? basename(file), network: net, circuit, specs, source: file });
+    inputs.push(...read);
+  }
+  return { datasets, inputs };
+}
+
+/** Every input's frequencies merged and sorted (for --at of an overlay). */
+function mergedFrequencies(datasets: readonly Dataset[]): Float64Array {
+  return Float64Array.from(new Set(datasets.flatMap((d) => Array.from(d.network.frequencies)))).sort();
+}
+
 async function runReport(a: ReportArgs, io: Io): Promise<number> {
   try {
-    const { net, circuit, specs, inputs } = await networkOf(a, io);
+    if (a.input.length > 1 || (a.label?.length ?? 0) > 0) {
+      const { datasets, inputs } = await overlayOf(a, io);
+      const tableFrequencies = a.at ? frequenciesInSweep(a.at, mergedFrequencies(datasets)) : undefined;
+      const ports = Math.max(...datasets.map((d) => d.network.ports));
+      const html = renderReport({ datasets, title: a.title, tableFrequencies, entries: parseEntries(a.entry, ports) });
+      checkOutputs([a.out], inputs);
+      writeFileAtomicSync(a.out, html);
+      return EXIT_OK;
+    }
+    const { net, circuit, specs, inputs } = await networkOf({ ...a, input: a.input[0]! }, io);
     const tableFrequencies = a.at ? frequenciesInSweep(a.at, net.frequencies) : undefined;
-    const html = renderReport({ title: a.title, source: a.input, net, circuit, specs, tableFrequencies, entries: parseEntries(a.entry, net.ports) });
+    const html = renderReport({ title: a.title, source: a.input[0]!, net, circuit, specs, tableFrequencies, entries: parseEntries(a.entry, net.ports) });
     checkOutputs([a.out], inputs);
     writeFileAtomicSync(a.out, html);
     return EXIT_OK;
@@ -534,9 +579,17 @@ async function runPlot(a: PlotArgs, io: Io): Promise<number> {
   try {
     const ext = extname(a.out).toLowerCase();
     if (ext !== '.svg' && ext !== '.png') throw new OutputError(`a plot is written as .svg or .png, not ${ext || 'a file without extension'}`);
-    const { net, specs, inputs } = await networkOf(a, io);
-    checkOutputs([a.out], inputs);
-    const svg = renderPlotSvg(net, { kind: a.kind, specs, entries: parseEntries(a.entry, net.ports), width: a.width, height: a.height, title: a.title });
+    let svg: string;
+    if (a.input.length > 1 || (a.label?.length ?? 0) > 0) {
+      const { datasets, inputs } = await overlayOf(a, io);
+      checkOutputs([a.out], inputs);
+      const ports = Math.max(...datasets.map((d) => d.network.ports));
+      svg = renderPlotSvg(datasets, { kind: a.kind, entries: parseEntries(a.entry, ports), width: a.width, height: a.height, title: a.title });
+    } else {
+      const { net, specs, inputs } = await networkOf({ ...a, input: a.input[0]! }, io);
+      checkOutputs([a.out], inputs);
+      svg = renderPlotSvg(net, { kind: a.kind, specs, entries: parseEntries(a.entry, net.ports), width: a.width, height: a.height, title: a.title });
+    }
     if (ext === '.svg') writeFileAtomicSync(a.out, svg);
     else {
       const { Resvg } = await import('@resvg/resvg-js');
@@ -705,7 +758,7 @@ function runDiff(a: DiffArgs, io: Io): number {
 }
 
 /** The message of an error as printed; `file`: the netlist it belongs to, named in a batch. */
-function describeError(e: unknown, quiet: boolean, file?: string): string {
+export function describeError(e: unknown, quiet: boolean, file?: string): string {
   if (e instanceof InputError) {
     const shown = quiet ? e.diagnostics.filter((d) => d.severity === 'error') : e.diagnostics;
     const errors = e.diagnostics.filter((d) => d.severity === 'error').length;

@@ -32,3 +32,6 @@ export const MAX_FILE_BYTES = 256 * 1024 * 1024;
 /** Smallest and largest reference resistance, Ω, of a port or a network-data file: the power-wave normalisation takes √R and 1/√R, and mixed-mode references (2·R, R/2) stay finite. */
 export const MIN_REFERENCE_OHMS = 1e-6;
 export const MAX_REFERENCE_OHMS = 1e9;
+
+/** Members of a family (`vary`): values of one `--over`, and all combinations of two. */
+export const MAX_FAMILY_MEMBERS = 1000;

@@ -9,6 +9,7 @@ import type { Variable } from '../elaborate/circuit.js';
 import type { SpecResult } from '../check/types.js';
 import { describeSpec, formatFrequency, formatMargin } from '../check/format.js';
 import type { MarginGradient } from './model.js';
+import { formatValue } from './family.js';
 
 /** One variable's effect on one spec's worst margin. */
 export interface VariableEffect {
@@ -39,27 +40,6 @@ export function rankSensitivities(g: MarginGradient, variables: readonly Variabl
     effects.sort((a, b) => Math.abs(b.perPercent) - Math.abs(a.perPercent) || a.variable.localeCompare(b.variable));
     return { result, effects };
   });
-}
-
-const PREFIXES: [number, string][] = [
-  [1e12, 'T'],
-  [1e9, 'G'],
-  [1e6, 'M'],
-  [1e3, 'k'],
-  [1, ''],
-  [1e-3, 'm'],
-  [1e-6, 'u'],
-  [1e-9, 'n'],
-  [1e-12, 'p'],
-  [1e-15, 'f'],
-];
-
-/** A value in SI units with an SI prefix and four significant digits: `6.150 nH`, `1.640 pF`, `0.7071`. */
-export function formatValue(v: number, unit: string | null): string {
-  if (!unit) return Number(v.toPrecision(4)).toString();
-  const a = Math.abs(v);
-  const [scale, prefix] = PREFIXES.find(([s]) => a >= s * 0.9995) ?? PREFIXES[PREFIXES.length - 1]!;
-  return `${(v / scale).toPrecision(4)} ${prefix}${unit}`;
 }
 
 /** The sensitivities as a plain-text table per spec. */

@@ -98,6 +98,8 @@ export const CLIENT_SCRIPT = String.raw`(function () {
     put(readout, span('ro-f', (why === 'marker' ? '\u25c6 ' : '') + fmtFreq(F[k]), 'frequency'));
     E.forEach(function (e, q) {
       if (!visible[q]) return;
+      var at = k;
+      k = own(e, at);
       var item = document.createElement('span');
       item.className = 'ro-item';
       item.setAttribute('data-entry', e.label);
@@ -107,10 +109,22 @@ export const CLIENT_SCRIPT = String.raw`(function () {
       put(item, span('ro-v', '\u2220' + fix(e.deg[k], 2) + '\u00b0', 'deg'));
       if (e.gd) put(item, span('ro-v', '\u03c4 ' + sig(e.gd[k] === null ? null : e.gd[k] / GU.scale, 4) + ' ' + GU.unit, 'gd'));
       if (e.i === e.j) put(item, span('ro-v', 'Z ' + zText(impedance(e.re[k], e.im[k], e.z0, e.x0)), 'z'));
+      if (k !== at) put(item, span('ro-v', '(at ' + fmtFreq(F[k]) + ')', 'at'));
       put(readout, item);
+      k = at;
     });
   }
   function current() { return hoverIdx !== null ? hoverIdx : markerIdx; }
+  // Several inputs (data.overlay) share one frequency axis that holds every input's points; an
+  // entry has values only at its own input's points (null elsewhere): its nearest point to k.
+  function own(e, k) {
+    if (!data.overlay || e.re[k] !== null) return k;
+    for (var d = 1; d < N; d++) {
+      if (k - d >= 0 && e.re[k - d] !== null) return k - d;
+      if (k + d < N && e.re[k + d] !== null) return k + d;
+    }
+    return k;
+  }
 
   // ---- plots ------------------------------------------------------------------------------
   function niceRange(lo, hi) {
@@ -152,7 +166,7 @@ export const CLIENT_SCRIPT = String.raw`(function () {
     var xs = u.data[0], ys = u.data[sidx], p = new Path2D(), pen = false, prev = null;
     for (var k = i0; k <= i1; k++) {
       var y = ys[k];
-      if (y === null || y === undefined) { pen = false; prev = null; continue; }
+      if (y === null || y === undefined) { if (!data.overlay) { pen = false; prev = null; } continue; }
       var X = u.valToPos(xs[k], 'x', true), Y = u.valToPos(y, 'y', true);
       if (pen && prev !== null && Math.abs(y - prev) > 180) pen = false;
       if (pen) p.lineTo(X, Y); else p.moveTo(X, Y);
@@ -335,6 +349,8 @@ export const CLIENT_SCRIPT = String.raw`(function () {
       ],
       series: [{ label: 'f', value: function (u, v) { return v === null || v === undefined ? '\u2014' : fmtFreq(v); } }].concat(idx.map(function (k) {
         var s = { label: E[k].display, stroke: E[k].color, width: 1.7, points: { size: 5, fill: E[k].color }, value: valueFmt, show: visible[k] };
+        if (E[k].dash) s.dash = E[k].dash;
+        if (data.overlay) s.spanGaps = true;
         if (kind === 'phase') s.paths = phasePaths;
         return s;
       })),
@@ -369,13 +385,13 @@ export const CLIENT_SCRIPT = String.raw`(function () {
     for (var q = 0; q < old.length; q++) dots.removeChild(old[q]);
     if (k === null || k === undefined) return;
     data.smith.forEach(function (q) {
-      var e = E[q];
-      if (!visible[q] || e.re[k] === null || e.im[k] === null) return;
+      var e = E[q], j = own(e, k);
+      if (!visible[q] || e.re[j] === null || e.im[j] === null) return;
       var c = document.createElementNS(NS, 'circle');
       c.setAttribute('class', cls);
       c.setAttribute('data-entry', e.label);
-      c.setAttribute('cx', String(SF.cx + SF.radius * e.re[k]));
-      c.setAttribute('cy', String(SF.cy - SF.radius * e.im[k]));
+      c.setAttribute('cx', String(SF.cx + SF.radius * e.re[j]));
+      c.setAttribute('cy', String(SF.cy - SF.radius * e.im[j]));
       c.setAttribute('r', cls === 'smith-marker' ? '5' : '4.5');
       c.setAttribute('stroke', e.color);
       dots.appendChild(c);

@@ -22,7 +22,7 @@ import type { Circuit } from '../elaborate/circuit.js';
 import type { NetworkData } from '../network/types.js';
 import { CLIENT_SCRIPT } from './client.js';
 import { DB_AXIS_SPAN, delayUnit, escapeXml, fixed, frequencyUnit, portReference, referenceList, round } from './format.js';
-import { buildModel, COLORS, entryDelay, entrySeries, PLOT_TITLES, summarizeSweep, type EntrySeries, type ReportModel, type SweepSummary } from './model.js';
+import { buildModel, COLORS, entryDelay, entrySeries, PLOT_TITLES, prepareOverlay, summarizeSweep, type Dataset, type EntrySeries, type OverlayPart, type PlotFail, type PlotLimit, type ReportModel, type SweepSummary } from './model.js';
 import { smithFragment } from './smith.js';
 import { REPORT_CSS } from './style.js';
 
@@ -41,6 +41,23 @@ export interface ReportInput {
    *  ends and the spec band edges inside it (at most 12), or 5 points across the sweep. */
   tableFrequencies?: number[];
   /** Entries [to, from], 1-based, for the rectangular plots (default: all up to 4 ports). */
+  entries?: [number, number][];
+}
+
+/**
+ * Input of {@link renderReport} for several inputs on one page: netlists and data files overlaid
+ * (simulated against measured, before against after), or the members of a family.
+ */
+export interface OverlayReportInput {
+  /** The inputs, each with its legend label (a file name, `cshunt = 1.5 pF`). */
+  datasets: Dataset[];
+  /** Heading (default: the labels joined). */
+  title?: string;
+  /** What the page is of, shown in the header (default: the inputs' sources or labels). */
+  source?: string;
+  /** Frequencies (Hz) for the table; each cell shows its input's nearest point. */
+  tableFrequencies?: number[];
+  /** Entries [to, from], 1-based, for the rectangular plots (default: each input's own, all up to 4 ports). */
   entries?: [number, number][];
 }
 
@@ -82,7 +99,8 @@ const SMITH_FRAME = { cx: SMITH_SIZE / 2, cy: SMITH_SIZE / 2, radius: SMITH_SIZE
  * Renders the report as one HTML document (a string). Deterministic: the same input gives the
  * same bytes. Throws RangeError for a network without frequency points.
  */
-export function renderReport(input: ReportInput): string {
+export function renderReport(input: ReportInput | OverlayReportInput): string {
+  if ('datasets' in input) return renderOverlayReport(input);
   const net = input.net;
   if (net.frequencies.length === 0) throw new RangeError('the network has no frequency points: there is nothing to report');
   const specs = input.specs ?? (input.circuit && input.circuit.specs.length > 0 ? evaluateSpecs(input.circuit.specs, net) : []);
@@ -359,5 +377,357 @@ function frequencyTable(model: ReportModel, series: EntrySeries[], freqs: readon
   return (
     `<div class="table-wrap"><table class="freq-table" data-testid="freq-table"><thead><tr><th rowspan="2" class="freq">frequency</th>${head1}</tr><tr>${head2}</tr></thead>` +
     `<tbody>${rows.join('\n')}</tbody></table></div>`
+  );
+}
+
+/** One trace of an overlay page: an entry of one input. */
+interface OverlayTrace {
+  part: OverlayPart;
+  /** Index of the input. */
+  input: number;
+  /** Index of the entry in the input's model. */
+  entry: number;
+  key: string;
+  display: string;
+  dash: string;
+  series: EntrySeries;
+}
+
+/** The frequencies of every input merged (sorted, each once), and where each input's points fall in them. */
+function mergeGrids(grids: readonly Float64Array[]): { f: Float64Array; at: Int32Array[] } {
+  const all = new Set<number>();
+  for (const g of grids) for (const x of g) all.add(x);
+  const f = Float64Array.from([...all].sort((a, b) => a - b));
+  const index = new Map<number, number>();
+  f.forEach((x, k) => index.set(x, k));
+  return { f, at: grids.map((g) => Int32Array.from(g, (x) => index.get(x)!)) };
+}
+
+/** Values of one input placed on the merged grid: null where the input has no point. */
+function onGrid(values: ArrayLike<number>, at: Int32Array, size: number, digits: number): (number | null)[] {
+  const out: (number | null)[] = new Array<number | null>(size).fill(null);
+  for (let k = 0; k < at.length; k++) out[at[k]!] = round(values[k]!, digits);
+  return out;
+}
+
+/**
+ * The report of several inputs: one legend (each input its colour, each entry its dash), the
+ * inputs listed with their sweeps and verdicts, one spec table per input that has specs, the
+ * Smith chart and every plot overlaid, and the table of values with a column pair per trace.
+ * Inputs with different sweeps are drawn on their own points (the page's frequency axis holds
+ * every input's points; the readout shows each input's nearest point).
+ */
+function renderOverlayReport(input: OverlayReportInput): string {
+  const overlay = prepareOverlay(input.datasets, input.entries);
+  const parts = overlay.parts;
+  const { f, at } = mergeGrids(parts.map((p) => p.model.s.frequencies));
+  const title = input.title ?? parts.map((p) => p.label).join(' · ');
+  const source = input.source ?? [...new Set(parts.map((p) => p.dataset.source ?? p.label))].join(', ');
+  const traces: OverlayTrace[] = [];
+  const traceOf = new Map<string, number>(); // `${input}:${entry}` → trace index
+  parts.forEach((p, q) => {
+    const used = new Set<number>([...p.model.plots.db, ...p.model.plots.phase, ...p.model.plots.gd, ...p.model.smith]);
+    p.model.entries.forEach((e, k) => {
+      if (!used.has(k)) return;
+      traceOf.set(`${q}:${k}`, traces.length);
+      traces.push({ part: p, input: q, entry: k, key: `${p.label} · ${e.label}`, display: `${p.label} · ${e.display}`, dash: overlay.dashOf(e.label), series: entrySeries(p.model.s, e.i, e.j) });
+    });
+  });
+  const delays = traces.map((t) => (t.part.model.plots.gd.includes(t.entry) ? entryDelay(t.part.model.s, t.part.model.entries[t.entry]!.i, t.part.model.entries[t.entry]!.j) : null));
+  let bigDelay = 0;
+  for (const d of delays) if (d) for (const v of d) if (Number.isFinite(v)) bigDelay = Math.max(bigDelay, Math.abs(v));
+  const gdUnit = delayUnit(bigDelay);
+  const xUnit = frequencyUnit(f[f.length - 1]!);
+  const sweep = summarizeSweep(f);
+  const logX = sweep.spacing === 'log' && sweep.start > 0 && sweep.stop / sweep.start >= 100;
+  const mapPlot = (q: number, list: number[]) => list.map((k) => traceOf.get(`${q}:${k}`)!);
+  const plots = { db: parts.flatMap((p, q) => mapPlot(q, p.model.plots.db)), phase: parts.flatMap((p, q) => mapPlot(q, p.model.plots.phase)), gd: parts.flatMap((p, q) => mapPlot(q, p.model.plots.gd)) };
+  const smith = parts.flatMap((p, q) => mapPlot(q, p.model.smith));
+  // limits shared by several inputs (a family's) are drawn once, passing only where all pass
+  const limits: PlotLimit[] = [];
+  const limitKey = new Map<string, PlotLimit>();
+  const fails: PlotFail[] = [];
+  const shaded = new Set<string>();
+  parts.forEach((p, q) => {
+    for (const l of p.model.limits) {
+      const key = `${l.spec}\u0000${l.plot}\u0000${l.bound}\u0000${JSON.stringify(l.points)}`;
+      const had = limitKey.get(key);
+      if (had) had.pass = had.pass && l.pass;
+      else {
+        const copy = { ...l, entry: traces[traceOf.get(`${q}:${p.model.entries.findIndex((e) => e.label === l.entry)}`) ?? 0]?.key ?? l.entry };
+        limitKey.set(key, copy);
+        limits.push(copy);
+      }
+    }
+    for (const fl of p.model.fails) {
+      // an interval where several inputs fail the same spec is shaded once (one more shade would darken it)
+      const intervals = fl.intervals.filter((iv) => !shaded.has(`${fl.spec}\u0000${fl.plot}\u0000${iv[0]}\u0000${iv[1]}`));
+      for (const iv of fl.intervals) shaded.add(`${fl.spec}\u0000${fl.plot}\u0000${iv[0]}\u0000${iv[1]}`);
+      fails.push({ ...fl, intervals, spec: `${p.label} · ${fl.spec}`, entry: `${p.label} · ${fl.entry}` });
+    }
+  });
+  const allSpecs = parts.flatMap((p) => p.specs);
+  const data = {
+    schema: 'scatterbox.report/1',
+    title,
+    source,
+    overlay: true,
+    inputs: parts.map((p) => ({ label: p.label, color: p.color, source: p.dataset.source ?? null, ports: p.model.s.ports })),
+    ports: Math.max(...parts.map((p) => p.model.s.ports)),
+    parameter: 'S',
+    f: Array.from(f, (x) => x),
+    xUnit,
+    logX,
+    gdUnit,
+    dbSpan: DB_AXIS_SPAN,
+    colors: { ink: COLORS.ink, muted: COLORS.muted, grid: COLORS.grid, gridStrong: COLORS.gridStrong, limit: COLORS.limit, fail: COLORS.fail, accent: COLORS.accent },
+    entries: traces.map((t, k) => {
+      const e = t.part.model.entries[t.entry]!;
+      const s = t.part.model.s;
+      const grid = at[t.input]!;
+      return {
+        label: t.key,
+        display: t.display,
+        input: t.input,
+        i: e.i,
+        j: e.j,
+        color: t.part.color,
+        dash: t.dash ? t.dash.split(' ').map(Number) : null,
+        z0: s.references[e.i - 1]!,
+        x0: s.referenceReactances?.[e.i - 1] ?? 0,
+        re: onGrid(t.series.re, grid, f.length, 12),
+        im: onGrid(t.series.im, grid, f.length, 12),
+        db: onGrid(t.series.db, grid, f.length, 9),
+        deg: onGrid(t.series.deg, grid, f.length, 9),
+        gd: delays[k] ? onGrid(delays[k]!, grid, f.length, 9) : null,
+      };
+    }),
+    plots,
+    smith,
+    smithFrame: SMITH_FRAME,
+    limits,
+    fails,
+  };
+
+  const assets = uplotAssets();
+  const withSpecs = parts.filter((p) => p.specs.length > 0);
+  const passingInputs = withSpecs.filter((p) => p.specs.every((r) => r.pass)).length;
+  const verdictStatus = withSpecs.length === 0 ? 'none' : passingInputs === withSpecs.length ? 'pass' : 'fail';
+  const verdictText =
+    withSpecs.length === 0
+      ? 'no specs'
+      : passingInputs === withSpecs.length
+        ? withSpecs.length === 1
+          ? 'every spec passes'
+          : `all ${withSpecs.length} inputs pass their specs`
+        : `${withSpecs.length - passingInputs} of ${withSpecs.length} inputs fail a spec`;
+  const csp = "default-src 'none'; script-src 'unsafe-inline'; style-src 'unsafe-inline'; img-src data:; font-src 'none'; connect-src 'none'; media-src 'none'; object-src 'none'; frame-src 'none'; worker-src 'none'; base-uri 'none'; form-action 'none'";
+
+  const out: string[] = [];
+  out.push('<!doctype html>');
+  out.push('<html lang="en">');
+  out.push('<head>');
+  out.push('<meta charset="utf-8">');
+  out.push('<meta name="viewport" content="width=device-width, initial-scale=1">');
+  out.push(`<meta http-equiv="Content-Security-Policy" content="${csp}">`);
+  out.push('<meta name="generator" content="scatterbox">');
+  out.push(`<title>${escapeXml(title)} · scatterbox report</title>`);
+  out.push('<link rel="icon" href="data:,">');
+  out.push(`<style>/* uPlot ${escapeXml(assets.version)} (MIT licence) */\n${styleText(assets.css)}</style>`);
+  out.push(`<style>${styleText(REPORT_CSS)}${styleText(OVERLAY_CSS)}</style>`);
+  out.push('</head>');
+  out.push('<body>');
+  out.push('<header class="sbx-head">');
+  out.push('<div class="sbx-titles">');
+  out.push(`<p class="sbx-kicker">scatterbox · ${parts.length === 1 ? 'network report' : `${parts.length} inputs overlaid`}</p>`);
+  out.push(`<h1 data-testid="title">${escapeXml(title)}</h1>`);
+  out.push(`<div class="sbx-source">source <code data-testid="source">${escapeXml(source)}</code></div>`);
+  out.push('</div>');
+  out.push(`<div class="verdict" data-testid="verdict" data-status="${verdictStatus}">${escapeXml(verdictText)}</div>`);
+  out.push('</header>');
+  out.push('<main>');
+  out.push('<noscript><p>Scripts are off: the plots of magnitude, phase and group delay need them. The summary, the Smith chart and the tables are shown as they are.</p></noscript>');
+
+  // the inputs
+  out.push('<section class="summary" data-testid="summary">');
+  out.push('<h2>Inputs</h2>');
+  out.push(inputsTable(parts));
+  for (const note of overlay.notes) out.push(`<p class="overlay-note" data-testid="overlay-note">Note: ${escapeXml(note)}.</p>`);
+  out.push('</section>');
+
+  // specs: one table per input with specs
+  out.push('<section class="specs" data-testid="specs">');
+  out.push('<h2>Specs</h2>');
+  if (withSpecs.length === 0) out.push('<p class="muted" data-testid="no-specs">No specs were given.</p>');
+  if (withSpecs.length > 1) out.push(specMatrix(withSpecs));
+  for (const p of withSpecs) {
+    out.push(`<div class="spec-group" data-testid="spec-group" data-input="${escapeXml(p.label)}">`);
+    out.push(`<h3 data-testid="spec-title"><span class="swatch" style="background:${p.color}"></span>${escapeXml(p.label)}${p.dataset.source && p.dataset.source !== p.label ? ` <span class="muted">${escapeXml(p.dataset.source)}</span>` : ''}</h3>`);
+    out.push(specTable(p.specs, p.model));
+    out.push('</div>');
+  }
+  out.push('</section>');
+
+  // plots
+  out.push('<section class="response" data-testid="response">');
+  out.push('<h2>Response</h2>');
+  out.push('<div class="toolbar">');
+  out.push('<label><input type="checkbox" data-testid="toggle-limits" checked> spec limits and failing bands</label>');
+  out.push('<button type="button" data-testid="reset-zoom">reset zoom</button>');
+  out.push('<span class="hint">Colour: the input; dash: the entry. Drag across a plot to zoom in; click to place a marker; click a legend entry to hide or show a trace.</span>');
+  out.push('</div>');
+  out.push(legendBlock(parts, traces, overlay.dashOf));
+  out.push('<div class="readout" data-testid="readout" aria-live="polite"></div>');
+  out.push(plotFigure('db', 'Magnitude', '|S| in dB', 300));
+  out.push('<div class="charts">');
+  out.push(overlaySmithFigure(parts, traces, smith));
+  out.push('<div class="stack">');
+  out.push(plotFigure('phase', 'Phase', 'degrees, wrapped to ±180°', 200));
+  const gdOf = plots.gd.some((k) => data.entries[k]!.i !== data.entries[k]!.j) ? 'the transmissions' : 'the reflections';
+  out.push(plotFigure('gd', 'Group delay', `${gdUnit.unit}, −dφ/dω of ${gdOf}`, 200));
+  out.push('</div>');
+  out.push('</div>');
+  out.push('</section>');
+
+  // table
+  out.push('<section class="values" data-testid="values">');
+  out.push('<h2>Values at selected frequencies</h2>');
+  out.push(overlayFrequencyTable(traces, plots.db, input.tableFrequencies ?? defaultTableFrequencies(f, allSpecs)));
+  out.push('</section>');
+  out.push('</main>');
+  out.push(
+    `<footer>Made by scatterbox. Everything this page shows is inside this one file (data, scripts, styles); it makes no network requests. Plots drawn with uPlot ${escapeXml(assets.version)}.</footer>`,
+  );
+  out.push(`<script type="application/json" id="sbx-data">${jsonBlock(data)}</script>`);
+  out.push(`<script>/* uPlot ${escapeXml(assets.version)}, MIT licence */\n${scriptText(assets.js)}</script>`);
+  out.push(`<script>${scriptText(CLIENT_SCRIPT)}</script>`);
+  out.push('</body>');
+  out.push('</html>');
+  return out.join('\n') + '\n';
+}
+
+/** Styles of the overlay page only. */
+const OVERLAY_CSS = `
+.overlay-note { background: #fffbea; border: 1px solid #e6d48a; border-radius: 6px; padding: 6px 12px; font-size: 12.5px; margin: 10px 0 0; }
+.spec-group { margin: 0 0 14px; }
+.spec-group h3 { font-size: 13px; font-weight: 650; margin: 0 0 6px; display: flex; align-items: center; gap: 8px; }
+.swatch { display: inline-block; width: 14px; height: 4px; border-radius: 2px; vertical-align: middle; }
+.overlay-legend { display: flex; flex-wrap: wrap; gap: 4px 18px; margin: 0 0 10px; font-size: 12.5px; align-items: center; }
+.overlay-legend .key { display: inline-flex; align-items: center; gap: 6px; }
+.overlay-legend svg { display: block; }
+.spec-matrix td.cell { text-align: center; }
+.spec-matrix td.cell[data-status="pass"] { color: var(--pass); font-weight: 650; }
+.spec-matrix td.cell[data-status="fail"] { color: var(--fail); font-weight: 650; background: #fff5f3; }
+`;
+
+function inputsTable(parts: readonly OverlayPart[]): string {
+  const rows = parts.map((p) => {
+    const s = p.model.s;
+    const f = s.frequencies;
+    const specs = p.specs.length === 0 ? '<span class="muted">none</span>' : `${p.specs.filter((r) => r.pass).length} pass, ${p.specs.filter((r) => !r.pass).length} fail`;
+    const status = p.specs.length === 0 ? 'none' : p.specs.every((r) => r.pass) ? 'pass' : 'fail';
+    return (
+      `<tr data-testid="input-row" data-input="${escapeXml(p.label)}" data-ports="${s.ports}" data-points="${f.length}" data-status="${status}">` +
+      `<td><span class="swatch" style="background:${p.color}"></span></td><td>${escapeXml(p.label)}</td>` +
+      `<td><code>${escapeXml(p.dataset.source ?? '')}</code></td><td class="num">${s.ports}</td>` +
+      `<td class="num">${escapeXml(formatFrequency(f[0]!))} – ${escapeXml(formatFrequency(f[f.length - 1]!))}</td><td class="num">${f.length}</td>` +
+      `<td class="num">${escapeXml(referenceList(s).join(', '))}</td><td>${specs}</td></tr>`
+    );
+  });
+  return (
+    '<div class="table-wrap"><table data-testid="inputs"><thead><tr><th></th><th>input</th><th>file</th><th class="num">ports</th><th class="num">sweep</th><th class="num">points</th><th class="num">reference</th><th>specs</th></tr></thead>' +
+    `<tbody>${rows.join('\n')}</tbody></table></div>`
+  );
+}
+
+/** Pass or fail of every spec (columns) for every input (rows), with the worst margin. */
+function specMatrix(parts: readonly OverlayPart[]): string {
+  const names: string[] = [];
+  for (const p of parts) for (const r of p.specs) if (!names.includes(r.spec.name)) names.push(r.spec.name);
+  const head = names.map((n) => `<th class="num">${escapeXml(n)}</th>`).join('');
+  const rows = parts.map((p) => {
+    const cells = names
+      .map((n) => {
+        const r = p.specs.find((x) => x.spec.name === n);
+        if (!r) return '<td class="cell muted">—</td>';
+        const status = r.pass ? 'pass' : 'fail';
+        const margin = r.points === 0 ? 'no points' : minus(formatMargin(r.worstMargin, r.spec.unit));
+        return `<td class="cell" data-testid="spec-cell" data-spec="${escapeXml(n)}" data-status="${status}" data-margin="${r.worstMargin}">${r.pass ? 'pass' : 'FAIL'} <span class="muted">${escapeXml(margin)}</span></td>`;
+      })
+      .join('');
+    return `<tr data-input="${escapeXml(p.label)}"><td><span class="swatch" style="background:${p.color}"></span> ${escapeXml(p.label)}</td>${cells}</tr>`;
+  });
+  return `<div class="table-wrap spec-matrix-wrap"><table class="spec-matrix" data-testid="spec-matrix"><thead><tr><th>input</th>${head}</tr></thead><tbody>${rows.join('\n')}</tbody></table></div><p class="muted">Worst margin beside each result; the tables below give each input's details.</p>`;
+}
+
+/** The legend of the page: each input by its colour, each entry by its dash. */
+function legendBlock(parts: readonly OverlayPart[], traces: readonly OverlayTrace[], dashOf: (entry: string) => string): string {
+  const line = (color: string, dash: string) =>
+    `<svg width="26" height="8" aria-hidden="true"><line x1="1" y1="4" x2="25" y2="4" stroke="${color}" stroke-width="2.4"${dash ? ` stroke-dasharray="${dash}"` : ''}/></svg>`;
+  const inputs = parts.map((p) => `<span class="key" data-testid="legend-input" data-input="${escapeXml(p.label)}">${line(p.color, '')}${escapeXml(p.label)}</span>`);
+  const seen = new Set<string>();
+  const entries: string[] = [];
+  for (const t of traces) {
+    const e = t.part.model.entries[t.entry]!;
+    if (seen.has(e.label)) continue;
+    for (const name of e.display.split(' = ')) seen.add(name);
+    entries.push(`<span class="key" data-testid="legend-entry" data-entry="${escapeXml(e.label)}">${line(COLORS.ink, dashOf(e.label))}${escapeXml(e.display)}</span>`);
+  }
+  return `<div class="overlay-legend" data-testid="legend">${inputs.join('')}<span class="muted">·</span>${entries.join('')}</div>`;
+}
+
+function overlaySmithFigure(parts: readonly OverlayPart[], traces: readonly OverlayTrace[], smith: readonly number[]): string {
+  const shown = smith.map((k) => {
+    const t = traces[k]!;
+    return { label: t.key, display: t.display, color: t.part.color, dash: t.dash || undefined, re: t.series.re, im: t.series.im };
+  });
+  const body = smithFragment({ frame: SMITH_FRAME, traces: shown, admittance: 'hidden', fontSize: 10.5, interactive: true });
+  const svg =
+    `<svg data-testid="smith" data-admittance="hidden" viewBox="0 0 ${SMITH_SIZE} ${SMITH_SIZE}" role="img" aria-label="Smith chart of the reflections" font-family="system-ui, 'DejaVu Sans', sans-serif">` +
+    `${body}<g data-part="smith-dots" class="smith-dots"></g></svg>`;
+  const toggles = shown
+    .map((t) => `<button type="button" data-testid="smith-toggle" data-entry="${escapeXml(t.label)}" aria-pressed="true" style="--c:${t.color}"><i></i>${escapeXml(t.display)}</button>`)
+    .join('');
+  // the references as the single report words them, when every input has the same
+  const words = (s: NetworkData) => {
+    const list = referenceList(s);
+    return list.length === 1 ? list[0]! : Array.from(s.references, (_, p) => `${portReference(s, p + 1)} (port ${p + 1})`).join(', ');
+  };
+  const refs = [...new Set(parts.map((p) => words(p.model.s)))];
+  const sub = refs.length === 1 ? `reflections, normalised to ${refs[0]!}` : 'reflections, each input normalised to its own references';
+  return (
+    `<figure class="smith-card" data-plot="smith"><figcaption>Smith chart<span class="sub">${escapeXml(sub)}</span></figcaption>${svg}` +
+    `<div class="smith-controls">${toggles}<label><input type="checkbox" data-testid="toggle-admittance"> admittance grid</label></div>` +
+    `<div class="smith-readout" data-testid="smith-readout"></div>` +
+    `<div class="smith-note">○ first sweep point · ● last sweep point · grid: constant resistance and reactance</div></figure>`
+  );
+}
+
+/** The table of values: a column pair per trace of the magnitude plot, each at its input's nearest point. */
+function overlayFrequencyTable(traces: readonly OverlayTrace[], cols: readonly number[], freqs: readonly number[]): string {
+  const head1 = cols
+    .map((k) => `<th colspan="2" class="entry"><span class="swatch" style="background:${traces[k]!.part.color}"></span>${escapeXml(traces[k]!.display)}</th>`)
+    .join('');
+  const head2 = cols.map(() => '<th class="num">|S| dB</th><th class="num">∠ deg</th>').join('');
+  let anyMoved = false;
+  const rows = freqs.map((want) => {
+    const cells = cols
+      .map((q) => {
+        const t = traces[q]!;
+        const own = t.part.model.s.frequencies;
+        const k = nearestIndex(own, want);
+        const moved = Math.abs(own[k]! - want) > 1e-9 * Math.max(Math.abs(want), 1);
+        anyMoved ||= moved;
+        const db = t.series.db[k]!;
+        const deg = t.series.deg[k]!;
+        const note = moved ? ` title="at ${escapeXml(formatFrequency(own[k]!))}, the input's nearest point"` : '';
+        return `<td class="num" data-entry="${escapeXml(t.key)}" data-db="${db}" data-deg="${deg}" data-frequency="${own[k]}"${note}>${Number.isFinite(db) ? fixed(db, 3) : '−∞'}${moved ? '*' : ''}</td><td class="num">${fixed(deg, 2)}</td>`;
+      })
+      .join('');
+    return `<tr data-testid="freq-row" data-asked="${want}"><td class="freq">${formatFrequency(want)}</td>${cells}</tr>`;
+  });
+  return (
+    `<div class="table-wrap"><table class="freq-table" data-testid="freq-table"><thead><tr><th rowspan="2" class="freq">frequency</th>${head1}</tr><tr>${head2}</tr></thead>` +
+    `<tbody>${rows.join('\n')}</tbody></table></div>${anyMoved ? '<p class="muted">* the input has no point at that frequency: its nearest point is shown.</p>' : ''}`
   );
 }

@@ -5,8 +5,9 @@
  * @module
  */
 
-export { renderReport, defaultTableFrequencies, type ReportInput } from './html.js';
+export { renderReport, defaultTableFrequencies, type ReportInput, type OverlayReportInput } from './html.js';
 export { renderPlotSvg, type PlotSvgOptions } from './svg.js';
+export { prepareOverlay, type Dataset, type Overlay, type OverlayPart } from './model.js';
 export {
   resistanceCircle,
   reactanceCircle,

@@ -6,19 +6,20 @@
  * @module
  */
 
-import { limitAt } from '../check/evaluate.js';
+import { evaluateSpecs, limitAt } from '../check/evaluate.js';
+import type { Circuit } from '../elaborate/circuit.js';
 import type { SpecDefinition, SpecResult } from '../check/types.js';
 import { groupDelay, magnitudeDb, phaseDeg } from '../figures/entry.js';
 import { parseFigure } from '../figures/registry.js';
 import { scattering } from '../figures/shared.js';
 import type { NetworkData } from '../network/types.js';
 import { entryLabel, modesOf } from './format.js';
-import { PALETTE } from './style.js';
+import { DASHES, PALETTE } from './style.js';
 
 /** The rectangular plots. */
 export type PlotKind = 'db' | 'phase' | 'gd';
 
-export { COLORS, PALETTE } from './style.js';
+export { COLORS, DASHES, PALETTE } from './style.js';
 
 /** One S entry (1-based ports) as drawn: label and colour. */
 export interface TraceEntry {
@@ -351,4 +352,84 @@ export function summarizeSweep(f: Float64Array): SweepSummary {
     if (maxR - minR <= 1e-6 * maxR) return { start, stop, points: m, spacing: 'log', perDecade: Math.LN10 / ((minR + maxR) / 2) };
   }
   return { start, stop, points: m, spacing: 'uneven', minStep, maxStep };
+}
+
+/**
+ * One input of an overlay or a family: a label for the legend (a file name, or `cshunt = 1.5 pF`),
+ * its network, and its spec results (default: the circuit's specs evaluated on the network).
+ */
+export interface Dataset {
+  label: string;
+  network: NetworkData;
+  specs?: SpecResult[];
+  /** The circuit, for port nodes and (when `specs` is not given) the spec definitions. */
+  circuit?: Circuit;
+  /** The file the input came from, shown beside its label. */
+  source?: string;
+}
+
+/** One input of an overlay, prepared: its model, colour and spec results. */
+export interface OverlayPart {
+  /** The label, made unique among the inputs (a second `a.s2p` becomes `a.s2p (2)`). */
+  label: string;
+  color: string;
+  model: ReportModel;
+  specs: SpecResult[];
+  dataset: Dataset;
+}
+
+/** Inputs of an overlay, prepared for the report and the plots. */
+export interface Overlay {
+  parts: OverlayPart[];
+  /** The dash of an entry (`S21`) as an SVG dash array; '' is solid. */
+  dashOf: (entry: string) => string;
+  /** Plain-words notes: inputs with different port counts, entries an input does not have. */
+  notes: string[];
+}
+
+/**
+ * Prepares several inputs for one view: input k gets the k-th colour of the palette (repeating
+ * after {@link PALETTE}.length inputs), each entry a dash of {@link DASHES} in the order the entries
+ * first appear. `entries` asked for that an input does not have (a one-port beside a two-port) are
+ * left out for that input, with a note; inputs with different port counts each show their own
+ * entries, also with a note. Throws RangeError for no inputs or an input without frequency points.
+ */
+export function prepareOverlay(datasets: readonly Dataset[], entries?: readonly (readonly [number, number])[], extraSpecs?: readonly SpecResult[]): Overlay {
+  if (datasets.length === 0) throw new RangeError('there are no inputs to show');
+  const notes: string[] = [];
+  const seen = new Map<string, number>();
+  const dashes = new Map<string, string>();
+  const parts: OverlayPart[] = datasets.map((d, k) => {
+    if (d.network.frequencies.length === 0) throw new RangeError(`${d.label} has no frequency points: there is nothing to show`);
+    let label = d.label;
+    const times = (seen.get(label) ?? 0) + 1;
+    seen.set(d.label, times);
+    if (times > 1) label = `${d.label} (${times})`;
+    const specs = d.specs ?? (d.circuit && d.circuit.specs.length > 0 ? evaluateSpecs(d.circuit.specs, d.network) : k === 0 && extraSpecs ? [...extraSpecs] : []);
+    const n = d.network.ports;
+    let own: [number, number][] | undefined;
+    if (entries) {
+      own = entries.filter(([i, j]) => i >= 1 && j >= 1 && i <= n && j <= n).map(([i, j]) => [i, j] as [number, number]);
+      const left = entries.filter(([i, j]) => !(i >= 1 && j >= 1 && i <= n && j <= n));
+      if (left.length > 0) notes.push(`${label}: ${left.map(([i, j]) => `S${i}${i > 9 || j > 9 ? ',' : ''}${j}`).join(', ')} left out (it has ${n} port${n === 1 ? '' : 's'})`);
+    }
+    const model = buildModel(d.network, specs, own && own.length > 0 ? own : undefined);
+    if (own && own.length === 0) {
+      model.plots = { db: [], phase: [], gd: [] };
+      model.smith = [];
+    }
+    // an entry drawn as `S11 = S22` gives S22 the dash of S11 in every input
+    for (const e of model.entries) {
+      if (dashes.has(e.label)) continue;
+      const dash = DASHES[new Set(dashes.values()).size % DASHES.length]!;
+      for (const name of e.display.split(' = ')) if (!dashes.has(name)) dashes.set(name, dash);
+    }
+    return { label, color: PALETTE[k % PALETTE.length]!, model, specs, dataset: d };
+  });
+  const counts = [...new Set(parts.map((p) => p.model.s.ports))];
+  if (counts.length > 1) {
+    notes.unshift(`the inputs have different port counts (${parts.map((p) => `${p.label}: ${p.model.s.ports}`).join(', ')}): each shows its own entries`);
+  }
+  if (parts.length > PALETTE.length) notes.push(`${parts.length} inputs share ${PALETTE.length} colours: the colours repeat from input ${PALETTE.length + 1} on (the legend and the readout name each input)`);
+  return { parts, dashOf: (entry) => dashes.get(entry) ?? '', notes };
 }

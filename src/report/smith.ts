@@ -72,6 +72,8 @@ export interface SmithTrace {
   /** Legend text. */
   display: string;
   color: string;
+  /** An SVG dash array (several inputs on one chart); none: solid. */
+  dash?: string;
   re: ArrayLike<number>;
   im: ArrayLike<number>;
 }
@@ -202,7 +204,8 @@ export function smithFragment(o: SmithFragmentOptions): string {
       const [x, y] = px(frame, t.re[last]!, t.im[last]!);
       ends.push(`<circle cx="${x}" cy="${y}" r="3.2" fill="${t.color}" stroke="${t.color}" stroke-width="1.5" data-end="stop"/>`);
     }
-    out.push(`<g${attrs}><path d="${d}" fill="none" stroke="${t.color}" stroke-width="1.8" stroke-linejoin="round" stroke-linecap="round"/>${ends.join('')}</g>`);
+    const dash = t.dash ? ` stroke-dasharray="${t.dash}"` : '';
+    out.push(`<g${attrs}><path d="${d}" fill="none" stroke="${t.color}" stroke-width="1.8" stroke-linejoin="round" stroke-linecap="round"${dash}/>${ends.join('')}</g>`);
   }
   return out.join('\n');
 }

@@ -39,6 +39,14 @@
  */
 export const PALETTE: readonly string[] = ['#6c52f1', '#2bbf77', '#841126', '#159ca0', '#ff6e1a', '#208a68', '#1131ad', '#45a3fb'];
 
+/**
+ * Dashes of the entries when several inputs share a plot (an overlay or a family), as SVG dash
+ * arrays in pixels: there the colour tells the input and the dash the entry (the first entry
+ * solid). Our own set: each differs from the others in its rhythm, and none is the spec limit's
+ * even `6 3`.
+ */
+export const DASHES: readonly string[] = ['', '9 4', '2 3', '12 3 2 3', '5 5', '16 4 4 4'];
+
 /** Colours with a meaning of their own. */
 export const COLORS = {
   ink: '#1b2330',

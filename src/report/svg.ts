@@ -10,7 +10,7 @@ import type { SpecResult } from '../check/types.js';
 import type { NetworkData } from '../network/types.js';
 import { OutputError } from '../io/output.js';
 import { coord, dbAxisFloor, delayUnit, entryLabel, escapeXml, fixed, frequencyUnit, modesOf, portReference, referenceList, ticks, type DisplayUnit } from './format.js';
-import { buildModel, COLORS, entryDelay, entrySeries, type PlotKind, type ReportModel } from './model.js';
+import { buildModel, COLORS, entryDelay, entrySeries, prepareOverlay, type Dataset, type PlotFail, type PlotKind, type PlotLimit, type ReportModel, type TraceEntry } from './model.js';
 import { smithFragment } from './smith.js';
 
 /** What {@link renderPlotSvg} draws. */
@@ -33,12 +33,44 @@ const FONT = 'DejaVu Sans, Liberation Sans, Helvetica, Arial, sans-serif';
 
 const Y_TITLES: Record<PlotKind, string> = { db: '|S| (dB)', phase: 'Phase (deg)', gd: 'Group delay' };
 
-/** One plotted series: label, colour and the values on the y axis (display units). */
+/** One plotted series: label, colour (and dash) and its frequencies and values on the y axis (display units). */
 interface Series {
   label: string;
   display: string;
   color: string;
+  dash?: string;
+  f: Float64Array;
   y: Float64Array;
+}
+
+/** Failing intervals of several inputs: an interval where several fail the same spec is shaded once. */
+function sharedFails(fails: readonly PlotFail[]): PlotFail[] {
+  const seen = new Set<string>();
+  return fails.map((fl) => {
+    const intervals = fl.intervals.filter((iv) => {
+      const key = `${fl.spec}\u0000${iv[0]}\u0000${iv[1]}`;
+      if (seen.has(key)) return false;
+      seen.add(key);
+      return true;
+    });
+    return intervals.length === fl.intervals.length ? fl : { ...fl, intervals };
+  });
+}
+
+/**
+ * The limits of several inputs, each drawn once: limits of one spec that lie on the same plot
+ * with the same points (the specs of a family, or of the same netlist twice) are one line, which
+ * passes only where every input passes it.
+ */
+function sharedLimits(limits: readonly PlotLimit[]): PlotLimit[] {
+  const byKey = new Map<string, PlotLimit>();
+  for (const l of limits) {
+    const key = `${l.spec}\u0000${l.plot}\u0000${l.bound}\u0000${JSON.stringify(l.points)}`;
+    const had = byKey.get(key);
+    if (had) had.pass = had.pass && l.pass;
+    else byKey.set(key, { ...l });
+  }
+  return [...byKey.values()];
 }
 
 /**
@@ -50,7 +82,8 @@ interface Series {
  * The root element carries `data-kind`, `data-x-min`/`data-x-max` (Hz) and `data-y-min`/`data-y-max`
  * (in the axis unit, `data-y-unit`; for delay `data-y-scale` seconds per unit).
  */
-export function renderPlotSvg(net: NetworkData, options: PlotSvgOptions): string {
+export function renderPlotSvg(net: NetworkData | readonly Dataset[], options: PlotSvgOptions): string {
+  if (!isNetwork(net)) return overlaySvg(net, options);
   const specs = options.specs ?? [];
   const kind = options.kind;
   if (kind !== 'db' && kind !== 'phase' && kind !== 'gd' && kind !== 'smith') {
@@ -77,8 +110,77 @@ export function renderPlotSvg(net: NetworkData, options: PlotSvgOptions): string
   // entries asked for are drawn one by one (no merging of equal entries), so each is found by its ports
   const model = buildModel(net, specs, options.entries);
   const id = options.idPrefix ?? `sbx-${kind}`;
-  if (kind === 'smith') return smithSvg(model, options, id);
-  return rectSvg(model, kind, options, id);
+  if (kind === 'smith') return smithSvg([{ model, trace: plainTrace }], options, id);
+  return rectSvg([{ model, trace: plainTrace }], kind, options, id);
+}
+
+/** How one input's entries are drawn: its model, and each entry's key, legend text, colour and dash. */
+interface Part {
+  model: ReportModel;
+  trace: (e: TraceEntry) => { key: string; display: string; color: string; dash?: string };
+}
+
+const plainTrace: Part['trace'] = (e) => ({ key: e.label, display: e.display, color: e.color });
+
+function isNetwork(x: NetworkData | readonly Dataset[]): x is NetworkData {
+  return !Array.isArray(x);
+}
+
+/**
+ * Several inputs on one plot (an overlay, or a family): each input's traces in its own colour
+ * (the palette in order), each entry in its own dash (solid, dashed, dotted, …), one legend entry
+ * per input and one per entry. Inputs with different port counts each show their own entries;
+ * `entries` an input does not have are left out for that input (and said so in a note).
+ */
+function overlaySvg(datasets: readonly Dataset[], options: PlotSvgOptions): string {
+  const kind = options.kind;
+  if (kind !== 'db' && kind !== 'phase' && kind !== 'gd' && kind !== 'smith') {
+    throw new OutputError(`unknown plot kind ${JSON.stringify(kind)}`, 'the kinds are db, phase, gd and smith');
+  }
+  if (datasets.some((d) => d.network.frequencies.length === 0)) throw new OutputError(`${datasets.find((d) => d.network.frequencies.length === 0)!.label} has no frequency points: there is nothing to plot`);
+  if (kind === 'smith' && options.entries) {
+    const t = options.entries.find(([i, j]) => i !== j);
+    if (t) throw new OutputError(`a Smith chart shows reflections, and S${t[0]}${t[1]} is a transmission`, `ask for reflections (S11, S22, …), or plot S${t[0]}${t[1]} as db, phase or gd`);
+  }
+  const prepared = prepareOverlay(datasets, options.entries, options.specs);
+  const id = options.idPrefix ?? `sbx-${kind}`;
+  const parts: Part[] = prepared.parts.map((p) => ({
+    model: p.model,
+    trace: (e) => ({ key: `${p.label} · ${e.label}`, display: `${p.label} · ${e.display}`, color: p.color, dash: prepared.dashOf(e.label) }),
+  }));
+  const legend: LegendItem[] = prepared.parts.map((p) => ({ label: p.label, color: p.color, dash: '' }));
+  // the entries on this plot, once each, by their dash
+  const entryKeys: LegendItem[] = [];
+  const seenEntries = new Set<string>();
+  for (const p of prepared.parts) {
+    let shown = kind === 'smith' ? p.model.smith : p.model.plots[kind];
+    if (kind === 'smith' && options.entries) {
+      const want = new Set(options.entries.filter(([i, j]) => i === j).map(([i]) => i));
+      shown = shown.filter((k) => want.has(p.model.entries[k]!.i));
+    }
+    for (const k of shown) {
+      const e = p.model.entries[k]!;
+      if (seenEntries.has(e.label)) continue;
+      for (const name of e.display.split(' = ')) seenEntries.add(name);
+      entryKeys.push({ label: e.display, color: COLORS.ink, dash: prepared.dashOf(e.label) });
+    }
+  }
+  const overlay = { legend, entryKeys, notes: prepared.notes };
+  return kind === 'smith' ? smithSvg(parts, options, id, overlay) : rectSvg(parts, kind, options, id, overlay);
+}
+
+/** A legend line of an overlay: an input (colour) or an entry (dash). */
+interface LegendItem {
+  label: string;
+  color: string;
+  dash: string;
+}
+
+/** The legend of an overlay: the inputs, the entries by dash, and notes shown in the plot. */
+interface OverlayLegend {
+  legend: LegendItem[];
+  entryKeys: LegendItem[];
+  notes: string[];
 }
 
 /** Why a series has nothing to draw, in words. */
@@ -88,23 +190,35 @@ function emptyReason(kind: PlotKind, points: number): string {
   return 'no finite value at any point';
 }
 
-function rectSvg(model: ReportModel, kind: PlotKind, options: PlotSvgOptions, id: string): string {
+function rectSvg(parts: Part[], kind: PlotKind, options: PlotSvgOptions, id: string, overlay?: OverlayLegend): string {
   const width = options.width ?? 760;
   const height = options.height ?? 420;
-  const f = model.s.frequencies;
-  const m = f.length;
+  // the x axis spans every input's sweep
+  let fLo = Infinity;
+  let fHi = -Infinity;
+  let m = 0;
+  for (const p of parts) {
+    const pf = p.model.s.frequencies;
+    fLo = Math.min(fLo, pf[0]!);
+    fHi = Math.max(fHi, pf[pf.length - 1]!);
+    m = Math.max(m, pf.length);
+  }
 
   // series in display units
   const series: Series[] = [];
   let yUnit: DisplayUnit = { scale: 1, unit: kind === 'db' ? 'dB' : 'deg' };
-  const raw: { label: string; display: string; color: string; y: Float64Array }[] = [];
-  for (const k of model.plots[kind]) {
-    const e = model.entries[k]!;
-    const y = kind === 'gd' ? entryDelay(model.s, e.i, e.j) : kind === 'db' ? entrySeries(model.s, e.i, e.j).db : entrySeries(model.s, e.i, e.j).deg;
-    raw.push({ label: e.label, display: e.display, color: e.color, y });
+  const raw: { label: string; display: string; color: string; dash?: string; f: Float64Array; y: Float64Array }[] = [];
+  for (const p of parts) {
+    const model = p.model;
+    for (const k of model.plots[kind]) {
+      const e = model.entries[k]!;
+      const y = kind === 'gd' ? entryDelay(model.s, e.i, e.j) : kind === 'db' ? entrySeries(model.s, e.i, e.j).db : entrySeries(model.s, e.i, e.j).deg;
+      const t = p.trace(e);
+      raw.push({ label: t.key, display: t.display, color: t.color, dash: t.dash, f: model.s.frequencies, y });
+    }
   }
-  const limits = model.limits.filter((l) => l.plot === kind);
-  const fails = model.fails.filter((l) => l.plot === kind);
+  const limits = sharedLimits(parts.flatMap((p) => p.model.limits.filter((l) => l.plot === kind)));
+  const fails = sharedFails(parts.flatMap((p) => p.model.fails.filter((l) => l.plot === kind)));
   if (kind === 'gd') {
     let big = 0;
     for (const r of raw) for (const v of r.y) if (Number.isFinite(v)) big = Math.max(big, Math.abs(v));
@@ -113,14 +227,14 @@ function rectSvg(model: ReportModel, kind: PlotKind, options: PlotSvgOptions, id
   for (const r of raw) {
     const y = new Float64Array(r.y.length);
     for (let q = 0; q < y.length; q++) y[q] = r.y[q]! / yUnit.scale;
-    series.push({ label: r.label, display: r.display, color: r.color, y });
+    series.push({ label: r.label, display: r.display, color: r.color, dash: r.dash, f: r.f, y });
   }
 
   // a series with nothing to draw is named in the plot; a plot with nothing at all is an error
   const empty = series.filter((s) => !s.y.some((v) => Number.isFinite(v)));
   if (series.length > 0 && empty.length === series.length) {
     const names = series.map((s) => s.display).join(', ');
-    throw new OutputError(`nothing to plot: ${names} ${series.length === 1 ? 'has' : 'have'} no value to draw (${emptyReason(kind, m)})`);
+    throw new OutputError(`nothing to plot: ${names} ${series.length === 1 ? 'has' : 'have'} no value to draw (${emptyReason(kind, Math.max(...series.map((q) => q.f.length)))})`);
   }
 
   // y range: data and limits; a dB axis reaches at most DB_AXIS_SPAN below the largest value shown,
@@ -132,17 +246,19 @@ function rectSvg(model: ReportModel, kind: PlotKind, options: PlotSvgOptions, id
   if (kind === 'db' && Number.isFinite(hi)) lo = Math.max(lo, dbAxisFloor(hi));
   for (const l of limits) for (const [, v] of l.points) lo = Math.min(lo, v / yUnit.scale);
   const yt = kind === 'phase' ? { min: -180, max: 180, step: 90, values: [-180, -90, 0, 90, 180], decimals: 0 } : ticks(lo, hi, 6, true);
-  const xUnit = frequencyUnit(f[m - 1]!);
-  const xt = ticks(f[0]! / xUnit.scale, f[m - 1]! / xUnit.scale, 8, false);
+  const xUnit = frequencyUnit(fHi);
+  const xt = ticks(fLo / xUnit.scale, fHi / xUnit.scale, 8, false);
 
   // layout
-  const legendItems = [...series.map((s) => ({ label: s.display, color: s.color, kind: 'line' as const }))];
+  const legendItems: { label: string; color: string; kind: 'line'; dash?: string }[] = overlay
+    ? [...overlay.legend.map((it) => ({ label: it.label, color: it.color, kind: 'line' as const })), ...overlay.entryKeys.map((it) => ({ label: it.label, color: it.color, kind: 'line' as const, dash: it.dash }))]
+    : [...series.map((s) => ({ label: s.display, color: s.color, kind: 'line' as const }))];
   if (limits.length > 0) legendItems.push({ label: 'spec limit', color: COLORS.limit, kind: 'line' });
   if (fails.length > 0) legendItems.push({ label: 'failing', color: COLORS.fail, kind: 'line' });
   const left = 66;
   const right = 18;
   const titleH = options.title ? 24 : 0;
-  const itemW = 96;
+  const itemW = overlay ? Math.max(96, Math.ceil(30 + 6.6 * Math.max(...legendItems.map((it) => it.label.length)))) : 96;
   const perRow = Math.max(1, Math.floor((width - left - right) / itemW));
   const rows = Math.ceil(legendItems.length / perRow);
   const top = 14 + titleH + rows * 18;
@@ -156,7 +272,7 @@ function rectSvg(model: ReportModel, kind: PlotKind, options: PlotSvgOptions, id
   const out: string[] = [];
   const yAttr = kind === 'gd' ? ` data-y-unit="${yUnit.unit}" data-y-scale="${yUnit.scale}"` : ` data-y-unit="${yUnit.unit}"`;
   out.push(
-    `<svg xmlns="http://www.w3.org/2000/svg" width="${width}" height="${height}" viewBox="0 0 ${width} ${height}" font-family="${FONT}" data-kind="${kind}" data-x-min="${f[0]}" data-x-max="${f[m - 1]}" data-y-min="${yt.min}" data-y-max="${yt.max}"${yAttr}>`,
+    `<svg xmlns="http://www.w3.org/2000/svg" width="${width}" height="${height}" viewBox="0 0 ${width} ${height}" font-family="${FONT}" data-kind="${kind}" data-x-min="${fLo}" data-x-max="${fHi}" data-y-min="${yt.min}" data-y-max="${yt.max}"${yAttr}${overlay ? ` data-inputs="${parts.length}"` : ''}>`,
   );
   out.push(`<rect width="${width}" height="${height}" fill="#ffffff"/>`);
   if (options.title) out.push(`<text x="${left}" y="18" font-size="14" font-weight="600" fill="${COLORS.ink}">${escapeXml(options.title)}</text>`);
@@ -167,10 +283,11 @@ function rectSvg(model: ReportModel, kind: PlotKind, options: PlotSvgOptions, id
     if (it.label === 'failing') {
       out.push(`<rect x="${x}" y="${y - 5}" width="18" height="10" fill="${COLORS.failShade}" stroke="${COLORS.fail}" stroke-width="0.8"/>`);
     } else {
-      const dash = it.label === 'spec limit' ? ' stroke-dasharray="5 3"' : '';
+      const dash = it.label === 'spec limit' && q >= legendItems.length - 2 ? ' stroke-dasharray="5 3"' : it.dash ? ` stroke-dasharray="${it.dash}"` : '';
       out.push(`<line x1="${x}" y1="${y}" x2="${x + 18}" y2="${y}" stroke="${it.color}" stroke-width="2.2"${dash}/>`);
     }
-    out.push(`<text x="${x + 24}" y="${y + 4}" font-size="11.5" fill="${COLORS.ink}">${escapeXml(it.label)}</text>`);
+    const part = overlay ? (q < overlay.legend.length ? ' data-legend="input"' : q < overlay.legend.length + overlay.entryKeys.length ? ' data-legend="entry"' : '') : '';
+    out.push(`<text x="${x + 24}" y="${y + 4}" font-size="11.5" fill="${COLORS.ink}"${part}>${escapeXml(it.label)}</text>`);
   });
   // frame, grid, ticks
   out.push(`<rect x="${left}" y="${top}" width="${pw}" height="${ph}" fill="#fcfcfd" stroke="${COLORS.gridStrong}"/>`);
@@ -203,8 +320,9 @@ function rectSvg(model: ReportModel, kind: PlotKind, options: PlotSvgOptions, id
   }
   // data; a sweep of one point is a dot (a path of one point draws nothing)
   for (const s of series) {
-    body.push(`<path d="${linePath(f, s.y, X, Y, pw, kind === 'phase')}" fill="none" stroke="${s.color}" stroke-width="1.7" stroke-linejoin="round" data-entry="${escapeXml(s.label)}"/>`);
-    if (m === 1 && Number.isFinite(s.y[0]!)) body.push(`<circle cx="${coord(X(f[0]!))}" cy="${coord(Y(s.y[0]!))}" r="3.5" fill="${s.color}" data-point="${escapeXml(s.label)}"/>`);
+    const dash = s.dash ? ` stroke-dasharray="${s.dash}"` : '';
+    body.push(`<path d="${linePath(s.f, s.y, X, Y, pw, kind === 'phase')}" fill="none" stroke="${s.color}" stroke-width="1.7" stroke-linejoin="round"${dash} data-entry="${escapeXml(s.label)}"/>`);
+    if (s.f.length === 1 && Number.isFinite(s.y[0]!)) body.push(`<circle cx="${coord(X(s.f[0]!))}" cy="${coord(Y(s.y[0]!))}" r="3.5" fill="${s.color}" data-point="${escapeXml(s.label)}"/>`);
   }
   // limits on top
   for (const l of limits) {
@@ -256,8 +374,9 @@ function rectSvg(model: ReportModel, kind: PlotKind, options: PlotSvgOptions, id
     if (spot) names.push(`<text x="${coord(spot[0])}" y="${coord(spot[1])}" fill="${l.pass ? COLORS.limit : COLORS.fail}">${escapeXml(l.spec)}</text>`);
   }
   if (names.length > 0) out.push(`<g font-size="10" data-part="limit-names">${names.join('')}</g>`);
-  if (empty.length > 0) {
-    const notes = empty.map((s, q) => `<text x="${left + 8}" y="${coord(top + 16 + 14 * q)}" data-empty="${escapeXml(s.label)}">${escapeXml(`${s.display}: not drawn, ${emptyReason(kind, m)}`)}</text>`);
+  if (empty.length > 0 || (overlay && overlay.notes.length > 0)) {
+    const notes = empty.map((s, q) => `<text x="${left + 8}" y="${coord(top + 16 + 14 * q)}" data-empty="${escapeXml(s.label)}">${escapeXml(`${s.display}: not drawn, ${emptyReason(kind, s.f.length)}`)}</text>`);
+    for (const note of overlay?.notes ?? []) notes.push(`<text x="${left + 8}" y="${coord(top + 16 + 14 * notes.length)}" data-note="overlay">${escapeXml(`note: ${note}`)}</text>`);
     out.push(`<g font-size="11" fill="${COLORS.muted}" data-part="notes">${notes.join('')}</g>`);
   }
   out.push('</svg>');
@@ -336,35 +455,46 @@ function linePath(f: Float64Array, y: Float64Array, X: (hz: number) => number, Y
   return parts.join('');
 }
 
-function smithSvg(model: ReportModel, options: PlotSvgOptions, id: string): string {
+function smithSvg(parts: Part[], options: PlotSvgOptions, id: string, overlay?: OverlayLegend): string {
   const width = options.width ?? 560;
   const height = options.height ?? 460;
   const titleH = options.title ? 24 : 0;
-  const legendW = 130;
+  const longest = overlay ? Math.max(...[...overlay.legend, ...overlay.entryKeys].map((it) => it.label.length)) : 0;
+  const legendW = overlay ? Math.min(Math.max(130, Math.ceil(34 + 6.6 * longest)), Math.floor(width / 2)) : 130;
   const pad = 30;
   const diameter = Math.min(width - legendW - 2 * pad, height - titleH - 2 * pad);
   if (diameter < 60) throw new OutputError(`a Smith chart of ${width} × ${height} pixels leaves no room for the chart`, 'make it larger (at least about 250 × 150)');
   const frame = { cx: pad + diameter / 2, cy: titleH + pad + diameter / 2, radius: diameter / 2 };
-  let picks = model.smith;
-  if (options.entries) {
-    const want = new Set(options.entries.filter(([i, j]) => i === j).map(([i]) => i));
-    picks = picks.filter((k) => want.has(model.entries[k]!.i));
-  }
-  const traces = picks.map((k) => {
-    const e = model.entries[k]!;
-    const s = entrySeries(model.s, e.i, e.j);
-    return { label: e.label, display: e.display, color: e.color, re: s.re, im: s.im };
+  const traces = parts.flatMap((p) => {
+    const model = p.model;
+    let picks = model.smith;
+    if (options.entries) {
+      const want = new Set(options.entries.filter(([i, j]) => i === j).map(([i]) => i));
+      picks = picks.filter((k) => want.has(model.entries[k]!.i));
+    }
+    return picks.map((k) => {
+      const e = model.entries[k]!;
+      const s = entrySeries(model.s, e.i, e.j);
+      const t = p.trace(e);
+      return { label: t.key, display: t.display, color: t.color, dash: t.dash, re: s.re, im: s.im };
+    });
   });
+  const model = parts[0]!.model;
   const out: string[] = [];
-  out.push(`<svg xmlns="http://www.w3.org/2000/svg" width="${width}" height="${height}" viewBox="0 0 ${width} ${height}" font-family="${FONT}" data-kind="smith" data-id="${escapeXml(id)}">`);
+  out.push(`<svg xmlns="http://www.w3.org/2000/svg" width="${width}" height="${height}" viewBox="0 0 ${width} ${height}" font-family="${FONT}" data-kind="smith" data-id="${escapeXml(id)}"${overlay ? ` data-inputs="${parts.length}"` : ''}>`);
   out.push(`<rect width="${width}" height="${height}" fill="#ffffff"/>`);
   if (options.title) out.push(`<text x="${pad}" y="18" font-size="14" font-weight="600" fill="${COLORS.ink}">${escapeXml(options.title)}</text>`);
   out.push(smithFragment({ frame, traces, admittance: 'none', fontSize: 10 }));
   const lx = width - legendW + 6;
   let ly = titleH + pad + 6;
   const leg: string[] = [];
-  for (const t of traces) {
-    leg.push(`<line x1="${lx}" y1="${ly}" x2="${lx + 18}" y2="${ly}" stroke="${t.color}" stroke-width="2.2"/><text x="${lx + 24}" y="${ly + 4}">${escapeXml(t.display)}</text>`);
+  const items = overlay
+    ? [...overlay.legend.map((it) => ({ ...it, part: 'input' })), ...overlay.entryKeys.map((it) => ({ ...it, part: 'entry' }))]
+    : traces.map((t) => ({ label: t.display, color: t.color, dash: '', part: '' }));
+  for (const t of items) {
+    const dash = t.dash ? ` stroke-dasharray="${t.dash}"` : '';
+    const part = t.part ? ` data-legend="${t.part}"` : '';
+    leg.push(`<line x1="${lx}" y1="${ly}" x2="${lx + 18}" y2="${ly}" stroke="${t.color}" stroke-width="2.2"${dash}/><text x="${lx + 24}" y="${ly + 4}"${part}>${escapeXml(t.label)}</text>`);
     ly += 18;
   }
   ly += 8;
@@ -372,11 +502,12 @@ function smithSvg(model: ReportModel, options: PlotSvgOptions, id: string): stri
   ly += 18;
   leg.push(`<circle cx="${lx + 9}" cy="${ly}" r="3.2" fill="${COLORS.muted}"/><text x="${lx + 24}" y="${ly + 4}">last point</text>`);
   ly += 24;
-  const f = model.s.frequencies;
-  if (f.length > 0) {
-    const u = frequencyUnit(f[f.length - 1]!);
-    const lo = Number((f[0]! / u.scale).toPrecision(6));
-    const hi = Number((f[f.length - 1]! / u.scale).toPrecision(6));
+  const fLo = Math.min(...parts.map((p) => p.model.s.frequencies[0] ?? Infinity));
+  const fHi = Math.max(...parts.map((p) => p.model.s.frequencies[p.model.s.frequencies.length - 1] ?? -Infinity));
+  if (Number.isFinite(fLo) && Number.isFinite(fHi)) {
+    const u = frequencyUnit(fHi);
+    const lo = Number((fLo / u.scale).toPrecision(6));
+    const hi = Number((fHi / u.scale).toPrecision(6));
     leg.push(`<text x="${lx}" y="${ly}" fill="${COLORS.muted}">${lo}–${hi} ${u.unit}</text>`);
     ly += 16;
   }
@@ -386,6 +517,12 @@ function smithSvg(model: ReportModel, options: PlotSvgOptions, id: string): stri
   refLines.forEach((line, q) => {
     leg.push(`<text x="${lx}" y="${ly + 16 * q}" fill="${COLORS.muted}" data-part="reference">${escapeXml(line)}</text>`);
   });
+  if (overlay) {
+    ly += 16 * refLines.length + 8;
+    const sameRefs = parts.every((p) => referenceList(p.model.s).join() === referenceList(model.s).join());
+    const notes = [...(sameRefs ? [] : ['the inputs have different references: each is drawn against its own']), ...overlay.notes];
+    notes.forEach((note, q) => leg.push(`<text x="${lx}" y="${ly + 14 * q}" fill="${COLORS.muted}" font-size="10" data-note="overlay">${escapeXml(`note: ${note}`)}</text>`));
+  }
   out.push(`<g font-size="11.5" fill="${COLORS.ink}" data-part="legend">${leg.join('')}</g>`);
   out.push('</svg>');
   return out.join('\n') + '\n';
