@@ -35,7 +35,7 @@ export function runSensitivity(a: SensitivityArgs, io: Io, describeError: (e: un
   try {
     if (a.json) checkOutputs([a.json], [a.netlist]);
     const model = DesignModel.load(a.netlist, { set: a.set, sweep: a.sweep, strict: a.strict });
-    if (!a.quiet && model.circuit.warnings.length > 0) io.err(formatDiagnostics(model.circuit.warnings, model.sources) + '\n');
+    if (!a.quiet && model.warnings.length > 0) io.err(formatDiagnostics(model.warnings, model.sources) + '\n');
     if (model.variables.length === 0) io.err(`note: ${a.netlist} declares no design variables: write \`let name = value vary LOW to HIGH\` for the values to study\n`);
     if (model.circuit.specs.length === 0) io.err(`note: ${a.netlist} has no specs: there is no margin to study\n`);
     const g = model.marginGradient();

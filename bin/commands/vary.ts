@@ -13,6 +13,7 @@ import type { Argv } from 'yargs';
 import { formatMargin } from '../../src/check/format.js';
 import { formatSpecTable } from '../../src/check/report.js';
 import { DesignModel } from '../../src/design/model.js';
+import { formatDiagnostics } from '../../src/diagnostics/diagnostic.js';
 import { evaluateFamily, familyMembers, formatValue, parseOver, FamilyMemberError, type FamilyMember, type MemberResult, type OverAxis } from '../../src/design/family.js';
 import { writeFileAtomicSync } from '../../src/io/atomic.js';
 import { familyCsvChunks, formatFamilyJson, type FamilyVariable } from '../../src/io/family.js';
@@ -43,7 +44,7 @@ export function varyBuilder(y: Argv) {
   return y
     .option('set', { type: 'string', array: true, describe: 'override a parameter: name=value, with units (repeatable); a varied variable takes the --over values' })
     .option('sweep', { type: 'string', describe: 'replace the netlist sweep: segments as after `sweep`, joined by `;`' })
-    .option('quiet', { alias: 'q', type: 'boolean', default: false, describe: 'no progress bar' })
+    .option('quiet', { alias: 'q', type: 'boolean', default: false, describe: 'no warnings, no progress bar' })
     .option('strict', { type: 'boolean', default: false, describe: 'treat every warning of the netlist as an error (exit 1), e.g. in CI' })
     .positional('netlist', { type: 'string', describe: 'netlist file (.sbx) with design variables (let NAME = VALUE vary LOW to HIGH)', demandOption: true })
     .option('over', {
@@ -79,6 +80,7 @@ export async function runVary(a: VaryArgs, io: Io): Promise<number> {
       if (option === '--plot' && ext !== '.svg' && ext !== '.png') throw new OutputError(`--plot is written as .svg or .png, not ${ext || 'a file without extension'}`);
     }
     const model = DesignModel.load(a.netlist, { set: a.set, sweep: a.sweep, strict: a.strict });
+    if (!a.quiet && model.warnings.length > 0) io.err(formatDiagnostics(model.warnings, model.sources) + '\n');
     const texts = overs.map((text, q) => ({ what: overs.length === 1 ? '--over' : `--over (${q === 0 ? 'first' : 'second'})`, text }));
     const axes: OverAxis[] = texts.map((t) => parseOver(t.text, model.variables, t.what));
     const members = familyMembers(axes, texts);

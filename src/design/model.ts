@@ -16,9 +16,11 @@ import { loadNetlist, type LoadOptions } from '../load.js';
 import type { Circuit, Variable } from '../elaborate/circuit.js';
 import type { NetworkData } from '../network/types.js';
 import type { SpecResult } from '../check/types.js';
+import type { Diagnostic } from '../diagnostics/diagnostic.js';
 import { evaluateSpecs } from '../check/evaluate.js';
 import { solveSweep, SweepRunner, type SolverChoice } from '../solve/sweep.js';
-import { ParameterGraph } from '../params/graph.js';
+import { ElementValueError, ParameterGraph } from '../params/graph.js';
+import { InputError } from '../diagnostics/diagnostic.js';
 import { stampDifferences, sweepDerivatives } from './sensitivity.js';
 import { parseFigure } from '../figures/registry.js';
 import { buildPlan, PatternChangedError, restampElements, type StampPlan } from '../plan/plan.js';
@@ -51,6 +53,8 @@ export class DesignModel {
   readonly variables: readonly Variable[];
   /** Source texts by file name, for formatting diagnostics. */
   readonly sources: Map<string, string>;
+  /** The warnings of loading the netlist (errors throw InputError instead). */
+  readonly warnings: Diagnostic[];
   private readonly current: Float64Array;
   private readonly nominal: Float64Array;
   /**
@@ -65,7 +69,8 @@ export class DesignModel {
     private readonly file: string,
     private readonly options: DesignOptions,
   ) {
-    const { circuit, sources } = loadNetlist(text, file, options);
+    const { circuit, sources, warnings } = loadNetlist(text, file, options);
+    this.warnings = warnings;
     this.circuit = circuit;
     this.variables = circuit.variables;
     this.sources = sources;
@@ -90,7 +95,15 @@ export class DesignModel {
   /** Brings the plan to the current values (only the elements that depend on changed variables). */
   private update(fast: FastPath): void {
     if (sameValues(fast.applied, this.current)) return;
-    const changed = fast.graph.apply(fast.working, this.current, fast.applied, this.circuit.frequencies);
+    let changed: number[];
+    try {
+      changed = fast.graph.apply(fast.working, this.current, fast.applied, this.circuit.frequencies);
+    } catch (e) {
+      // the working circuit holds some of the new numbers: every number is computed again next time
+      fast.applied.fill(NaN);
+      if (!(e instanceof ElementValueError)) throw e;
+      throw new InputError([{ severity: 'error', code: 'bad-value', message: e.message, span: e.span, help: `with the design variables at ${this.setOptions().map((o) => o.replace('=', ' = ')).join(', ')}` }], this.sources);
+    }
     fast.applied.set(this.current);
     try {
       restampElements(fast.plan, fast.working, changed);

@@ -91,8 +91,14 @@ export class ParameterGraph {
       changed.add(binding.element);
     }
     const out = [...changed].sort((a, b) => a - b);
-    if (frequencies) for (const e of out) checkElement(circuit.elements[e]!, frequencies);
+    if (frequencies) for (const e of out) checkElement(circuit.elements[e]!, frequencies, (key) => this.spanOf(e, key));
     return out;
+  }
+
+  /** Where the number `key` of element e comes from: its expression, when it follows the variables. */
+  private spanOf(e: number, key: string | undefined): SourceSpan | undefined {
+    if (key === undefined) return undefined;
+    return this.bindings.find((b) => b.element === e && b.key === key)?.span;
   }
 
   /** The elements whose numbers depend on variable v (ascending indices into Circuit.elements). */
@@ -116,20 +122,24 @@ function signOk(p: PropertySpec, v: number): boolean {
 
 const SIGN_WORDS = { positive: 'above zero', nonnegative: 'zero or more', nonzero: 'other than zero' } as const;
 
-/** The checks elaboration makes of an element's numbers, for numbers that followed new variable values. */
-function checkElement(el: ElementInstance, frequencies: Float64Array): void {
+/**
+ * The checks elaboration makes of an element's numbers, for numbers that followed new variable
+ * values, with elaboration's messages, located at the expression the number comes from (else at
+ * the element).
+ */
+function checkElement(el: ElementInstance, frequencies: Float64Array, spanOf: (key: string | undefined) => SourceSpan | undefined): void {
   const type = ELEMENTS.get(el.type)!;
-  const fail = (message: string) => {
-    throw new ElementValueError(`\`${el.name}\`: ${message}`, el.name, el.span);
+  const fail = (message: string, key?: string) => {
+    throw new ElementValueError(message, el.name, spanOf(key) ?? el.span);
   };
   for (const p of type.properties) {
     const v = el.props[p.key];
     if (v === undefined) continue;
-    if (!Number.isFinite(v)) fail(`\`${p.key}\` is not a finite number (${v})`);
-    if (!signOk(p, v)) fail(`\`${p.key}\` must be ${SIGN_WORDS[p.sign!]}, not ${v}`);
+    if (!Number.isFinite(v)) fail(`\`${p.key}\` is not finite`, p.key);
+    if (!signOk(p, v)) fail(`\`${p.key}\` must be ${SIGN_WORDS[p.sign!]}`, p.key);
     const at = el.at[p.key];
-    if (at !== undefined && !(Number.isFinite(at) && at >= 0)) fail(`the frequency after \`at\` of \`${p.key}\` must be a finite frequency of 0 Hz or more, not ${at}`);
+    if (at !== undefined && !(Number.isFinite(at) && at >= 0)) fail('the frequency after `at` must be a finite frequency of 0 Hz or more', p.key);
   }
-  type.validate?.(el, (message) => fail(message));
-  if (frequencies.length > 0) type.checkSweep?.(el, frequencies, (message) => fail(message));
+  type.validate?.(el, (message, key) => fail(message, key));
+  if (frequencies.length > 0) type.checkSweep?.(el, frequencies, (message) => fail(`\`${el.name}\`: ${message}`));
 }
