@@ -80,3 +80,5 @@ export { microstripStatic, microstripDispersive, microstripWidth, microstripAt }
 export { renderReport, renderPlotSvg, type ReportInput, type PlotSvgOptions } from './report/index.js';
 export { solveSweepParallel, closeSweepPool, type ParallelOptions } from './solve/parallel.js';
 export { DesignModel, VariableError, setText, type DesignOptions, type MarginGradient, type NetworkDerivatives } from './design/model.js';
+export { fit, parseMargins, specScale, penaltyOf, mulberry32, toUnit, fromUnit, isLogScale, neighbours, HINGE, EXHAUSTIVE_SNAP, type FitOptions, type FitResult, type FitMethod, type FitProgress, type FitStop } from './design/fit.js';
+export { editVariableValues, valueText, valueRange, WriteBackError } from './design/write-back.js';
