@@ -25,6 +25,7 @@ import { formatFrequency } from '../src/check/format.js';
 import { renderPlotSvg, renderReport } from '../src/report/index.js';
 import { formatFromPath } from '../src/io/output.js';
 import { FigureError, parseFigure } from '../src/figures/registry.js';
+import { fitBuilder, runFit, type FitArgs } from './commands/fit.js';
 import {
   convertNetwork,
   ConversionError,
@@ -197,6 +198,14 @@ export async function main(argv: string[], io: Io = defaultIo): Promise<number> 
           .example('$0 report measured.s2p -o measured.html --at "915 MHz"', 'report of a data file'),
       async (args) => {
         code = await runReport(args as unknown as ReportArgs, io);
+      },
+    )
+    .command(
+      'fit <netlist>',
+      'move the design variables within their ranges until every spec passes, then snap them to their series',
+      (y: Argv) => fitBuilder(solveOptions(y)),
+      async (args) => {
+        code = await runFit(args as unknown as FitArgs, io);
       },
     )
     .command(
@@ -696,7 +705,7 @@ function runDiff(a: DiffArgs, io: Io): number {
 }
 
 /** The message of an error as printed; `file`: the netlist it belongs to, named in a batch. */
-function describeError(e: unknown, quiet: boolean, file?: string): string {
+export function describeError(e: unknown, quiet: boolean, file?: string): string {
   if (e instanceof InputError) {
     const shown = quiet ? e.diagnostics.filter((d) => d.severity === 'error') : e.diagnostics;
     const errors = e.diagnostics.filter((d) => d.severity === 'error').length;
