@@ -15,7 +15,8 @@
  * margin T_s and a scale σ_s (see {@link specScale}: 1 dB for dB specs), the violation in scale
  * units is t_s = (T_s − m_s)/σ_s + 2δ (δ = {@link HINGE}: the fit aims a little beyond the target,
  * so that it meets the target in finitely many steps), and the penalty is P = Σ_s h(t_s)², with h
- * the smoothed hinge h(t) = 0 for t ≤ 0, t²/(2δ) for 0 < t < δ, t − δ/2 for t ≥ δ. P is zero where
+ * the smoothed hinge h(t) = 0 for t ≤ 0, t²/(2δ) for 0 < t < δ, t − δ/2 for δ ≤ t ≤ C, and
+ * C − δ/2 + C·ln(t/C) beyond C = {@link COMPRESS} (a far-off spec weighs less than its square). P is zero where
  * every spec has its margin with room to spare, and P is continuously differentiable (h is C¹).
  *
  * **The gradient method** is a Levenberg–Marquardt iteration on the residuals h(t_s) (the
@@ -186,25 +187,60 @@ function unitSlope(v: Variable, x: number): number {
   return isLogScale(v) ? x * Math.log(v.upper / v.lower) : v.upper - v.lower;
 }
 
-/** The smoothed hinge h(t) and its slope. */
+/** Violations beyond this many scale units grow logarithmically in the residual (a robust loss: one spec far off does not drown the others). */
+export const COMPRESS = 10;
+
+/** The smoothed hinge h(t) and its slope (continuously differentiable). */
 function hinge(t: number): [number, number] {
   if (t <= 0) return [0, 0];
   if (t < HINGE) return [(t * t) / (2 * HINGE), t / HINGE];
-  return [t - HINGE / 2, 1];
+  if (t <= COMPRESS) return [t - HINGE / 2, 1];
+  return [COMPRESS - HINGE / 2 + COMPRESS * Math.log(t / COMPRESS), COMPRESS / t];
 }
 
-/** The violation of spec s in scale units (t_s above), capped. */
-function violation(r: SpecResult, target: number, scale: number): number {
-  if (r.points === 0) return -Infinity; // nothing the variables can change
-  const t = (target - r.worstMargin) / scale + 2 * HINGE;
-  return Number.isNaN(t) ? MAX_VIOLATION : Math.min(MAX_VIOLATION, Math.max(-MAX_VIOLATION, t));
+/** Relative change of a plain-number or resistance figure that weighs as 1 dB (see {@link violation}). */
+const LOG_SCALE = 0.02;
+
+/**
+ * The violation of a spec in scale units (t_s of the module notes) and its slope dt/dm with
+ * respect to the worst margin m. Linear, (T − m)/σ, except where the figure's own scale is not
+ * linear: a VSWR limit counts in return loss (dB), RL(V) = −20·log10((V − 1)/(V + 1)) (common
+ * practice: the two describe the same reflection), so a VSWR of 50 weighs about as much as a
+ * return loss 20 dB short; another plain-number or resistance figure counts in ratio,
+ * ln(value/limit)/0.02 (2 % weighs as 1 dB). Capped at MAX_VIOLATION.
+ */
+function violation(r: SpecResult, target: number, scale: number): [t: number, slope: number] {
+  if (r.points === 0) return [-Infinity, 0]; // nothing the variables can change
+  const m = r.worstMargin;
+  const spec = r.spec;
+  const v = r.worstValue;
+  let t: number;
+  let slope: number;
+  const lim = spec.bound === 'max' ? r.worstLimit - target : r.worstLimit + target;
+  if ((spec.unit === '' || spec.unit === 'ohm') && Number.isFinite(m) && Number.isFinite(v) && lim > 0 && v > 0) {
+    if (spec.bound === 'max' && /^vswr\b/i.test(spec.figure) && lim > 1) {
+      const rl = (x: number) => -20 * Math.log10((x - 1) / (x + 1));
+      if (v <= 1) return [-MAX_VIOLATION, 0];
+      t = rl(lim) - rl(v) + 2 * HINGE;
+      slope = -40 / Math.LN10 / (v * v - 1); // dRL/dV, and dV/dm = −1
+    } else {
+      t = (spec.bound === 'max' ? Math.log(v / lim) : Math.log(lim / v)) / LOG_SCALE + 2 * HINGE;
+      slope = -1 / (v * LOG_SCALE);
+    }
+  } else {
+    t = (target - m) / scale + 2 * HINGE;
+    slope = -1 / scale;
+  }
+  if (Number.isNaN(t) || t > MAX_VIOLATION) return [MAX_VIOLATION, 0];
+  if (t < -MAX_VIOLATION) return [-MAX_VIOLATION, 0];
+  return [t, slope];
 }
 
 /** The penalty of a set of spec results (see the module notes). */
 export function penaltyOf(results: readonly SpecResult[], targets: ArrayLike<number>, scales: ArrayLike<number>): number {
   let p = 0;
   results.forEach((r, s) => {
-    const h = hinge(violation(r, targets[s]!, scales[s]!))[0];
+    const h = hinge(violation(r, targets[s]!, scales[s]!)[0])[0];
     p += h * h;
   });
   return p;
@@ -314,14 +350,14 @@ class Evaluator {
     const r = new Float64Array(ns);
     const J = new Float64Array(ns * nf);
     for (let s = 0; s < ns; s++) {
-      const t = violation(results[s]!, this.targets[s]!, this.scales[s]!);
+      const [t, slope] = violation(results[s]!, this.targets[s]!, this.scales[s]!);
       const [h, dh] = hinge(t);
       r[s] = h;
       if (dh === 0 || !Number.isFinite(results[s]!.worstMargin)) continue;
       for (let k = 0; k < nf; k++) {
         const i = this.free[k]!;
         const g = gradient[s * this.nv + i]!;
-        J[s * nf + k] = Number.isFinite(g) ? (-dh * g * unitSlope(this.model.variables[i]!, x[i]!)) / this.scales[s]! : 0;
+        J[s * nf + k] = Number.isFinite(g) ? dh * slope * g * unitSlope(this.model.variables[i]!, x[i]!) : 0;
       }
     }
     return { results, r, J };
