@@ -206,8 +206,8 @@ const LOG_SCALE = 0.02;
  * respect to the worst margin m. Linear, (T − m)/σ, except where the figure's own scale is not
  * linear: a VSWR limit counts in return loss (dB), RL(V) = −20·log10((V − 1)/(V + 1)) (common
  * practice: the two describe the same reflection), so a VSWR of 50 weighs about as much as a
- * return loss 20 dB short; another plain-number or resistance figure counts in ratio,
- * ln(value/limit)/0.02 (2 % weighs as 1 dB). Capped at MAX_VIOLATION.
+ * return loss 20 dB short; another plain-number figure (K, μ…) whose value and limit are
+ * positive counts in ratio, ln(value/limit)/0.02 (2 % weighs as 1 dB). Capped at MAX_VIOLATION.
  */
 function violation(r: SpecResult, target: number, scale: number): [t: number, slope: number] {
   if (r.points === 0) return [-Infinity, 0]; // nothing the variables can change
@@ -217,7 +217,7 @@ function violation(r: SpecResult, target: number, scale: number): [t: number, sl
   let t: number;
   let slope: number;
   const lim = spec.bound === 'max' ? r.worstLimit - target : r.worstLimit + target;
-  if ((spec.unit === '' || spec.unit === 'ohm') && Number.isFinite(m) && Number.isFinite(v) && lim > 0 && v > 0) {
+  if (spec.unit === '' && Number.isFinite(m) && Number.isFinite(v) && lim > 0 && v > 0) {
     if (spec.bound === 'max' && /^vswr\b/i.test(spec.figure) && lim > 1) {
       const rl = (x: number) => -20 * Math.log10((x - 1) / (x + 1));
       if (v <= 1) return [-MAX_VIOLATION, 0];
