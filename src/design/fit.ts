@@ -123,6 +123,14 @@ export interface FitResult {
   bestStart: number;
 }
 
+/**
+ * The first trust radius of the gradient method: no variable moves more than this (in unit
+ * coordinates, a fraction of its range) in one step; the radius doubles after a step that it
+ * limited and halves after a refused step. Far from a solution the local model of the worst
+ * margins holds only nearby: without it a first step would leap to a corner of the box.
+ */
+export const TRUST_RADIUS = 0.1;
+
 /** Width of the smoothed hinge, in scale units (0.01 dB on a dB spec). */
 export const HINGE = 0.01;
 /** Largest number of snapped variables for which every combination of neighbours is tried. */
@@ -339,28 +347,27 @@ class Evaluator {
   penalty(results: readonly SpecResult[]): number {
     return penaltyOf(results, this.targets, this.scales);
   }
-  /** Residuals h(t_s) and their Jacobian in unit coordinates (rows: specs, columns: free variables). */
-  linearise(x: Float64Array): { results: SpecResult[]; r: Float64Array; J: Float64Array } {
+  /** The violations t_s at x and their derivatives in unit coordinates (rows: specs, columns: free variables). */
+  linearise(x: Float64Array): { results: SpecResult[]; t: Float64Array; D: Float64Array } {
     this.model.setValues(x);
     this.evaluations++;
     this.gradients++;
     const { results, gradient } = this.model.marginGradient();
     const ns = results.length;
     const nf = this.free.length;
-    const r = new Float64Array(ns);
-    const J = new Float64Array(ns * nf);
+    const t = new Float64Array(ns);
+    const D = new Float64Array(ns * nf);
     for (let s = 0; s < ns; s++) {
-      const [t, slope] = violation(results[s]!, this.targets[s]!, this.scales[s]!);
-      const [h, dh] = hinge(t);
-      r[s] = h;
-      if (dh === 0 || !Number.isFinite(results[s]!.worstMargin)) continue;
+      const [ts, slope] = violation(results[s]!, this.targets[s]!, this.scales[s]!);
+      t[s] = ts;
+      if (slope === 0 || !Number.isFinite(results[s]!.worstMargin)) continue;
       for (let k = 0; k < nf; k++) {
         const i = this.free[k]!;
         const g = gradient[s * this.nv + i]!;
-        J[s * nf + k] = Number.isFinite(g) ? dh * slope * g * unitSlope(this.model.variables[i]!, x[i]!) : 0;
+        D[s * nf + k] = Number.isFinite(g) ? slope * g * unitSlope(this.model.variables[i]!, x[i]!) : 0;
       }
     }
-    return { results, r, J };
+    return { results, t, D };
   }
 }
 
@@ -403,21 +410,25 @@ function gradientSearch(ev: Evaluator, start: Point, base: Float64Array): { best
   const nf = ev.free.length;
   let best = start;
   let lambda = 1e-3;
+  let radius = TRUST_RADIUS;
   let slow = 0;
   while (!ev.exhausted) {
     if (meets(best.results, ev.targets)) return { best, stalled: false };
-    const { r, J, results } = ev.linearise(best.x);
+    const { t, D, results } = ev.linearise(best.x);
     best = { ...best, results };
-    const ns = r.length;
+    // the rows of the Gauss–Newton model: each spec's residual h(t_s) and its derivatives
+    const rows = results.map((_, k) => {
+      const [h, dh] = hinge(t[k]!);
+      return { h, row: D.subarray(k * nf, (k + 1) * nf).map((x) => dh * x) };
+    });
     const g = new Float64Array(nf);
     const A = new Float64Array(nf * nf);
-    for (let s = 0; s < ns; s++) {
-      const rs = r[s]!;
+    for (const { h, row } of rows) {
       for (let a = 0; a < nf; a++) {
-        const ja = J[s * nf + a]!;
+        const ja = row[a]!;
         if (ja === 0) continue;
-        g[a] += ja * rs;
-        for (let b = 0; b < nf; b++) A[a * nf + b] += ja * J[s * nf + b]!;
+        g[a] += ja * h;
+        for (let b = 0; b < nf; b++) A[a * nf + b] += ja * row[b]!;
       }
     }
     // variables held at a bound the descent direction points out of
@@ -443,9 +454,15 @@ function gradientSearch(ev: Evaluator, start: Point, base: Float64Array): { best
         M[i * m + i] += lambda * Math.max(A[a * nf + a]!, 1e-9 * diagMax, 1e-300);
       });
       const d = choleskySolve(M, rhs, m);
+      let capped = false;
       if (d) {
+        // within the trust radius (largest move of one variable, in unit coordinates)
+        let longest = 0;
+        for (let i = 0; i < m; i++) longest = Math.max(longest, Math.abs(d[i]!));
+        capped = longest > radius;
+        const shrink = capped ? radius / longest : 1;
         const u = Float64Array.from(best.u);
-        moving.forEach((a, i) => (u[a] = Math.min(1, Math.max(0, u[a]! + d[i]!))));
+        moving.forEach((a, i) => (u[a] = Math.min(1, Math.max(0, u[a]! + shrink * d[i]!))));
         let step = 0;
         for (let a = 0; a < nf; a++) step = Math.max(step, Math.abs(u[a]! - best.u[a]!));
         if (step < 1e-15) return { best, stalled: true };
@@ -457,12 +474,15 @@ function gradientSearch(ev: Evaluator, start: Point, base: Float64Array): { best
           slow = p > best.penalty * (1 - 1e-6) ? slow + 1 : 0;
           best = { u, x, results, penalty: p };
           lambda = Math.max(lambda / 3, 1e-9);
+          if (capped) radius = Math.min(1, 2 * radius);
           accepted = true;
           ev.iterations++;
           break;
         }
       }
+      // a refused step: a shorter one, more damped and within half the radius
       lambda *= 4;
+      radius = Math.max(radius / 2, 1e-12);
       if (lambda > 1e10) return { best, stalled: true };
     }
     if (!accepted) break;
