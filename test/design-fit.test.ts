@@ -7,6 +7,7 @@ import { fit, fromUnit, mulberry32, neighbours, parseMargins, penaltyOf, specSca
 import { seriesValuesIn } from '../src/design/series.js';
 import { InputError } from '../src/diagnostics/diagnostic.js';
 import { evaluateQuantity } from '../src/load.js';
+import { valueText } from '../src/design/write-back.js';
 import type { Variable } from '../src/elaborate/circuit.js';
 import type { SpecResult } from '../src/check/types.js';
 
@@ -99,6 +100,19 @@ describe('fit options', () => {
     expect(r.evaluations).toBeLessThanOrEqual(10);
     expect(r.stop).toBe('max-evals');
     expect(r.pass).toBe(false);
+  });
+
+  it('rounds the values it moved to a few significant digits where the specs still pass', () => {
+    const model = DesignModel.load('circuits/bandpass-2g4.sbx', { set: ['lres=1.8 nH', 'c1=2.4 pF', 'c2=2.8 pF', 'c3=2.4 pF'] });
+    const r = fit(model);
+    expect(r.pass).toBe(true);
+    r.variables.forEach((v, i) => {
+      const text = valueText(r.snapped[i]!, v.unit);
+      expect(text.replace(/ .*$/, '').replace('.', '').replace(/^0+/, '').length, text).toBeLessThanOrEqual(6);
+      expect(Math.abs(r.snapped[i]! / r.fitted[i]! - 1)).toBeLessThan(5e-4); // 4 digits: half a unit in the 4th digit at most
+    });
+    // the snapped results are the specs at the snapped values
+    expect(DesignModel.load('circuits/bandpass-2g4.sbx', { set: model.setOptions(r.snapped) }).checkSpecs().every((s) => s.pass)).toBe(true);
   });
 
   it('a netlist whose specs pass at the start is left as it is', () => {

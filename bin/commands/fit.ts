@@ -118,7 +118,7 @@ export function formatFitReport(r: FitResult, setOptions: string[]): string {
   const lines = [
     table(['variable', 'start', 'fitted', 'snapped', 'unit'], vrows),
     table(['spec', 'margin before', 'fitted', 'snapped', 'target', 'result'], srows),
-    `${r.evaluations} evaluations (${r.gradients} with derivatives), ${r.iterations} steps; best from start ${r.bestStart} by the ${r.method === 'none' ? 'start values' : `${r.method} method`}; stopped: ${stop}`,
+    `${plural(r.evaluations, 'evaluation')} (${r.gradients} with derivatives), ${plural(r.iterations, 'step')}; ${r.method === 'none' ? `the values of start ${r.bestStart} kept` : `best from start ${r.bestStart} by the ${r.method} method`}; stopped: ${stop}`,
     failing === 0 ? `every spec passes${r.targetMet ? '' : ' (not every one with its target margin)'}` : `${failing} spec${failing === 1 ? '' : 's'} fail${failing === 1 ? 's' : ''}`,
     '',
     'values as options:',
@@ -129,6 +129,8 @@ export function formatFitReport(r: FitResult, setOptions: string[]): string {
 }
 
 type SpecResultLike = { points: number; worstMargin: number };
+
+const plural = (n: number, what: string) => `${n} ${what}${n === 1 ? '' : 's'}`;
 
 /** A progress line on stderr, redrawn in place (only on a terminal). */
 function progressLine(io: Io) {

@@ -40,7 +40,9 @@
  * value just below and just above its fitted value; with at most {@link EXHAUSTIVE_SNAP} such
  * variables every combination is tried, otherwise a greedy pass from the nearest values tries
  * the other neighbour of each variable in turn, while that helps. The best combination is the one
- * where every spec passes, then the smallest penalty.
+ * where every spec passes, then the smallest penalty. The other variables are rounded to 4 (else
+ * 6) significant digits where every spec keeps its target margin ({@link TIDY_DIGITS}), so that the
+ * values read well when written back.
  *
  * @module
  */
@@ -624,6 +626,36 @@ function snapValues(ev: Evaluator, fitted: Point): { x: Float64Array; results: S
   return best;
 }
 
+/** Significant digits tried, in turn, for the values of variables without a series or step. */
+export const TIDY_DIGITS = [4, 6];
+
+/**
+ * Rounds the variables without a series or step to a few significant digits (as the netlist
+ * reads the short text: `1.532 nH`), where every spec keeps its target margin (or, when the
+ * target was not met, where the penalty does not grow): values that read well when written back.
+ */
+function tidy(ev: Evaluator, point: { x: Float64Array; results: SpecResult[]; penalty: number }, start: Float64Array): { x: Float64Array; results: SpecResult[]; penalty: number } {
+  const vars = ev.model.variables;
+  // only values the fit changed: a value given in the netlist stays as written
+  const loose = ev.free.filter((i) => !vars[i]!.series && vars[i]!.step === undefined && point.x[i] !== start[i]);
+  if (loose.length === 0) return point;
+  const met = meets(point.results, ev.targets);
+  for (const digits of TIDY_DIGITS) {
+    const x = Float64Array.from(point.x);
+    for (const i of loose) {
+      const v = vars[i]!;
+      const r = point.x[i]! === 0 ? 0 : netlistValue(Number(point.x[i]!.toPrecision(digits)), v.unit);
+      x[i] = Math.min(v.upper, Math.max(v.lower, r));
+    }
+    if (x.every((xi, i) => xi === point.x[i])) return point;
+    if (ev.exhausted) return point;
+    const results = ev.check(x);
+    const penalty = ev.penalty(results);
+    if (met ? meets(results, ev.targets) : penalty <= point.penalty && results.every((r, s) => r.pass || !point.results[s]!.pass)) return { x, results, penalty };
+  }
+  return point;
+}
+
 /**
  * Fits the model's variables to its specs (see the module notes). Starts from the model's
  * current values; leaves the model at the snapped values.
@@ -686,6 +718,7 @@ export function fit(model: DesignModel, options: FitOptions = {}): FitResult {
       found = simplexSearch(ev, from, base);
       how = 'simplex';
     }
+    if (found.x.every((x, i) => x === from.x[i])) how = 'none'; // no step was taken: the start values stand
     const foundMeets = meets(found.results, targets);
     const bestMeets = meets(best.results, targets);
     if (k === 0 || (foundMeets && !bestMeets) || (foundMeets === bestMeets && found.penalty < best.penalty)) {
@@ -697,7 +730,7 @@ export function fit(model: DesignModel, options: FitOptions = {}): FitResult {
   }
   if (meets(best.results, targets)) stop = ev.free.length === 0 ? 'no-variables' : 'target';
   else if (ev.exhausted) stop = 'max-evals';
-  const snapped = options.snap === false ? best : snapValues(ev, best);
+  const snapped = options.snap === false ? best : tidy(ev, snapValues(ev, best), start);
   model.setValues(snapped.x);
   const after = snapped.results;
   return {
