@@ -159,6 +159,14 @@ describe('normalised coordinates and snapping', () => {
     expect(neighbours(v, evaluateQuantity('4.7 pF', 'F', 'x'))).toEqual([evaluateQuantity('4.7 pF', 'F', 'x')]);
   });
 
+  it('a bound that is a series value counts as one, though the netlist reads it a bit off the literal', () => {
+    const lower = evaluateQuantity('3 nH', 'H', 'x'); // 3.0000000000000004e-9, while the E24 table gives 3e-9
+    const v = variable({ lower, upper: evaluateQuantity('12 nH', 'H', 'x'), unit: 'H', series: 'E24' });
+    expect(neighbours(v, lower)).toEqual([lower]);
+    // IEC 60063 E24: 3.0, 3.3
+    expect(neighbours(v, 3.1e-9)).toEqual([lower, evaluateQuantity('3.3 nH', 'H', 'x')]);
+  });
+
   it('step neighbours are counted from the lower bound', () => {
     const v = variable({ lower: 1, upper: 3, step: 0.5 });
     expect(neighbours(v, 1.6)).toEqual([1.5, 2]);

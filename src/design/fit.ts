@@ -547,9 +547,10 @@ function simplexSearch(ev: Evaluator, start: Point, base: Float64Array, size = 0
 export function neighbours(v: Variable, x: number): number[] | null {
   let below: number | undefined;
   let above: number | undefined;
+  const slack = 1e-9 * Math.max(Math.abs(v.lower), Math.abs(v.upper));
   if (v.series) {
-    const all = seriesValuesIn(v.lower, v.upper, v.series).filter((a) => a >= v.lower && a <= v.upper);
-    for (const a of all) {
+    // seriesValuesIn keeps a value a rounding away outside a bound written in other units
+    for (const a of seriesValuesIn(v.lower, v.upper, v.series)) {
       if (a <= x) below = a;
       if (a >= x && above === undefined) above = a;
     }
@@ -557,13 +558,13 @@ export function neighbours(v: Variable, x: number): number[] | null {
     const k = Math.floor((x - v.lower) / v.step + 1e-9);
     const lo = v.lower + k * v.step;
     const hi = v.lower + (k + 1) * v.step;
-    if (lo >= v.lower && lo <= v.upper * (1 + 1e-12)) below = Math.min(lo, v.upper);
-    if (hi <= v.upper * (1 + 1e-12) + 1e-300 && Math.abs(hi - x) > 0) above = Math.min(hi, v.upper);
-    if (Math.abs(lo - x) <= 1e-12 * Math.max(Math.abs(x), v.step)) above = undefined;
+    if (lo <= v.upper + slack) below = lo;
+    if (hi <= v.upper + slack) above = hi;
   } else return null;
   // as the netlist holds the value when it is written short (`6.8 nH`), kept in range
-  const out = [below, above].filter((a): a is number => a !== undefined).map((a) => Math.min(v.upper, Math.max(v.lower, netlistValue(a, v.unit))));
-  if (out.length === 2 && out[0] === out[1]) out.pop();
+  const out = [...new Set([below, above].filter((a): a is number => a !== undefined).map((a) => Math.min(v.upper, Math.max(v.lower, netlistValue(a, v.unit)))))];
+  // a value already allowed stays
+  if (out.includes(x)) return [x];
   // nearest first
   out.sort((a, b) => Math.abs(a - x) - Math.abs(b - x));
   return out.length > 0 ? out : null;
