@@ -2,7 +2,9 @@
 // tables, the `--set` options, the copy and the write-back (every other byte kept), exit codes,
 // and the `--margin` reader under fuzzing.
 import { spawnSync } from 'node:child_process';
-import { existsSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+
+const require_mkdir = (p: string) => mkdirSync(p, { recursive: true });
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import fc from 'fast-check';
@@ -90,6 +92,38 @@ describe('scatterbox fit', () => {
     expect(r.code).toBe(0);
     expect(r.err).toContain(`updated ${file}`);
     expect(readFileSync(file, 'utf8')).toBe(readFileSync(copy, 'utf8'));
+  });
+
+  it('a variable defined in an included file: -o refuses clearly, --write-back edits that file', () => {
+    const sub = join(dir, 'inc');
+    require_mkdir(sub);
+    const part = 'let ctune = 2 pF vary 0.5 pF to 5 pF   # tuning part\n';
+    const main = [
+      'include "part.sbx"',
+      'inductor l1 a=in b=mid value=4 nH',
+      'capacitor c1 a=mid b=out value=ctune',
+      'port 1 plus=in',
+      'port 2 plus=out',
+      'sweep list freqs=1.4 GHz, 1.5 GHz, 1.6 GHz',
+      'spec tuned measure=il(2,1) max=0.0001 dB over=1.5 GHz, 1.5 GHz',
+      '',
+    ].join('\n');
+    writeFileSync(join(sub, 'part.sbx'), part);
+    writeFileSync(join(sub, 'main.sbx'), main);
+    const refused = run(['fit', join(sub, 'main.sbx'), '-o', join(sub, 'copy.sbx'), '-q']);
+    expect(refused.code).toBe(3);
+    expect(refused.err).toContain('-o writes a copy of');
+    expect(refused.err).toContain('part.sbx');
+    expect(existsSync(join(sub, 'copy.sbx'))).toBe(false);
+    const r = run(['fit', join(sub, 'main.sbx'), '--write-back', '-q']);
+    expect(r.code, r.err).toBe(0);
+    expect(readFileSync(join(sub, 'main.sbx'), 'utf8')).toBe(main);
+    const edited = readFileSync(join(sub, 'part.sbx'), 'utf8');
+    expect(edited).toMatch(/^let ctune = [\d.]+ pF vary 0\.5 pF to 5 pF {3}# tuning part\n$/);
+    // a series L–C passes everything at its resonance, 1/(2π√(LC)): C = 1/((2π·1.5 GHz)²·4 nH) = 2.81 pF (common practice)
+    const c = Number(/= ([\d.]+) pF/.exec(edited)![1]) * 1e-12;
+    // IL ≤ 1e-4 dB: |X| = |ωL − 1/(ωC)| ≤ 0.48 ohm of ωL = 37.7 ohm, so C within 1.3 %
+    expect(Math.abs(c / (1 / ((2 * Math.PI * 1.5e9) ** 2 * 4e-9)) - 1)).toBeLessThan(0.015);
   });
 
   it('exit 1 when a spec cannot pass; --write-back then leaves the netlist alone', () => {
