@@ -203,7 +203,7 @@ export async function main(argv: string[], io: Io = defaultIo): Promise<number> 
     .command(
       'fit <netlist>',
       'move the design variables within their ranges until every spec passes, then snap them to their series',
-      (y: Argv) => fitBuilder(solveOptions(y)),
+      (y: Argv) => fitBuilder(y),
       async (args) => {
         code = await runFit(args as unknown as FitArgs, io);
       },

@@ -40,9 +40,13 @@ interface Io {
   err: (s: string) => void;
 }
 
-/** The options of `fit` (the caller adds --set, --sweep, --quiet and --strict). */
+/** The options of `fit` (--set, --sweep, --quiet and --strict as for `solve`; one thread, so no --jobs). */
 export function fitBuilder(y: Argv): Argv {
   return y
+    .option('set', { type: 'string', array: true, describe: 'override a parameter: name=value, with units (repeatable); a variable\'s --set is its start value' })
+    .option('sweep', { type: 'string', describe: 'replace the netlist sweep: segments as after `sweep`, joined by `;`' })
+    .option('quiet', { alias: 'q', type: 'boolean', default: false, describe: 'do not print warnings or the progress line' })
+    .option('strict', { type: 'boolean', default: false, describe: 'treat every warning as an error (exit as for an input error), e.g. in CI' })
     .positional('netlist', { type: 'string', describe: 'netlist file (.sbx) with design variables and specs', demandOption: true })
     .option('out', { alias: 'o', type: 'string', describe: 'write a copy of the netlist with the fitted values to this file' })
     .option('write-back', { type: 'boolean', default: false, describe: 'write the fitted values into the netlist itself (atomically; only when every spec passes)' })
@@ -66,7 +70,7 @@ export function fitBuilder(y: Argv): Argv {
       return true;
     })
     .example('$0 fit circuits/bandpass-2g4.sbx -o fitted.sbx', 'fit the variables to the specs and write a copy with the new values')
-    .example('$0 fit circuits/match-50-75-915.sbx --margin 1 --write-back', 'push every margin 1 dB beyond pass and update the netlist')
+    .example('$0 fit circuits/bandpass-2g4.sbx --margin 0.4 --write-back', 'push every margin 0.4 dB beyond pass and update the netlist')
     .example('$0 fit filter.sbx --starts 8 --seed 3 --method simplex', 'eight starts, derivative-free')
     .epilog('Exit codes: 0 every spec passes after snapping, 1 a spec fails, 2 usage error, 3 input error.');
 }
