@@ -174,6 +174,8 @@ export async function runFit(a: FitArgs, io: Io): Promise<number> {
     io.out(formatFitReport(result, model.setOptions(result.snapped)));
     if (a.out !== undefined || a.writeBack) {
       const texts = editedTexts(a.netlist, model.sources, result.snapped);
+      const others = (a.set ?? []).map((s) => /^\s*([A-Za-z_][A-Za-z0-9_]*)/.exec(s)?.[1]).filter((n): n is string => n !== undefined && model.indexOf(n) < 0);
+      if (others.length > 0) io.err(`note: --set ${others.join(', ')} ${others.length === 1 ? 'is' : 'are'} not written into the netlist (only the variables are)\n`);
       if (a.out !== undefined) {
         const elsewhere = [...texts.keys()].filter((f) => f !== a.netlist);
         if (elsewhere.length > 0) {
