@@ -71,6 +71,37 @@ describe('fit of an L-section match converges to the closed-form values', () => 
   });
 });
 
+describe('snapping many variables (greedy, more than EXHAUSTIVE_SNAP)', () => {
+  it('each snapped value is an E24 neighbour of its fitted value, and the specs are re-checked there', () => {
+    // seven resistors in series to ground: Zin = their sum (Ohm's law), asked to be 100 ± 2 ohm
+    const n = 7;
+    const lines = [
+      ...Array.from({ length: n }, (_, k) => `let r${k + 1} = ${20 + 3 * k} ohm vary 1 ohm to 100 ohm series E24`),
+      ...Array.from({ length: n }, (_, k) => `resistor x${k + 1} a=n${k} b=${k === n - 1 ? 'ground' : `n${k + 1}`} value=r${k + 1}`),
+      'port 1 plus=n0 ref=100 ohm',
+      'sweep list freqs=1 MHz',
+      'spec lo measure=zin_re(1) min=98 ohm over=1 MHz, 1 MHz',
+      'spec hi measure=zin_re(1) max=102 ohm over=1 MHz, 1 MHz',
+    ];
+    const model = DesignModel.fromText(lines.join('\n') + '\n', 'chain.sbx');
+    const r = fit(model);
+    expect(r.atFitted.every((s) => s.pass)).toBe(true);
+    const sum = (xs: ArrayLike<number>) => Array.from(xs).reduce((a, b) => a + b, 0);
+    expect(Math.abs(sum(r.fitted) - 100)).toBeLessThanOrEqual(2 + 1e-9);
+    r.variables.forEach((v, i) => {
+      // IEC 60063 E24 values around the fitted one
+      const table = seriesValuesIn(v.lower, v.upper, 'E24');
+      const below = Math.max(...table.filter((x) => x <= r.fitted[i]! * (1 + 1e-12)));
+      const above = Math.min(...table.filter((x) => x >= r.fitted[i]! * (1 - 1e-12)));
+      expect([below, above].some((x) => Math.abs(r.snapped[i]! / x - 1) < 1e-15)).toBe(true);
+    });
+    // the spec results after snapping are those of the sum of the snapped values (to 1e-9 ohm)
+    const zin = sum(r.snapped);
+    expect(r.after[0]!.worstMargin).toBeCloseTo(zin - 98, 9);
+    expect(r.after[1]!.worstMargin).toBeCloseTo(102 - zin, 9);
+  });
+});
+
 describe('fit options', () => {
   it('--margin pushes every margin beyond the target', () => {
     const model = DesignModel.load(DEMO, { set: ['lser=8 nH', 'cshunt=2 pF'] });
