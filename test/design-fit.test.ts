@@ -102,6 +102,27 @@ describe('snapping many variables (greedy, more than EXHAUSTIVE_SNAP)', () => {
   });
 });
 
+describe('after snapping', () => {
+  it('the variables without a series are fitted again with the snapped ones held', () => {
+    // six E24 resistors and one free one in series to ground: Zin = their sum (Ohm's law), asked
+    // to be 100 ± 0.01 ohm, which E24 values alone rarely meet; the free one makes up the rest
+    const n = 7;
+    const lines = [
+      ...Array.from({ length: n }, (_, k) => `let r${k + 1} = ${20 + 3 * k} ohm vary 1 ohm to 100 ohm${k < n - 1 ? ' series E24' : ''}`),
+      ...Array.from({ length: n }, (_, k) => `resistor x${k + 1} a=n${k} b=${k === n - 1 ? 'ground' : `n${k + 1}`} value=r${k + 1}`),
+      'port 1 plus=n0 ref=100 ohm',
+      'sweep list freqs=1 MHz',
+      'spec lo measure=zin_re(1) min=99.99 ohm over=1 MHz, 1 MHz',
+      'spec hi measure=zin_re(1) max=100.01 ohm over=1 MHz, 1 MHz',
+    ];
+    const r = fit(DesignModel.fromText(lines.join('\n') + '\n', 'chain.sbx'));
+    expect(r.pass).toBe(true);
+    const six = Array.from(r.snapped.subarray(0, n - 1));
+    six.forEach((x, i) => expect(seriesValuesIn(1, 100, 'E24').some((e) => Math.abs(x / e - 1) < 1e-15), `r${i + 1} = ${x}`).toBe(true));
+    expect(Math.abs(r.snapped[n - 1]! - (100 - six.reduce((a, b) => a + b, 0)))).toBeLessThanOrEqual(0.01 + 1e-9);
+  });
+});
+
 describe('fit options', () => {
   it('--margin pushes every margin beyond the target', () => {
     const model = DesignModel.load(DEMO, { set: ['lser=8 nH', 'cshunt=2 pF'] });

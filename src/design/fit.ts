@@ -40,9 +40,10 @@
  * value just below and just above its fitted value; with at most {@link EXHAUSTIVE_SNAP} such
  * variables every combination is tried, otherwise a greedy pass from the nearest values tries
  * the other neighbour of each variable in turn, while that helps. The best combination is the one
- * where every spec passes, then the smallest penalty. The other variables are rounded to 4 (else
- * 6) significant digits where every spec keeps its target margin ({@link TIDY_DIGITS}), so that the
- * values read well when written back.
+ * where every spec passes, then the smallest penalty. When the specs then miss their targets, the
+ * variables without a series or step are fitted again with the snapped ones held. Those the fit
+ * moved are finally rounded to 4 (else 6) significant digits where every spec keeps its target
+ * margin ({@link TIDY_DIGITS}), so that the values read well when written back.
  *
  * @module
  */
@@ -319,8 +320,8 @@ class Evaluator {
   gradients = 0;
   iterations = 0;
   readonly nv: number;
-  /** Indices of the variables that can move (lower < upper). */
-  readonly free: number[];
+  /** Indices of the variables that can move (lower < upper; after snapping, those without a series or step). */
+  free: number[];
   readonly scales: Float64Array;
   constructor(
     readonly model: DesignModel,
@@ -627,6 +628,25 @@ function snapValues(ev: Evaluator, fitted: Point): { x: Float64Array; results: S
   return best;
 }
 
+/**
+ * After snapping, when the specs miss their targets and some variables have neither series nor
+ * step, the gradient method moves those again with the snapped ones held.
+ */
+function refit(ev: Evaluator, point: { x: Float64Array; results: SpecResult[]; penalty: number }): { x: Float64Array; results: SpecResult[]; penalty: number } {
+  const vars = ev.model.variables;
+  const loose = ev.free.filter((i) => !vars[i]!.series && vars[i]!.step === undefined);
+  if (meets(point.results, ev.targets) || loose.length === 0 || loose.length === ev.free.length || ev.exhausted) return point;
+  const all = ev.free;
+  ev.free = loose;
+  try {
+    const u = Float64Array.from(loose, (i) => toUnit(vars[i]!, point.x[i]!));
+    const found = gradientSearch(ev, { u, x: point.x, results: point.results, penalty: point.penalty }, point.x).best;
+    return found.penalty < point.penalty ? found : point;
+  } finally {
+    ev.free = all;
+  }
+}
+
 /** Significant digits tried, in turn, for the values of variables without a series or step. */
 export const TIDY_DIGITS = [4, 6];
 
@@ -731,7 +751,7 @@ export function fit(model: DesignModel, options: FitOptions = {}): FitResult {
   }
   if (meets(best.results, targets)) stop = ev.free.length === 0 ? 'no-variables' : 'target';
   else if (ev.exhausted) stop = 'max-evals';
-  const snapped = options.snap === false ? best : tidy(ev, snapValues(ev, best), start);
+  const snapped = options.snap === false ? best : tidy(ev, refit(ev, snapValues(ev, best)), start);
   model.setValues(snapped.x);
   const after = snapped.results;
   return {
