@@ -123,6 +123,18 @@ describe('after snapping', () => {
   });
 });
 
+describe('values the netlist does not allow', () => {
+  it('a trial at a part value of 0 (a range reaching 0) counts as failing every spec, and the fit goes on', () => {
+    // a 50 ohm load with a shunt capacitance at 100 MHz: |Γ| ≈ ωCZ0/2 (common practice, small ωCZ0),
+    // so a return loss of 40 dB asks for C ≤ 0.02/(ω·50 ohm) = 0.64 pF
+    const text = ['let c = 50 pF vary 0 pF to 100 pF', 'capacitor x a=in b=ground value=c', 'resistor r a=in b=ground value=50 ohm', 'port 1 plus=in', 'sweep list freqs=100 MHz', 'spec m measure=rl(1) min=40 dB over=100 MHz, 100 MHz', ''].join('\n');
+    const r = fit(DesignModel.fromText(text, 'zero.sbx'));
+    expect(r.pass).toBe(true);
+    expect(r.snapped[0]).toBeGreaterThan(0);
+    expect(r.snapped[0]).toBeLessThanOrEqual(0.02 / (2 * Math.PI * 100e6 * 50));
+  });
+});
+
 describe('fit options', () => {
   it('--margin pushes every margin beyond the target', () => {
     const model = DesignModel.load(DEMO, { set: ['lser=8 nH', 'cshunt=2 pF'] });

@@ -53,6 +53,7 @@ import { DiagnosticBag, InputError } from '../diagnostics/diagnostic.js';
 import { evaluateQuantity } from '../load.js';
 import type { DesignModel } from './model.js';
 import { seriesValuesIn } from './series.js';
+import { SingularSystemError } from '../solve/sweep.js';
 import { netlistValue } from './write-back.js';
 
 /** Which method moves the variables: `auto` the gradient method, then the simplex when it stalls. */
@@ -326,7 +327,7 @@ class Evaluator {
   constructor(
     readonly model: DesignModel,
     readonly targets: Float64Array,
-    specs: readonly SpecDefinition[],
+    readonly specs: readonly SpecDefinition[],
     readonly maxEvals: number,
     readonly progress: (phase: FitProgress['phase'], penalty: number, failing: number) => void,
   ) {
@@ -342,10 +343,20 @@ class Evaluator {
     this.free.forEach((i, k) => (x[i] = fromUnit(this.model.variables[i]!, u[k]!)));
     return x;
   }
+  /**
+   * The spec results at x. Where the network cannot be solved there (a singular system) or a
+   * value is not allowed (a part value of 0 at a range reaching 0), every spec fails without end,
+   * so that no step goes there. The start itself is checked before, so a netlist error is not hidden.
+   */
   check(x: Float64Array): SpecResult[] {
     this.model.setValues(x);
     this.evaluations++;
-    return this.model.checkSpecs();
+    try {
+      return this.model.checkSpecs();
+    } catch (e) {
+      if (!(e instanceof SingularSystemError || e instanceof InputError)) throw e;
+      return this.specs.map((spec) => ({ spec, pass: false, points: 1, worstMargin: -Infinity, worstFrequency: NaN, worstValue: NaN, worstLimit: NaN }));
+    }
   }
   penalty(results: readonly SpecResult[]): number {
     return penaltyOf(results, this.targets, this.scales);
@@ -417,7 +428,14 @@ function gradientSearch(ev: Evaluator, start: Point, base: Float64Array): { best
   let slow = 0;
   while (!ev.exhausted) {
     if (meets(best.results, ev.targets)) return { best, stalled: false };
-    const { t, D, results } = ev.linearise(best.x);
+    let lin: ReturnType<Evaluator['linearise']>;
+    try {
+      lin = ev.linearise(best.x);
+    } catch (e) {
+      if (e instanceof SingularSystemError || e instanceof InputError) return { best, stalled: true }; // no derivatives here: the simplex may go on
+      throw e;
+    }
+    const { t, D, results } = lin;
     best = { ...best, results };
     // the rows of the Gauss–Newton model: each spec's residual h(t_s) and its derivatives
     const rows = results.map((_, k) => {
