@@ -117,13 +117,14 @@ export function formatFitReport(r: FitResult, setOptions: string[]): string {
     const m = (x: SpecResultLike) => (x.points === 0 ? 'no points in band' : formatMargin(x.worstMargin, a.spec.unit));
     return [a.spec.name, m(b), m(r.atFitted[s]!), m(a), r.targets[s]! > 0 ? formatMargin(r.targets[s]!, a.spec.unit) : '', a.pass ? 'pass' : 'FAIL'];
   });
-  const stop = { target: 'every spec has its target margin', 'max-evals': 'the largest number of evaluations was reached', stalled: 'no further progress', 'no-variables': 'no variable can move' }[r.stop];
+  const stop = { target: 'the target margins are met', 'max-evals': 'the largest number of evaluations was reached', stalled: 'no further progress', 'no-variables': 'no variable can move' }[r.stop];
   const failing = r.after.filter((a) => !a.pass).length;
   const lines = [
     table(['variable', 'start', 'fitted', 'snapped', 'unit'], vrows),
     table(['spec', 'margin before', 'fitted', 'snapped', 'target', 'result'], srows),
     `${plural(r.evaluations, 'evaluation')} (${r.gradients} with derivatives), ${plural(r.iterations, 'step')}; ${r.method === 'none' ? `the values of start ${r.bestStart} kept` : `best from start ${r.bestStart} by the ${r.method} method`}; stopped: ${stop}`,
     failing === 0 ? `every spec passes${r.targetMet ? '' : ' (not every one with its target margin)'}` : `${failing} spec${failing === 1 ? '' : 's'} fail${failing === 1 ? 's' : ''}`,
+    ...(r.after.some((a) => a.points === 0) ? ['(a spec with no sweep point in its band cannot pass: widen the sweep, e.g. with --sweep, or the band)'] : []),
     '',
     'values as options:',
     setOptions.map((s) => `--set '${s}'`).join(' '),

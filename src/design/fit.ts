@@ -111,7 +111,7 @@ export interface FitResult {
   targets: Float64Array;
   /** Every spec passes at the snapped values (margin ≥ 0). */
   pass: boolean;
-  /** Every spec has its target margin at the snapped values. */
+  /** Every spec with sweep points in its band has its target margin at the snapped values. */
   targetMet: boolean;
   stop: FitStop;
   /** Penalty at the fitted and at the snapped values. */
@@ -258,8 +258,9 @@ export function penaltyOf(results: readonly SpecResult[], targets: ArrayLike<num
   return p;
 }
 
+/** Every spec has its target margin — a spec with no sweep point in its band aside: no value of the variables changes it (it fails all the same). */
 function meets(results: readonly SpecResult[], targets: ArrayLike<number>): boolean {
-  return results.every((r, s) => r.points > 0 && r.worstMargin >= targets[s]!);
+  return results.every((r, s) => r.points === 0 || r.worstMargin >= targets[s]!);
 }
 
 /**
