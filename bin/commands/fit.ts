@@ -125,6 +125,7 @@ export function formatFitReport(r: FitResult, setOptions: string[]): string {
     `${plural(r.evaluations, 'evaluation')} (${r.gradients} with derivatives), ${plural(r.iterations, 'step')}; ${r.method === 'none' ? `the values of start ${r.bestStart} kept` : `best from start ${r.bestStart} by the ${r.method} method`}; stopped: ${stop}`,
     failing === 0 ? `every spec passes${r.targetMet ? '' : ' (not every one with its target margin)'}` : `${failing} spec${failing === 1 ? '' : 's'} fail${failing === 1 ? 's' : ''}`,
     ...(r.after.some((a) => a.points === 0) ? ['(a spec with no sweep point in its band cannot pass: widen the sweep, e.g. with --sweep, or the band)'] : []),
+    ...(failing > 0 && r.stop === 'stalled' && r.atFitted.some((a) => !a.pass && a.points > 0) ? ['(the search is local and ended short of the specs: more starts, e.g. --starts 8, may find a design that passes)'] : []),
     '',
     'values as options:',
     setOptions.map((s) => `--set '${s}'`).join(' '),

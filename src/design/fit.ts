@@ -135,6 +135,12 @@ export interface FitResult {
  */
 export const TRUST_RADIUS = 0.1;
 
+/**
+ * A search that gains less than 1 % of its penalty over 10 steps (the simplex: 10·(n + 1)
+ * iterations) stops as stalled, leaving the budget to the fallback or the next start.
+ */
+export const PROGRESS_WINDOW: readonly [steps: number, gain: number] = [10, 0.01];
+
 /** Width of the smoothed hinge, in scale units (0.01 dB on a dB spec). */
 export const HINGE = 0.01;
 /** Largest number of snapped variables for which every combination of neighbours is tried. */
@@ -427,6 +433,7 @@ function gradientSearch(ev: Evaluator, start: Point, base: Float64Array): { best
   let lambda = 1e-3;
   let radius = TRUST_RADIUS;
   let slow = 0;
+  const history: number[] = [best.penalty];
   while (!ev.exhausted) {
     if (meets(best.results, ev.targets)) return { best, stalled: false };
     let lin: ReturnType<Evaluator['linearise']>;
@@ -509,6 +516,11 @@ function gradientSearch(ev: Evaluator, start: Point, base: Float64Array): { best
     }
     if (!accepted) break;
     if (slow >= 4) return { best, stalled: !meets(best.results, ev.targets) };
+    // crawling: less than PROGRESS_WINDOW[1] gained over the last PROGRESS_WINDOW[0] steps (a
+    // narrow curved valley with kinks, where the steps stay short): give the budget to another method or start
+    history.push(best.penalty);
+    const [steps, gain] = PROGRESS_WINDOW;
+    if (history.length > steps && best.penalty > history[history.length - 1 - steps]! * (1 - gain)) return { best, stalled: !meets(best.results, ev.targets) };
   }
   return { best, stalled: false };
 }
@@ -533,8 +545,13 @@ function simplexSearch(ev: Evaluator, start: Point, base: Float64Array, size = 0
     simplex.push(at(u));
   }
   if (simplex.length < n + 1) return best;
+  const history: number[] = [];
   while (!ev.exhausted && !meets(best.results, ev.targets)) {
     simplex.sort((a, b) => a.penalty - b.penalty);
+    // crawling, as for the gradient method, counted in iterations of n + 1 (one per vertex)
+    history.push(best.penalty);
+    const window = PROGRESS_WINDOW[0] * (n + 1);
+    if (history.length > window && best.penalty > history[history.length - 1 - window]! * (1 - PROGRESS_WINDOW[1])) break;
     let spread = 0;
     for (let k = 1; k <= n; k++) for (let a = 0; a < n; a++) spread = Math.max(spread, Math.abs(simplex[k]!.u[a]! - simplex[0]!.u[a]!));
     if (spread < 1e-10) break;
