@@ -14,23 +14,28 @@
  * **The penalty.** For spec s with worst margin m_s (≥ 0 passes, in the spec's unit), a target
  * margin T_s and a scale σ_s (see {@link specScale}: 1 dB for dB specs), the violation in scale
  * units is t_s = (T_s − m_s)/σ_s + 2δ (δ = {@link HINGE}: the fit aims a little beyond the target,
- * so that it meets the target in finitely many steps), and the penalty is P = Σ_s h(t_s)², with h
+ * so that it meets the target in finitely many steps) — counted in return loss for a VSWR and in
+ * ratio for other plain figures (see `violation`) — and the penalty is P = Σ_s h(t_s)², with h
  * the smoothed hinge h(t) = 0 for t ≤ 0, t²/(2δ) for 0 < t < δ, t − δ/2 for δ ≤ t ≤ C, and
- * C − δ/2 + C·ln(t/C) beyond C = {@link COMPRESS} (a far-off spec weighs less than its square). P is zero where
- * every spec has its margin with room to spare, and P is continuously differentiable (h is C¹).
+ * C − δ/2 + C·ln(t/C) beyond C = {@link COMPRESS} (a far-off spec weighs less than its square).
+ * P is zero where every spec has its margin with room to spare, and continuously differentiable
+ * in the margins (h is C¹).
  *
  * **The gradient method** is a Levenberg–Marquardt iteration on the residuals h(t_s) (the
  * Gauss–Newton model of P, damped; Marquardt 1963), with the derivatives of the worst margins
  * from {@link DesignModel.marginGradient}, in normalised coordinates (see {@link toUnit}) where the
  * bounds are the unit box: a variable at a bound whose step would leave the box is held there
- * for that step, and each step is clipped to the box. A worst margin is a minimum over
- * frequencies, not differentiable where its worst point moves: a step that does not lower P is
- * refused and the damping raised (a shorter, steeper step), so the method copes with the kinks; it
- * stops ("stalls") when the damping grows past any use or P stops falling.
+ * for that step, each step is clipped to the box, and no variable moves more than a trust
+ * radius ({@link TRUST_RADIUS}) at a time. A worst margin is a minimum over frequencies, not
+ * differentiable where its worst point moves: a step that does not lower P is refused and the
+ * damping raised and the radius halved (a shorter, steeper step), so the method copes with the
+ * kinks. It stops ("stalls") when the damping grows past any use or P stops falling
+ * ({@link PROGRESS_WINDOW}).
  *
  * **The derivative-free fallback** is the Nelder–Mead simplex (Nelder & Mead 1965; the usual
  * coefficients 1, 2, ½, ½) on P in the unit box, every trial point clipped to the box. `auto` runs
- * the gradient method and the simplex from its best point when it stalls short of the target.
+ * the gradient method, then the simplex from its best point when it stalls short of the target,
+ * then the gradient method again from the simplex's best point.
  *
  * **Several starts.** Start 1 is the model's current values; the others are uniform in the unit
  * box from the mulberry32 generator (see {@link mulberry32}) seeded with `seed`: deterministic.
