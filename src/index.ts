@@ -81,4 +81,4 @@ export { renderReport, renderPlotSvg, type ReportInput, type PlotSvgOptions } fr
 export { solveSweepParallel, closeSweepPool, type ParallelOptions } from './solve/parallel.js';
 export { DesignModel, VariableError, setText, type DesignOptions, type MarginGradient, type NetworkDerivatives } from './design/model.js';
 export { fit, parseMargins, specScale, penaltyOf, mulberry32, toUnit, fromUnit, isLogScale, neighbours, HINGE, EXHAUSTIVE_SNAP, type FitOptions, type FitResult, type FitMethod, type FitProgress, type FitStop } from './design/fit.js';
-export { editVariableValues, valueText, valueRange, WriteBackError } from './design/write-back.js';
+export { editVariableValues, valueText, valueRange, netlistValue, WriteBackError } from './design/write-back.js';
