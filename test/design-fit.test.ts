@@ -1,6 +1,7 @@
 // `fit` (issue 15, item 4): the L-section match against its closed form, the methods, starts,
 // margins and snapping of src/design/fit.ts.
 import { readFileSync } from 'node:fs';
+import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { DesignModel } from '../src/design/model.js';
 import { fit, fromUnit, mulberry32, neighbours, parseMargins, penaltyOf, specScale, toUnit, HINGE } from '../src/design/fit.js';
@@ -51,6 +52,38 @@ describe('fit of an L-section match converges to the closed-form values', () => 
       if (method !== 'auto') expect(r.method).toBe(method);
     });
   }
+
+  it('for random resistances and frequencies (fast-check, seed 4242): to 1e-4 relative', () => {
+    fc.assert(
+      fc.property(fc.double({ min: 5, max: 100, noNaN: true }), fc.double({ min: 1.2, max: 10, noNaN: true }), fc.double({ min: 1e6, max: 1e10, noNaN: true }), (rlo, ratio, f0) => {
+        const rhi = rlo * ratio;
+        const w0 = 2 * Math.PI * f0;
+        // common practice: Q = √(R_high/R_low − 1), X_series = Q·R_low, X_shunt = R_high/Q
+        const q = Math.sqrt(rhi / rlo - 1);
+        const l = (q * rlo) / w0;
+        const c = q / (rhi * w0);
+        const text = [
+          `let lser = ${l * 1.25} H vary ${l / 2} H to ${2 * l} H`,
+          `let cshunt = ${c * 0.75} F vary ${c / 2} F to ${2 * c} F`,
+          'inductor lser a=lo b=hi value=lser',
+          'capacitor cshunt a=hi b=ground value=cshunt',
+          `port 1 plus=lo ref=${rlo} ohm`,
+          `port 2 plus=hi ref=${rhi} ohm`,
+          `sweep list freqs=${f0} Hz`,
+          // the input impedance R_low ± 2e-6·R_low, reactance 0 ± 2e-6·R_low
+          `spec re_lo measure=zin_re(1) min=${rlo * (1 - 2e-6)} ohm over=${f0} Hz, ${f0} Hz`,
+          `spec re_hi measure=zin_re(1) max=${rlo * (1 + 2e-6)} ohm over=${f0} Hz, ${f0} Hz`,
+          `spec im_lo measure=zin_im(1) min=${-rlo * 2e-6} ohm over=${f0} Hz, ${f0} Hz`,
+          `spec im_hi measure=zin_im(1) max=${rlo * 2e-6} ohm over=${f0} Hz, ${f0} Hz`,
+        ].join('\n');
+        const r = fit(DesignModel.fromText(text + '\n', 'l.sbx'), { maxEvals: 2000 });
+        expect(r.pass).toBe(true);
+        expect(Math.abs(r.snapped[0]! / l - 1)).toBeLessThan(1e-4);
+        expect(Math.abs(r.snapped[1]! / c - 1)).toBeLessThan(1e-4);
+      }),
+      { seed: 4242, numRuns: 8 },
+    );
+  });
 
   it('on the demo itself (lossy parts, E24 series): the snapped values are the E24 neighbours of the fitted ones', () => {
     const model = DesignModel.load(DEMO);
