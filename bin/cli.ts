@@ -27,6 +27,7 @@ import { runVary, varyBuilder, type VaryArgs } from './commands/vary.js';
 import { formatFromPath } from '../src/io/output.js';
 import { FigureError, parseFigure } from '../src/figures/registry.js';
 import { runSensitivity, sensitivityBuilder, type SensitivityArgs } from './commands/sensitivity.js';
+import { fitBuilder, runFit, type FitArgs } from './commands/fit.js';
 import {
   convertNetwork,
   ConversionError,
@@ -209,6 +210,14 @@ export async function main(argv: string[], io: Io = defaultIo): Promise<number> 
           .example('$0 report circuits/bandpass-2g4.sbx circuits/data/bandpass-2g45-measured.s2p -o overlay.html', 'simulated against measured, overlaid'),
       async (args) => {
         code = await runReport(args as unknown as ReportArgs, io);
+      },
+    )
+    .command(
+      'fit <netlist>',
+      'move the design variables within their ranges until every spec passes, then snap them to their series',
+      (y: Argv) => fitBuilder(y),
+      async (args) => {
+        code = await runFit(args as unknown as FitArgs, io);
       },
     )
     .command(

@@ -89,3 +89,5 @@ export { restampElements, captureElement, addCaptured, PatternChangedError, type
 export type { ValueBinding, Unfollowed } from './elaborate/circuit.js';
 export { parseOver, spacedValues, familyMembers, evaluateFamily, formatValue, FamilyMemberError, type OverAxis, type OverSpacing, type FamilyMember, type FamilyModel, type MemberResult } from './design/family.js';
 export { formatFamilyJson, familyCsvChunks, formatFamilyCsv, familyColumn, FAMILY_SCHEMA_ID, type FamilyVariable, type FamilyResult } from './io/family.js';
+export { fit, parseMargins, specScale, penaltyOf, mulberry32, toUnit, fromUnit, isLogScale, neighbours, HINGE, EXHAUSTIVE_SNAP, type FitOptions, type FitResult, type FitMethod, type FitProgress, type FitStop } from './design/fit.js';
+export { editVariableValues, valueText, valueRange, netlistValue, WriteBackError } from './design/write-back.js';
