@@ -23,6 +23,7 @@ import { ElementValueError, ParameterGraph } from '../params/graph.js';
 import { InputError } from '../diagnostics/diagnostic.js';
 import { stampDifferences, sweepDerivatives } from './sensitivity.js';
 import { parseFigure } from '../figures/registry.js';
+import { entryFigureDerivative } from './figure-derivative.js';
 import { buildPlan, PatternChangedError, restampElements, type StampPlan } from '../plan/plan.js';
 
 export interface DesignOptions extends LoadOptions {
@@ -380,10 +381,15 @@ export function marginDerivatives(specs: Circuit['specs'], network: NetworkData,
     if (!d) {
       // the figure on the worst point and its neighbours (a group delay takes both), or on
       // every point where it needs them all (the unwrapped phase)
-      const [a, b] = needsWholeSweep(r.spec.figure) ? [0, network.frequencies.length - 1] : [Math.max(0, k - 1), Math.min(network.frequencies.length - 1, k + 1)];
-      const w = pointsOf(network, derivatives, a, b);
-      const along = figureAlong(r.spec.figure, w.network, w.derivatives, variables, x);
-      d = Float64Array.from(along.d, (dv) => dv[k - a]!);
+      const parsed = parseFigure(r.spec.figure, { ports: network.ports });
+      const exact = derivatives.map((dS) => entryFigureDerivative(parsed, network, dS, k));
+      if (exact.every((e) => e !== undefined)) d = Float64Array.from(exact as number[]);
+      else {
+        const [a, b] = needsWholeSweep(r.spec.figure) ? [0, network.frequencies.length - 1] : [Math.max(0, k - 1), Math.min(network.frequencies.length - 1, k + 1)];
+        const w = pointsOf(network, derivatives, a, b);
+        const along = figureAlong(r.spec.figure, w.network, w.derivatives, variables, x);
+        d = Float64Array.from(along.d, (dv) => dv[k - a]!);
+      }
       done.set(key, d);
     }
     for (let v = 0; v < nv; v++) gradient[s * nv + v] = (r.spec.bound === 'max' ? -1 : 1) * d[v]!;
@@ -416,9 +422,18 @@ export function figureAlong(figure: string, network: NetworkData, derivatives: F
   const moved = new Float64Array(network.values.length);
   const movedNet: NetworkData = { ...network, values: moved };
   const d = variables.map((v, i) => {
-    const tau = 1e-4 * Math.max(Math.abs(x[i]!), 1e-3 * (v.upper - v.lower));
     const dS = derivatives[i]!;
     const acc = new Float64Array(values.length);
+    // the closed forms of entry figures where they apply (exact), else the difference below
+    let exact = true;
+    for (let k = 0; k < acc.length && exact; k++) {
+      const e = entryFigureDerivative(fig, network, dS, k);
+      if (e === undefined) exact = false;
+      else acc[k] = e;
+    }
+    if (exact) return acc;
+    acc.fill(0);
+    const tau = 1e-4 * Math.max(Math.abs(x[i]!), 1e-3 * (v.upper - v.lower));
     FIG_OFFSETS.forEach((t, q) => {
       for (let k = 0; k < moved.length; k++) moved[k] = network.values[k]! + t * tau * dS[k]!;
       const f = fig.evaluate(movedNet);

@@ -678,6 +678,8 @@ export class SweepRunner {
   refresh(): void {
     this.engine.refresh();
     const L = this.loop;
+    // the refiner's matrix is that of the old values
+    L.refinedAt = -1;
     L.worstRcond = WARN_RCOND;
     L.worstAt = NaN;
     L.fewestDigits = Infinity;
