@@ -195,7 +195,7 @@ describe('scatterbox vary: a member that cannot be evaluated', () => {
   });
 });
 
-describe('the documented example (docs-draft/vary-overlays.md, for the README)', () => {
+describe('the documented example (README, Design exploration)', () => {
   it('prints the summary shown in the docs', () => {
     const r = run(['vary', 'circuits/match-50-75-915.sbx', '--over', 'cshunt=1.5pF,1.64pF,1.8pF']);
     expect(r.code).toBe(0);

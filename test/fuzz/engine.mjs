@@ -827,7 +827,7 @@ export function runCase(lib, c) {
         return { status: 'ok', reason: 'solved (complex references)' };
       }
       writeAll(lib, net, 'solve', false);
-      if (r.circuit.variables.length > 0 && lib.DesignModel) {
+      if (r.circuit.variables?.length > 0 && lib.DesignModel) {
         const bad = designCheck(lib, c, options, sources);
         if (bad) return bad;
         return { status: 'ok', reason: 'solved, written and re-evaluated' };
