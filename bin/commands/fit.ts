@@ -8,6 +8,7 @@
  * (as for `check`).
  */
 import type { Argv } from 'yargs';
+import { PREFIXES } from '../../src/design/family.js';
 import { DesignModel } from '../../src/design/model.js';
 import { fit, parseMargins, type FitMethod, type FitResult } from '../../src/design/fit.js';
 import { editVariableValues, WriteBackError } from '../../src/design/write-back.js';
@@ -77,24 +78,12 @@ export function fitBuilder(y: Argv): Argv {
 
 /** Significant digits of the values in the table. */
 const TABLE_DIGITS = 6;
-const PREFIX = [
-  [1e12, 'T'],
-  [1e9, 'G'],
-  [1e6, 'M'],
-  [1e3, 'k'],
-  [1, ''],
-  [1e-3, 'm'],
-  [1e-6, 'u'],
-  [1e-9, 'n'],
-  [1e-12, 'p'],
-  [1e-15, 'f'],
-] as const;
 
 /** A display scale for a variable: its unit with the engineering prefix of its start value. */
 function displayUnit(v: Variable, x: number): [number, string] {
   if (!v.unit) return [1, ''];
   const a = Math.abs(x) || Math.abs(v.upper) || 1;
-  for (const [f, p] of PREFIX) if (a >= f * 0.9995) return [f, `${p}${v.unit}`];
+  for (const [f, p] of PREFIXES) if (a >= f * 0.9995) return [f, `${p}${v.unit}`];
   return [1e-15, `f${v.unit}`];
 }
 

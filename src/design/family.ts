@@ -241,7 +241,8 @@ export function familyMembers(axes: readonly OverAxis[], texts?: readonly { what
   return out;
 }
 
-const PREFIXES: [number, string][] = [
+/** SI prefixes from tera to femto, largest first, with their factors (µ for micro). */
+export const PREFIXES: readonly (readonly [number, string])[] = [
   [1e12, 'T'],
   [1e9, 'G'],
   [1e6, 'M'],

@@ -13,7 +13,8 @@
  */
 import type { Circuit, ValueBinding } from '../elaborate/circuit.js';
 import { ELEMENTS } from '../elements/registry.js';
-import type { ElementInstance, PropertySpec } from '../elements/types.js';
+import type { ElementInstance } from '../elements/types.js';
+import { signOk } from '../elaborate/values.js';
 import type { SourceSpan } from '../diagnostics/diagnostic.js';
 
 /** New variable values give an element a number it cannot take (a negative capacitance, say). */
@@ -104,19 +105,6 @@ export class ParameterGraph {
   /** The elements whose numbers depend on variable v (ascending indices into Circuit.elements). */
   elementsOf(v: number): number[] {
     return [...new Set(this.byVariable[v]!.map((b) => this.bindings[b]!.element))].sort((a, b) => a - b);
-  }
-}
-
-function signOk(p: PropertySpec, v: number): boolean {
-  switch (p.sign) {
-    case 'positive':
-      return v > 0;
-    case 'nonnegative':
-      return v >= 0;
-    case 'nonzero':
-      return v !== 0;
-    default:
-      return true;
   }
 }
 

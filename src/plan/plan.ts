@@ -407,6 +407,36 @@ function fillBase(base: Float64Array, terminations: readonly Termination[], lo: 
 }
 
 /**
+ * A builder that compiles an element again onto what it had in the plan: its recorded branches
+ * in order, the existing slots (a new one would change the pattern: `fail`), and kernel
+ * admittances handed to `admittance`.
+ */
+function replayBuilder(
+  r: PlanReplay,
+  rec: ElementRecord,
+  lowestOmega: number,
+  fail: () => Error,
+  admittance: StampBuilder['admittance'],
+): { builder: StampBuilder; branchesUsed: () => number } {
+  let bi = 0;
+  const builder: StampBuilder = {
+    branch() {
+      if (bi >= rec.branches.length) throw fail();
+      return rec.branches[bi++]!;
+    },
+    entry(row, col) {
+      if (row < 0 || col < 0) return -1;
+      const s = r.slots.get(row, col);
+      if (s < 0) throw fail();
+      return s;
+    },
+    lowestOmega,
+    admittance,
+  };
+  return { builder, branchesUsed: () => bi };
+}
+
+/**
  * Gives the plan new values for some elements (indices into `circuit.elements`, whose numbers
  * have changed; the plan must have been built with them in `replayable`): each is compiled again
  * onto the slots, branches and kernel places it had, its kernel parameters written in place and
@@ -423,30 +453,16 @@ export function restampElements(plan: StampPlan, circuit: Circuit, changed: Iter
     const el = circuit.elements[e]!;
     const rec = r?.records.get(e);
     if (!r || !rec) throw new PatternChangedError(el.name);
-    let bi = 0;
     let pi = 0;
     const fail = () => new PatternChangedError(el.name);
-    const builder: StampBuilder = {
-      branch() {
-        if (bi >= rec.branches.length) throw fail();
-        return rec.branches[bi++]!;
-      },
-      entry(row, col) {
-        if (row < 0 || col < 0) return -1;
-        const s = r.slots.get(row, col);
-        if (s < 0) throw fail();
-        return s;
-      },
-      lowestOmega,
-      admittance(_a, _c, kernel, params) {
-        const pl = rec.placements[pi++];
-        if (!pl || pl.kernel !== kernel) throw fail();
-        r.params.get(kernel)!.set(params, pl.k * kernel.stride);
-        if (kernel.constant) constantsChanged = true;
-      },
-    };
+    const { builder, branchesUsed } = replayBuilder(r, rec, lowestOmega, fail, (_a, _c, kernel, params) => {
+      const pl = rec.placements[pi++];
+      if (!pl || pl.kernel !== kernel) throw fail();
+      r.params.get(kernel)!.set(params, pl.k * kernel.stride);
+      if (kernel.constant) constantsChanged = true;
+    });
     const st = ELEMENTS.get(el.type)!.compile(mappedElement(el, plan.nodeUnknown), builder);
-    if (bi !== rec.branches.length || pi !== rec.placements.length || (st === undefined) !== (rec.stamper < 0)) throw fail();
+    if (branchesUsed() !== rec.branches.length || pi !== rec.placements.length || (st === undefined) !== (rec.stamper < 0)) throw fail();
     if (st) plan.stampers[rec.stamper] = st;
   }
   if (constantsChanged && r) plan.baseParts = fillBase(plan.baseValues, r.terminations, plan.portTerminationLo, r.constants);
@@ -808,23 +824,9 @@ export function captureElement(plan: StampPlan, circuit: Circuit, e: number): Ca
   if (!r || !rec) throw new PatternChangedError(el.name);
   const fail = () => new PatternChangedError(el.name);
   const out: CapturedStamp = { kernels: [], stampers: [] };
-  let bi = 0;
-  const builder: StampBuilder = {
-    branch() {
-      if (bi >= rec.branches.length) throw fail();
-      return rec.branches[bi++]!;
-    },
-    entry(row, col) {
-      if (row < 0 || col < 0) return -1;
-      const s = r.slots.get(row, col);
-      if (s < 0) throw fail();
-      return s;
-    },
-    lowestOmega: 2 * Math.PI * plan.lowestFrequency,
-    admittance(a, c, kernel, params) {
-      out.kernels.push({ kernel, params: Float64Array.from(params), slots: Int32Array.of(this.entry(a, a), this.entry(c, c), this.entry(a, c), this.entry(c, a)) });
-    },
-  };
+  const { builder } = replayBuilder(r, rec, 2 * Math.PI * plan.lowestFrequency, fail, (a, c, kernel, params) => {
+    out.kernels.push({ kernel, params: Float64Array.from(params), slots: Int32Array.of(builder.entry(a, a), builder.entry(c, c), builder.entry(a, c), builder.entry(c, a)) });
+  });
   const st = ELEMENTS.get(el.type)!.compile(mappedElement(el, plan.nodeUnknown), builder);
   if (st) out.stampers.push(st);
   return out;

@@ -154,32 +154,9 @@ export function renderReport(input: ReportInput | OverlayReportInput): string {
   const passCount = specs.filter((r) => r.pass).length;
   const verdictStatus = specs.length === 0 ? 'none' : passCount === specs.length ? 'pass' : 'fail';
   const verdictText = specs.length === 0 ? 'no specs' : passCount === specs.length ? `all ${specs.length} specs pass` : `${specs.length - passCount} of ${specs.length} specs fail`;
-  const csp = "default-src 'none'; script-src 'unsafe-inline'; style-src 'unsafe-inline'; img-src data:; font-src 'none'; connect-src 'none'; media-src 'none'; object-src 'none'; frame-src 'none'; worker-src 'none'; base-uri 'none'; form-action 'none'";
 
   const out: string[] = [];
-  out.push('<!doctype html>');
-  out.push('<html lang="en">');
-  out.push('<head>');
-  out.push('<meta charset="utf-8">');
-  out.push('<meta name="viewport" content="width=device-width, initial-scale=1">');
-  out.push(`<meta http-equiv="Content-Security-Policy" content="${csp}">`);
-  out.push('<meta name="generator" content="scatterbox">');
-  out.push(`<title>${escapeXml(title)} · scatterbox report</title>`);
-  out.push('<link rel="icon" href="data:,">');
-  out.push(`<style>/* uPlot ${escapeXml(assets.version)} (MIT licence) */\n${styleText(assets.css)}</style>`);
-  out.push(`<style>${styleText(REPORT_CSS)}</style>`);
-  out.push('</head>');
-  out.push('<body>');
-  out.push('<header class="sbx-head">');
-  out.push('<div class="sbx-titles">');
-  out.push('<p class="sbx-kicker">scatterbox · network report</p>');
-  out.push(`<h1 data-testid="title">${escapeXml(title)}</h1>`);
-  out.push(`<div class="sbx-source">source <code data-testid="source">${escapeXml(input.source)}</code></div>`);
-  out.push('</div>');
-  out.push(`<div class="verdict" data-testid="verdict" data-status="${verdictStatus}">${escapeXml(verdictText)}</div>`);
-  out.push('</header>');
-  out.push('<main>');
-  out.push('<noscript><p>Scripts are off: the plots of magnitude, phase and group delay need them. The summary, the Smith chart and the tables are shown as they are.</p></noscript>');
+  pageTop(out, { title, kicker: 'network report', source: input.source, verdictStatus, verdictText, css: styleText(REPORT_CSS), assets });
 
   // summary
   out.push('<section class="summary" data-testid="summary">');
@@ -198,30 +175,73 @@ export function renderReport(input: ReportInput | OverlayReportInput): string {
   out.push('</section>');
 
   // plots
-  out.push('<section class="response" data-testid="response">');
-  out.push('<h2>Response</h2>');
-  out.push('<div class="toolbar">');
-  out.push('<label><input type="checkbox" data-testid="toggle-limits" checked> spec limits and failing bands</label>');
-  out.push('<button type="button" data-testid="reset-zoom">reset zoom</button>');
-  out.push('<span class="hint">Drag across a plot to zoom in; click to place a marker; click a legend entry to hide or show a trace.</span>');
-  out.push('</div>');
-  out.push('<div class="readout" data-testid="readout" aria-live="polite"></div>');
-  out.push(plotFigure('db', 'Magnitude', '|S| in dB', 300));
-  out.push('<div class="charts">');
-  out.push(smithFigure(model, series));
-  out.push('<div class="stack">');
-  out.push(plotFigure('phase', 'Phase', 'degrees, wrapped to ±180°', 200));
   const gdOf = model.plots.gd.some((k) => model.entries[k]!.i !== model.entries[k]!.j) ? 'the transmissions' : 'the reflections';
-  out.push(plotFigure('gd', 'Group delay', `${gdUnit.unit}, −dφ/dω of ${gdOf}`, 200));
-  out.push('</div>');
-  out.push('</div>');
-  out.push('</section>');
+  responseSection(out, { hint: '', legend: '', smith: smithFigure(model, series), gdSub: `${gdUnit.unit}, −dφ/dω of ${gdOf}` });
 
   // table
   out.push('<section class="values" data-testid="values">');
   out.push('<h2>Values at selected frequencies</h2>');
   out.push(frequencyTable(model, series, input.tableFrequencies ?? defaultTableFrequencies(f, specs)));
   out.push('</section>');
+  pageEnd(out, assets, data);
+  return out.join('\n') + '\n';
+}
+
+/** The page up to its main part: head (styles inline, the content policy), header with the verdict. */
+function pageTop(
+  out: string[],
+  o: { title: string; kicker: string; source: string; verdictStatus: string; verdictText: string; css: string; assets: { css: string; version: string } },
+): void {
+  const csp = "default-src 'none'; script-src 'unsafe-inline'; style-src 'unsafe-inline'; img-src data:; font-src 'none'; connect-src 'none'; media-src 'none'; object-src 'none'; frame-src 'none'; worker-src 'none'; base-uri 'none'; form-action 'none'";
+  out.push('<!doctype html>');
+  out.push('<html lang="en">');
+  out.push('<head>');
+  out.push('<meta charset="utf-8">');
+  out.push('<meta name="viewport" content="width=device-width, initial-scale=1">');
+  out.push(`<meta http-equiv="Content-Security-Policy" content="${csp}">`);
+  out.push('<meta name="generator" content="scatterbox">');
+  out.push(`<title>${escapeXml(o.title)} · scatterbox report</title>`);
+  out.push('<link rel="icon" href="data:,">');
+  out.push(`<style>/* uPlot ${escapeXml(o.assets.version)} (MIT licence) */\n${styleText(o.assets.css)}</style>`);
+  out.push(`<style>${o.css}</style>`);
+  out.push('</head>');
+  out.push('<body>');
+  out.push('<header class="sbx-head">');
+  out.push('<div class="sbx-titles">');
+  out.push(`<p class="sbx-kicker">scatterbox · ${escapeXml(o.kicker)}</p>`);
+  out.push(`<h1 data-testid="title">${escapeXml(o.title)}</h1>`);
+  out.push(`<div class="sbx-source">source <code data-testid="source">${escapeXml(o.source)}</code></div>`);
+  out.push('</div>');
+  out.push(`<div class="verdict" data-testid="verdict" data-status="${o.verdictStatus}">${escapeXml(o.verdictText)}</div>`);
+  out.push('</header>');
+  out.push('<main>');
+  out.push('<noscript><p>Scripts are off: the plots of magnitude, phase and group delay need them. The summary, the Smith chart and the tables are shown as they are.</p></noscript>');
+}
+
+/** The response section: toolbar, (legend,) readout, magnitude, Smith chart, phase and group delay. */
+function responseSection(out: string[], o: { hint: string; legend: string; smith: string; gdSub: string }): void {
+  out.push('<section class="response" data-testid="response">');
+  out.push('<h2>Response</h2>');
+  out.push('<div class="toolbar">');
+  out.push('<label><input type="checkbox" data-testid="toggle-limits" checked> spec limits and failing bands</label>');
+  out.push('<button type="button" data-testid="reset-zoom">reset zoom</button>');
+  out.push(`<span class="hint">${o.hint}Drag across a plot to zoom in; click to place a marker; click a legend entry to hide or show a trace.</span>`);
+  out.push('</div>');
+  if (o.legend) out.push(o.legend);
+  out.push('<div class="readout" data-testid="readout" aria-live="polite"></div>');
+  out.push(plotFigure('db', 'Magnitude', '|S| in dB', 300));
+  out.push('<div class="charts">');
+  out.push(o.smith);
+  out.push('<div class="stack">');
+  out.push(plotFigure('phase', 'Phase', 'degrees, wrapped to ±180°', 200));
+  out.push(plotFigure('gd', 'Group delay', o.gdSub, 200));
+  out.push('</div>');
+  out.push('</div>');
+  out.push('</section>');
+}
+
+/** The end of the page: footer, the data, uPlot and the page's own script. */
+function pageEnd(out: string[], assets: { js: string; version: string }, data: unknown): void {
   out.push('</main>');
   out.push(
     `<footer>Made by scatterbox. Everything this page shows is inside this one file (data, scripts, styles); it makes no network requests. Plots drawn with uPlot ${escapeXml(assets.version)}.</footer>`,
@@ -231,7 +251,6 @@ export function renderReport(input: ReportInput | OverlayReportInput): string {
   out.push(`<script>${scriptText(CLIENT_SCRIPT)}</script>`);
   out.push('</body>');
   out.push('</html>');
-  return out.join('\n') + '\n';
 }
 
 function portsCard(s: NetworkData, circuit: Circuit | undefined): string {
@@ -521,32 +540,9 @@ function renderOverlayReport(input: OverlayReportInput): string {
           ? 'every spec passes'
           : `all ${withSpecs.length} inputs pass their specs`
         : `${withSpecs.length - passingInputs} of ${withSpecs.length} inputs fail a spec`;
-  const csp = "default-src 'none'; script-src 'unsafe-inline'; style-src 'unsafe-inline'; img-src data:; font-src 'none'; connect-src 'none'; media-src 'none'; object-src 'none'; frame-src 'none'; worker-src 'none'; base-uri 'none'; form-action 'none'";
 
   const out: string[] = [];
-  out.push('<!doctype html>');
-  out.push('<html lang="en">');
-  out.push('<head>');
-  out.push('<meta charset="utf-8">');
-  out.push('<meta name="viewport" content="width=device-width, initial-scale=1">');
-  out.push(`<meta http-equiv="Content-Security-Policy" content="${csp}">`);
-  out.push('<meta name="generator" content="scatterbox">');
-  out.push(`<title>${escapeXml(title)} · scatterbox report</title>`);
-  out.push('<link rel="icon" href="data:,">');
-  out.push(`<style>/* uPlot ${escapeXml(assets.version)} (MIT licence) */\n${styleText(assets.css)}</style>`);
-  out.push(`<style>${styleText(REPORT_CSS)}${styleText(OVERLAY_CSS)}</style>`);
-  out.push('</head>');
-  out.push('<body>');
-  out.push('<header class="sbx-head">');
-  out.push('<div class="sbx-titles">');
-  out.push(`<p class="sbx-kicker">scatterbox · ${parts.length === 1 ? 'network report' : `${parts.length} inputs overlaid`}</p>`);
-  out.push(`<h1 data-testid="title">${escapeXml(title)}</h1>`);
-  out.push(`<div class="sbx-source">source <code data-testid="source">${escapeXml(source)}</code></div>`);
-  out.push('</div>');
-  out.push(`<div class="verdict" data-testid="verdict" data-status="${verdictStatus}">${escapeXml(verdictText)}</div>`);
-  out.push('</header>');
-  out.push('<main>');
-  out.push('<noscript><p>Scripts are off: the plots of magnitude, phase and group delay need them. The summary, the Smith chart and the tables are shown as they are.</p></noscript>');
+  pageTop(out, { title, kicker: parts.length === 1 ? 'network report' : `${parts.length} inputs overlaid`, source, verdictStatus, verdictText, css: `${styleText(REPORT_CSS)}${styleText(OVERLAY_CSS)}`, assets });
 
   // the inputs
   out.push('<section class="summary" data-testid="summary">');
@@ -569,40 +565,15 @@ function renderOverlayReport(input: OverlayReportInput): string {
   out.push('</section>');
 
   // plots
-  out.push('<section class="response" data-testid="response">');
-  out.push('<h2>Response</h2>');
-  out.push('<div class="toolbar">');
-  out.push('<label><input type="checkbox" data-testid="toggle-limits" checked> spec limits and failing bands</label>');
-  out.push('<button type="button" data-testid="reset-zoom">reset zoom</button>');
-  out.push('<span class="hint">Colour: the input; dash: the entry. Drag across a plot to zoom in; click to place a marker; click a legend entry to hide or show a trace.</span>');
-  out.push('</div>');
-  out.push(legendBlock(parts, traces, overlay.dashOf));
-  out.push('<div class="readout" data-testid="readout" aria-live="polite"></div>');
-  out.push(plotFigure('db', 'Magnitude', '|S| in dB', 300));
-  out.push('<div class="charts">');
-  out.push(overlaySmithFigure(parts, traces, smith));
-  out.push('<div class="stack">');
-  out.push(plotFigure('phase', 'Phase', 'degrees, wrapped to ±180°', 200));
   const gdOf = plots.gd.some((k) => data.entries[k]!.i !== data.entries[k]!.j) ? 'the transmissions' : 'the reflections';
-  out.push(plotFigure('gd', 'Group delay', `${gdUnit.unit}, −dφ/dω of ${gdOf}`, 200));
-  out.push('</div>');
-  out.push('</div>');
-  out.push('</section>');
+  responseSection(out, { hint: 'Colour: the input; dash: the entry. ', legend: legendBlock(parts, traces, overlay.dashOf), smith: overlaySmithFigure(parts, traces, smith), gdSub: `${gdUnit.unit}, −dφ/dω of ${gdOf}` });
 
   // table
   out.push('<section class="values" data-testid="values">');
   out.push('<h2>Values at selected frequencies</h2>');
   out.push(overlayFrequencyTable(traces, plots.db, input.tableFrequencies ?? defaultTableFrequencies(f, allSpecs)));
   out.push('</section>');
-  out.push('</main>');
-  out.push(
-    `<footer>Made by scatterbox. Everything this page shows is inside this one file (data, scripts, styles); it makes no network requests. Plots drawn with uPlot ${escapeXml(assets.version)}.</footer>`,
-  );
-  out.push(`<script type="application/json" id="sbx-data">${jsonBlock(data)}</script>`);
-  out.push(`<script>/* uPlot ${escapeXml(assets.version)}, MIT licence */\n${scriptText(assets.js)}</script>`);
-  out.push(`<script>${scriptText(CLIENT_SCRIPT)}</script>`);
-  out.push('</body>');
-  out.push('</html>');
+  pageEnd(out, assets, data);
   return out.join('\n') + '\n';
 }
 
