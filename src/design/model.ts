@@ -193,13 +193,19 @@ export class DesignModel {
     return this.variables.map((v, i) => setText(v, values[i]!));
   }
 
-  /** The circuit at the current values. */
+  /**
+   * The circuit at the current values: its elements, and its variables and their entries in
+   * `parameters` (on the fast path, the parameters computed from the variables keep their
+   * elaborated values in that list: the elements hold the numbers that count).
+   */
   currentCircuit(): Circuit {
     const fast = this.fast;
     if (fast) {
       this.update(fast);
       const elements = fast.working.elements.map((el) => ({ ...el, props: { ...el.props }, at: { ...el.at } }));
-      return { ...fast.working, elements, variables: this.variables.map((v, i) => ({ ...v, value: this.current[i]! })) };
+      const at = new Map(this.variables.map((v, i) => [v.name, this.current[i]!]));
+      const parameters = fast.working.parameters.map((p) => (at.has(p.name) ? { ...p, value: at.get(p.name)! } : p));
+      return { ...fast.working, elements, parameters, variables: this.variables.map((v, i) => ({ ...v, value: this.current[i]! })) };
     }
     const set = [...(this.options.set ?? []).filter((s) => !this.variables.some((v) => s.trim().startsWith(`${v.name}=`) || s.trim().startsWith(`${v.name} `))), ...this.setOptions()];
     return loadNetlist(this.text, this.file, { ...this.options, set }).circuit;
@@ -269,7 +275,7 @@ export class DesignModel {
   private derivativesAt(fast: FastPath, key: string, freqs: Float64Array, points: Int32Array | undefined, length: number): Float64Array[] {
     this.update(fast);
     const runner = this.runner(fast, key, freqs);
-    const diffs = stampDifferences(fast.plan, fast.working, fast.graph, this.variables, this.current);
+    const diffs = stampDifferences(fast.plan, fast.working, fast.graph, this.variables, this.current, (fast.scratch ??= fast.graph.workingCopy(fast.working)));
     const derivatives = this.variables.map(() => new Float64Array(length));
     sweepDerivatives(runner, diffs, derivatives, points);
     return derivatives;
@@ -454,6 +460,8 @@ interface FastPath {
   runners: Map<string, SweepRunner>;
   /** The sweep points the specs look at (empty: the whole sweep is needed). */
   specPoints: Float64Array;
+  /** A second working copy, moved about by the derivatives (made on first use). */
+  scratch?: Circuit;
 }
 
 function sameValues(a: Float64Array, b: Float64Array): boolean {

@@ -46,10 +46,10 @@ export interface StampDifferences {
 
 /**
  * Captures the stamps needed for dA/dθ at the variable values x: for every variable, its elements
- * compiled at x ± h and x ± 2h (in a scratch copy of the circuit; the plan is not changed).
+ * compiled at x ± h and x ± 2h (in `scratch`, a working copy of the circuit the graph may change,
+ * kept by a caller that differentiates often; the plan is not changed).
  */
-export function stampDifferences(plan: StampPlan, circuit: Circuit, graph: ParameterGraph, variables: readonly Variable[], x: Float64Array): StampDifferences {
-  const scratch = graph.workingCopy(circuit);
+export function stampDifferences(plan: StampPlan, circuit: Circuit, graph: ParameterGraph, variables: readonly Variable[], x: Float64Array, scratch = graph.workingCopy(circuit)): StampDifferences {
   const moved = Float64Array.from(x);
   const perVariable = variables.map((v, i) => {
     const h = stepFor(v, x[i]!);
