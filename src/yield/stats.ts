@@ -331,6 +331,6 @@ export function pearson(x: ArrayLike<number>, y: ArrayLike<number>, count = Math
     sxy += dx * dy;
   }
   if (sxx === 0 || syy === 0) return NaN;
-  const r = sxy / Math.sqrt(sxx * syy);
+  const r = sxy / (Math.sqrt(sxx) * Math.sqrt(syy)); // separate roots: no underflow of sxx·syy
   return r > 1 ? 1 : r < -1 ? -1 : r;
 }
