@@ -203,6 +203,11 @@ describe('draws keyed by (seed, sample, draw)', () => {
     expect(() => uniformAt(0, 2 ** 53, 0)).toThrow(/the sample index/);
     expect(() => uniformAt(0, 0, NaN)).toThrow(/the draw index/);
     expect(() => fillUniform(0, 0, 0, new Float64Array(2), 1, 2)).toThrow(/the output holds 2 values/);
+    expect(() => fillUniform(0, 0, 0, new Float64Array(2), 3)).toThrow(/the output holds 2 values/);
+    expect(() => fillUniform(0, 0, 2 ** 53 - 2, new Float64Array(3))).toThrow(/the last draw index/);
+    const end = new Float64Array(2);
+    fillUniform(0, 0, 2 ** 53 - 2, end); // the last two draw indices are usable
+    expect(end[1]).toBe(uniformAt(0, 0, 2 ** 53 - 1));
   });
 });
 

@@ -131,8 +131,9 @@ export function fillUniform(
   checkIndex(seed, 'the seed');
   checkIndex(k, 'the sample index');
   checkIndex(d0, 'the draw index');
-  checkIndex(d0 + count, 'the last draw index');
-  if (offset < 0 || offset + count > out.length) {
+  if (count > 0) checkIndex(d0 + (count - 1), 'the last draw index');
+  if (!Number.isSafeInteger(offset) || !Number.isSafeInteger(count) || offset < 0 || count < 0 ||
+    offset + count > out.length) {
     throw new RangeError(`the output holds ${out.length} values; ${count} from ${offset} do not fit`);
   }
   const s0 = seed >>> 0, s1 = Math.floor(seed / TWO32);

@@ -191,8 +191,8 @@ export function percentileOfSorted(sorted: ArrayLike<number>, p: number, count =
 
 /**
  * Sorts `scratch[0..count)` ascending in place (numeric order; NaN rejected) and writes the
- * percentiles at `levels` into `out`. Allocation-free apart from the sort itself, which works in
- * place on the typed array.
+ * percentiles at `levels` into `out`. The sort works in place on the typed array; the only
+ * allocation is a subarray view when `count` is less than the array's length.
  */
 export function percentilesInPlace(
   scratch: Float64Array,
