@@ -54,7 +54,7 @@ export interface ElaborateOptions {
 }
 
 /** Statement keywords that are not elements. */
-export const STATEMENT_KEYWORDS = ['title', 'let', 'lot', 'port', 'sweep', 'spec', 'block', 'end', 'include'] as const;
+export const STATEMENT_KEYWORDS = ['title', 'let', 'port', 'sweep', 'spec', 'block', 'end', 'include', 'lot'] as const;
 
 /** A parameter of a scope: its value (null when its definition failed) and where it was defined. */
 export interface ParamEntry {
