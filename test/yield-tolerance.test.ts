@@ -221,6 +221,14 @@ describe('tolerance errors', () => {
     expect(errs.length).toBe(22);
   });
 
+  it('refuses a tolerance on a text argument (a choice), at its `tol`', () => {
+    const data = JSON.stringify(new URL('../circuits/data/bandpass-2g45-measured.s2p', import.meta.url).pathname);
+    const text = net(`datafile u1 file=${data} p1=in p2=out interp=polar tol 5%`);
+    const errs = failing(text);
+    expect(errs.map((d) => [d.message, at(text, d)])).toEqual([['`interp` is text: it has no tolerance', 'tol']]);
+    expect(errs[0]!.help).toMatch(/value=2\.2 pF tol 5%/);
+  });
+
   it('explains grammar mistakes in a tolerance', () => {
     for (const [line, place, message] of [
       ['let a = 2 pF tol', 'tol', /^the line ends where a value was expected$/],
