@@ -436,9 +436,9 @@ describe('a wrong part fails a spec', () => {
   it('band-pass with the middle resonator capacitor off by 7 % (edited copy): the band-edge specs fail where the solved S says', () => {
     const out = fresh('bandpass-c2');
     const text = readFileSync(join(circuits, 'bandpass-2g4.sbx'), 'utf8');
-    const line = 'capacitor c2  a=r2 b=ground value=c2   q=qc at f0';
+    const line = 'capacitor c2  a=r2 b=ground value=c2   tol 2% lot caps  q=qc at f0';
     expect(text).toContain(line);
-    const edited = text.replace(line, 'capacitor c2  a=r2 b=ground value=2.5 pF q=qc at f0'); // nominal 2.34 pF
+    const edited = text.replace(line, 'capacitor c2  a=r2 b=ground value=2.5 pF tol 2% lot caps  q=qc at f0'); // nominal 2.34 pF
     const file = join(out, 'bandpass-c2.sbx');
     writeFileSync(file, edited);
     const r = run(['check', file, '--quiet', '--json', join(out, 'r.json'), '--junit', join(out, 'r.xml')]);

@@ -27,7 +27,27 @@ export interface RangeClause {
   span: SourceSpan;
 }
 
-/** `key=value[, value…] [at expr] [range]`, or `key="text"` (then `values` is empty and `text` is set). */
+/**
+ * A tolerance after a value, `tol [normal] AMOUNT [%] [cut K] [lot NAME]`, or a lot's own
+ * (`lot caps tol normal 3%`).
+ */
+export interface ToleranceClause {
+  /** `normal`: AMOUNT is a standard deviation; otherwise the half-width of a uniform spread. */
+  normal: boolean;
+  amount: Expr;
+  /** `%` after the amount: relative to the value. */
+  percent: boolean;
+  /** `cut K`: a normal spread truncated at K standard deviations. */
+  cut?: Expr;
+  /** `lot NAME`: the part comes from that lot (shares its draw). */
+  lot?: { name: string; span: SourceSpan };
+  /** The `tol` word. */
+  keywordSpan: SourceSpan;
+  /** From `tol` to the end of the clause. */
+  span: SourceSpan;
+}
+
+/** `key=value[, value…] [at expr] [range] [tolerance]`, or `key="text"` (then `values` is empty and `text` is set). */
 export interface KeyArg {
   kind: 'key';
   key: string;
@@ -36,6 +56,8 @@ export interface KeyArg {
   at?: Expr;
   /** `vary … to …`: the value is a design variable (only on `let`). */
   range?: RangeClause;
+  /** `tol …`: the value's tolerance. */
+  tolerance?: ToleranceClause;
   /** The quoted text of `key="text"`. */
   text?: { value: string; span: SourceSpan };
   span: SourceSpan;
@@ -55,6 +77,8 @@ export interface Statement {
   keyword: string;
   keywordSpan: SourceSpan;
   label?: { text: string; isNumber: boolean; span: SourceSpan };
+  /** A tolerance of the statement's own, after the label (only `lot` takes one). */
+  tolerance?: ToleranceClause;
   args: Arg[];
   span: SourceSpan;
 }

@@ -86,9 +86,13 @@ function tokenize(line: string): number {
   return n;
 }
 
-/** `vary`, `to`, `series`, `step` end a value (the grammar's range words): never a unit. */
+/**
+ * `vary`, `to`, `series`, `step` (the grammar's range words) and `tol`, `normal`, `cut`, `lot`
+ * (its tolerance words) end a value: never a unit. A line that goes on with one of them after a
+ * value is not plain: the grammar reads it.
+ */
 function isRangeWord(w: string): boolean {
-  return w === 'vary' || w === 'to' || w === 'series' || w === 'step';
+  return w === 'vary' || w === 'to' || w === 'series' || w === 'step' || w === 'tol' || w === 'normal' || w === 'cut' || w === 'lot';
 }
 
 function span(file: string, lineNo: number, t: number): SourceSpan {

@@ -3,7 +3,7 @@ import { parseLines, type ParsedLine } from '../parse/parser.js';
 import { RANGE_WORDS } from '../parse/lexer.js';
 import { MAX_EXPRESSION_DEPTH } from '../limits.js';
 import { DiagnosticBag, type Diagnostic, type SourceSpan } from '../diagnostics/diagnostic.js';
-import { joinSpans, unquote, type Arg, type Expr, type NetlistAst, type NetlistItems, type PendingLine, type RangeClause, type Statement, type StatementItem } from './ast.js';
+import { joinSpans, unquote, type Arg, type Expr, type NetlistAst, type NetlistItems, type PendingLine, type RangeClause, type Statement, type ToleranceClause, type StatementItem } from './ast.js';
 import { BLANK, internKeyword, readSimpleLine, statementOf } from './fast.js';
 
 type Children = Record<string, (CstNode | IToken)[] | undefined>;
@@ -33,9 +33,12 @@ class AstBuilder {
     const args = nodes(c, 'argument').map((a) => this.argument(a));
     const keywordSpan = tokSpan(this.file, kw);
     let span = keywordSpan;
+    const tolNode = nodes(c, 'tolerance')[0];
+    const tolerance = tolNode ? this.tolerance(tolNode) : undefined;
+    if (tolerance) span = joinSpans(span, tolerance.span);
     const last = args[args.length - 1];
     if (last) span = joinSpans(span, last.span);
-    return {
+    const st: Statement = {
       keyword: kw.image,
       keywordSpan,
       label: labelTok
@@ -44,6 +47,8 @@ class AstBuilder {
       args,
       span,
     };
+    if (tolerance) st.tolerance = tolerance;
+    return st;
   }
 
   argument(node: CstNode): Arg {
@@ -65,12 +70,37 @@ class AstBuilder {
     const at = atNode ? this.expression(atNode) : undefined;
     const keySpan = tokSpan(this.file, key);
     const rangeNode = nodes(c, 'range')[0];
-    if (rangeNode) {
-      const range = this.range(rangeNode);
-      return { kind: 'key', key: key.image, keySpan, values, at, range, span: joinSpans(keySpan, range.span) };
+    const tolNode = nodes(c, 'tolerance')[0];
+    const range = rangeNode ? this.range(rangeNode) : undefined;
+    const tolerance = tolNode ? this.tolerance(tolNode) : undefined;
+    if (range || tolerance) {
+      const arg: Arg = { kind: 'key', key: key.image, keySpan, values, at, span: joinSpans(keySpan, (tolerance ?? range)!.span) };
+      if (range) arg.range = range;
+      if (tolerance) arg.tolerance = tolerance;
+      return arg;
     }
     const lastExpr = at ?? values[values.length - 1]!;
     return { kind: 'key', key: key.image, keySpan, values, at, span: joinSpans(keySpan, lastExpr.span) };
+  }
+
+  tolerance(node: CstNode): ToleranceClause {
+    const c = node.children as Children;
+    const keywordSpan = tokSpan(this.file, toks(c, 'Tol')[0]!);
+    const amount = this.expression(nodes(c, 'amount')[0]!);
+    const pct = toks(c, 'Percent')[0];
+    const cutNode = nodes(c, 'cut')[0];
+    const lotTok = toks(c, 'lotName')[0];
+    const t: ToleranceClause = { normal: toks(c, 'Normal').length > 0, amount, percent: pct !== undefined, keywordSpan, span: joinSpans(keywordSpan, amount.span) };
+    if (pct) t.span = joinSpans(keywordSpan, tokSpan(this.file, pct));
+    if (cutNode) {
+      t.cut = this.expression(cutNode);
+      t.span = joinSpans(keywordSpan, t.cut.span);
+    }
+    if (lotTok) {
+      t.lot = { name: lotTok.image, span: tokSpan(this.file, lotTok) };
+      t.span = joinSpans(keywordSpan, t.lot.span);
+    }
+    return t;
   }
 
   range(node: CstNode): RangeClause {
@@ -177,6 +207,11 @@ const TOKEN_WORDS = new Map(Object.entries({
   To: '`to`',
   Series: '`series`',
   Step: '`step`',
+  Tol: '`tol`',
+  Normal: '`normal`',
+  Cut: '`cut`',
+  Lot: '`lot`',
+  Percent: '`%`',
   Plus: '`+`',
   Minus: '`-`',
   Star: '`*`',
@@ -191,7 +226,11 @@ const TOKEN_WORDS = new Map(Object.entries({
 const RANGE_AFTER = new Set(['To', 'Series', 'Step']);
 
 /** Tokens that are names (the range words are names too). */
-const NAME_TOKENS = new Set(['Identifier', 'Vary', 'To', 'Series', 'Step']);
+const NAME_TOKENS = new Set(['Identifier', 'Vary', 'To', 'Series', 'Step', 'Tol', 'Normal', 'Cut', 'Lot']);
+
+/** The words inside a tolerance after `tol`. */
+const TOLERANCE_AFTER = new Set(['Normal', 'Cut', 'Lot', 'Percent']);
+const TOLERANCE_HELP = 'a tolerance follows a value: `tol 5%`, `tol 0.1 pF`, `tol normal 2%`, `tol normal 2% cut 3`, then optionally `lot NAME`';
 
 function describe(t: IToken): string {
   if (t.tokenType.name === 'EOF') return 'the end of the line';
@@ -225,6 +264,16 @@ function explain(e: IRecognitionException, line: IToken[]): { message: string; h
   // `let x = 3 to 5`: a range word where a range does not begin (it was read as a key)
   if (prev && RANGE_AFTER.has(prev.tokenType.name) && /Expecting token of type --> Equals <--/.test(e.message)) {
     return { message: `unexpected \`${image(prev)}\``, help: 'a design variable is written `let name = value vary LOW to HIGH`, then optionally `series E24` or `step S`', at: prev };
+  }
+  // `cut`, `lot`, `normal` or `%` out of place: read as a key, or left over
+  if (prev && TOLERANCE_AFTER.has(prev.tokenType.name) && /Expecting token of type --> Equals <--/.test(e.message)) {
+    return { message: `unexpected \`${image(prev)}\``, help: TOLERANCE_HELP, at: prev };
+  }
+  if ((e.name === 'NotAllInputParsedException' || /EOF/.test(e.message)) && TOLERANCE_AFTER.has(e.token.tokenType.name)) {
+    return { message: `unexpected ${found}`, help: TOLERANCE_HELP, at };
+  }
+  if (prev?.tokenType.name === 'Tol' && !atEnd && e.name === 'NoViableAltException') {
+    return { message: `unexpected ${found}: expected the tolerance's amount`, help: TOLERANCE_HELP, at };
   }
   if (e.name === 'NotAllInputParsedException' || /EOF/.test(e.message)) {
     if (e.token.tokenType.name === 'Equals' && prev) {

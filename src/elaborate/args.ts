@@ -9,7 +9,7 @@ import type { SourceSpan } from '../diagnostics/diagnostic.js';
 import { closest } from '../diagnostics/suggest.js';
 import type { Compiled } from '../params/compile.js';
 import { evaluate, literalToSI, toSICached } from './evaluate.js';
-import { evalScope, follow } from './passes/parameters.js';
+import { evalScope, follow, unfollowedBy } from './passes/parameters.js';
 import type { Context, ElabState } from './state.js';
 import { article, unitHelp } from './values.js';
 
@@ -62,10 +62,10 @@ export function numberArg(s: ElabState, a: KeyArg, unit: string | null, quantity
     const q = evaluate(e, evalScope(s, ctx), s.bag, unit);
     if (q === undefined) return undefined;
     r = toSICached(q, unit);
-    if (!('error' in r) && s.variables.length > 0) {
+    if (!('error' in r) && (s.variables.length > 0 || s.randomInputs.length > 0)) {
       const c = follow(s, e, ctx, `\`${a.key}\``);
       if (c && onFollow) onFollow(c, e.span);
-      else if (c) s.unfollowed.push({ what: `\`${a.key}\``, span: e.span, reason: 'only the numbers of elements follow the variables' });
+      else if (c) unfollowedBy(s, c.deps.some((d) => d >= 0), { what: `\`${a.key}\``, span: e.span, reason: 'only the numbers of elements follow the variables' });
     }
   }
   if ('error' in r) {
@@ -89,7 +89,7 @@ export function atArg(s: ElabState, a: KeyArg, ctx: Context, onFollow?: (c: Comp
     const q = evaluate(e, evalScope(s, ctx), s.bag, 'Hz');
     if (q === undefined) return undefined;
     r = toSICached(q, 'Hz');
-    if (!('error' in r) && s.variables.length > 0) {
+    if (!('error' in r) && (s.variables.length > 0 || s.randomInputs.length > 0)) {
       const c = follow(s, e, ctx, `the frequency after \`at\``);
       if (c) onFollow?.(c, e.span);
     }

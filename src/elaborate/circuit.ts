@@ -73,6 +73,62 @@ export interface Unfollowed {
   reason: string;
 }
 
+/**
+ * How a toleranced number spreads around its nominal value, in SI units of the value. Uniform:
+ * within ±`relative`·nominal or ±`absolute`. Normal: standard deviation `relativeSigma`·nominal
+ * or `sigma`, truncated at ±`cut` standard deviations when given. Exactly one of each pair is set.
+ */
+export type ToleranceDistribution =
+  | { kind: 'uniform'; relative?: number; absolute?: number }
+  | { kind: 'normal'; relativeSigma?: number; sigma?: number; cut?: number };
+
+/**
+ * A tolerance (`tol …`) as written in the netlist, for a later stage to draw from.
+ * - on a `let` parameter: `input` is its index in the value vector the compiled bindings read —
+ *   a design variable's own index (`variable` is then set too), or a random input's (see
+ *   {@link RandomInput});
+ * - on an element's number: the element (an index into Circuit.elements) and the property key,
+ *   whose number the drawn value replaces (`nominal` being what elaboration gave it).
+ */
+export interface Tolerance {
+  target: { kind: 'parameter'; name: string; input: number; variable?: number } | { kind: 'element'; element: number; key: string };
+  distribution: ToleranceDistribution;
+  /** The lot the part comes from: its draw is shared with the lot's other parts (see {@link Lot}). */
+  lot?: string;
+  /** The value the tolerance spreads around, in SI units. */
+  nominal: number;
+  /** The SI unit of the value ('F', 'H', 'ohm'…), or null for a plain number. */
+  unit: string | null;
+  /** The `tol …` clause. */
+  span: SourceSpan;
+}
+
+/**
+ * A lot (`lot caps tol normal 3%`): its parts share one draw of this relative spread, each part's
+ * own tolerance added on top.
+ */
+export interface Lot {
+  name: string;
+  distribution: ToleranceDistribution;
+  span: SourceSpan;
+}
+
+/**
+ * A toleranced `let` parameter that is not a design variable: a node of the compiled parameter
+ * graph like a variable, at index `index` (after the V design variables: V, V+1, …) of the value
+ * vector the bindings read. A vector of the V variable values alone leaves it at its nominal
+ * value, so the design tools see the circuit as before.
+ */
+export interface RandomInput {
+  name: string;
+  /** The nominal value, in SI units. */
+  value: number;
+  unit: string | null;
+  index: number;
+  /** The `tol` word. */
+  span: SourceSpan;
+}
+
 /** The elaborated circuit: plain numbers in SI units, nodes as indices (ground = -1). */
 export interface Circuit {
   file: string;
@@ -95,6 +151,17 @@ export interface Circuit {
   bindings: ValueBinding[];
   /** Numbers that depend on variables but that re-evaluation cannot follow (see {@link Unfollowed}). */
   unfollowed: Unfollowed[];
+  /** The tolerances (`tol …`), in netlist order (empty without). */
+  tolerances: Tolerance[];
+  /** The lots parts are drawn from (`lot NAME tol …`). */
+  lots: Lot[];
+  /**
+   * The toleranced parameters that are not design variables, in netlist order: the bindings may
+   * depend on them (indices from `variables.length` up).
+   */
+  randomInputs: RandomInput[];
+  /** Like `unfollowed`, for numbers that depend on random inputs only (no design variable). */
+  randomUnfollowed: Unfollowed[];
   /** Warnings found while elaborating (errors throw instead). */
   warnings: Diagnostic[];
 }

@@ -8,6 +8,7 @@ import { parameterValues } from './passes/parameters.js';
 import { numberPorts } from './passes/ports.js';
 import { specsPass } from './passes/specs.js';
 import { sweepPass } from './passes/sweep.js';
+import { finishTolerances } from './passes/tolerances.js';
 import { runStatements } from './passes/walk.js';
 import { createState, type ElaborateOptions } from './state.js';
 
@@ -25,6 +26,8 @@ export { DataFileError, STATEMENT_KEYWORDS, type ElaborateOptions, type Override
  *   pass: parameters (`let`, design variables, the parameter graph's nodes), elements (and the
  *   bindings of their numbers to the variables), ports, and block instances (expanded by the
  *   blocks pass, their bodies walked in turn);
+ * - tolerances: lots resolved, tolerances and random inputs given their element and input
+ *   indices (passes/tolerances.ts);
  * - sweep: the frequencies, and the elements checked over them;
  * - ports: numbered 1..N without gaps;
  * - specs, once the port count is known;
@@ -34,6 +37,8 @@ export function elaborate(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, op
   const s = createState(ast, bag, options);
   defineBlocks(s, ast);
   runStatements(s, s.top, s.topContext);
+  // lots resolved and indices filled in once every statement is read (random inputs after the variables)
+  const { tolerances, lots, randomInputs } = finishTolerances(s, s.elements, s.pendingBindings);
   sweepPass(s);
   numberPorts(s);
   specsPass(s);
@@ -51,6 +56,10 @@ export function elaborate(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, op
     variables: s.variables,
     bindings: elementBindings(s),
     unfollowed: s.unfollowed,
+    tolerances,
+    lots,
+    randomInputs,
+    randomUnfollowed: s.randomUnfollowed,
     warnings: bag.items.filter((d) => d.severity === 'warning'),
   };
 }

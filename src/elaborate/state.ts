@@ -12,7 +12,8 @@ import type { ElementInstance } from '../elements/types.js';
 import type { NetworkData } from '../network/types.js';
 import type { Compiled } from '../params/compile.js';
 import type { SpecDefinition } from '../check/types.js';
-import type { Port, Unfollowed, Variable } from './circuit.js';
+import type { Port, ToleranceDistribution, Unfollowed, Variable } from './circuit.js';
+import type { PendingInput, PendingTolerance } from './passes/tolerances.js';
 import type { Quantity } from './evaluate.js';
 
 /** A parameter override from outside the netlist (`--set name=value`). */
@@ -53,7 +54,7 @@ export interface ElaborateOptions {
 }
 
 /** Statement keywords that are not elements. */
-export const STATEMENT_KEYWORDS = ['title', 'let', 'port', 'sweep', 'spec', 'block', 'end', 'include'] as const;
+export const STATEMENT_KEYWORDS = ['title', 'let', 'port', 'sweep', 'spec', 'block', 'end', 'include', 'lot'] as const;
 
 /** A parameter of a scope: its value (null when its definition failed) and where it was defined. */
 export interface ParamEntry {
@@ -169,6 +170,16 @@ export interface ElabState {
   /** Places reported once per line rather than once per instance (a misplaced `vary`). */
   readonly reportedOnce: Set<string>;
 
+  // tolerances (passes/tolerances.ts)
+  /** The tolerances read so far (elements and lots resolved at the end). */
+  readonly pendingTolerances: PendingTolerance[];
+  /** The toleranced parameters that are not design variables (random inputs), in netlist order. */
+  readonly randomInputs: PendingInput[];
+  /** Numbers outside the elements that depend on random inputs only. */
+  readonly randomUnfollowed: Unfollowed[];
+  /** The lots by name (`failed`: declared, but its tolerance was wrong: reported). */
+  readonly lots: Map<string, { name: string; distribution: ToleranceDistribution; span: SourceSpan; failed?: boolean }>;
+
   // blocks (passes/blocks.ts)
   readonly blocks: Map<string, BlockDefinition>;
   /** The netlist's top-level statements (block definitions taken out). */
@@ -228,6 +239,10 @@ export function createState(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, 
     variables: [],
     unfollowed: [],
     reportedOnce: new Set(),
+    pendingTolerances: [],
+    randomInputs: [],
+    randomUnfollowed: [],
+    lots: new Map(),
     blocks: new Map(),
     top: [],
     topContext: { scope: globals, prefix: '', terminals: null, chain: [], later: new Map() },

@@ -41,7 +41,8 @@ export class ParameterGraph {
 
   constructor(circuit: Circuit) {
     this.bindings = circuit.bindings;
-    this.byVariable = circuit.variables.map(() => []);
+    // the design variables, then the random inputs (toleranced parameters) the bindings may read
+    this.byVariable = Array.from({ length: circuit.variables.length + circuit.randomInputs.length }, () => []);
     circuit.bindings.forEach((b, i) => {
       for (const v of b.value.deps) this.byVariable[v]!.push(i);
     });

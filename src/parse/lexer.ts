@@ -49,8 +49,20 @@ export const Vary = createToken({ name: 'Vary', pattern: /vary\b/, longer_alt: I
 export const To = createToken({ name: 'To', pattern: /to\b/, longer_alt: Identifier, categories: [Identifier] });
 export const Series = createToken({ name: 'Series', pattern: /series\b/, longer_alt: Identifier, categories: [Identifier] });
 export const Step = createToken({ name: 'Step', pattern: /step\b/, longer_alt: Identifier, categories: [Identifier] });
+/**
+ * The words of a tolerance (`value=2.2 pF tol 5% lot caps`, `tol normal 2% cut 3`, and the
+ * statement `lot caps tol normal 3%`). Names too, like the range words.
+ */
+export const Tol = createToken({ name: 'Tol', pattern: /tol\b/, longer_alt: Identifier, categories: [Identifier] });
+export const Normal = createToken({ name: 'Normal', pattern: /normal\b/, longer_alt: Identifier, categories: [Identifier] });
+export const Cut = createToken({ name: 'Cut', pattern: /cut\b/, longer_alt: Identifier, categories: [Identifier] });
+export const Lot = createToken({ name: 'Lot', pattern: /lot\b/, longer_alt: Identifier, categories: [Identifier] });
+/** `%` after a tolerance's amount: a relative tolerance (`tol 5%`). */
+export const Percent = createToken({ name: 'Percent', pattern: /%/ });
 /** Words that end a value instead of being read as its unit. */
 export const RANGE_WORDS: readonly string[] = ['vary', 'to', 'series', 'step'];
+/** The tolerance words: they end a value too, and are never a unit. */
+export const TOLERANCE_WORDS: readonly string[] = ['tol', 'normal', 'cut', 'lot'];
 export const Equals = createToken({ name: 'Equals', pattern: /=/ });
 export const Comma = createToken({ name: 'Comma', pattern: /,/ });
 export const LParen = createToken({ name: 'LParen', pattern: /\(/ });
@@ -74,8 +86,13 @@ export const allTokens: TokenType[] = [
   To,
   Series,
   Step,
+  Tol,
+  Normal,
+  Cut,
+  Lot,
   Identifier,
   Equals,
+  Percent,
   Comma,
   LParen,
   RParen,

@@ -7,13 +7,17 @@ import {
   At,
   Caret,
   Comma,
+  Cut,
   Equals,
   Identifier,
+  Lot,
   LParen,
   Minus,
   Newline,
+  Normal,
   NumberLit,
   OpenString,
+  Percent,
   Plus,
   RParen,
   Series,
@@ -22,6 +26,7 @@ import {
   Step,
   StringLit,
   To,
+  Tol,
   Vary,
   netlistLexer,
 } from './lexer.js';
@@ -29,10 +34,11 @@ import {
 /**
  * The pure grammar of the netlist language (no semantics: those live in the AST visitor).
  *
- *   statement   := Identifier [label] argument*
+ *   statement   := Identifier [label] [tolerance] argument*
  *   label       := Identifier (not followed by '=') | NumberLit
- *   argument    := Identifier '=' (StringLit | valueList [At expression] [range]) | StringLit
+ *   argument    := Identifier '=' (StringLit | valueList [At expression] [range] [tolerance]) | StringLit
  *   range       := 'vary' expression 'to' expression ['series' Identifier | 'step' expression]
+ *   tolerance   := 'tol' ['normal'] expression ['%'] ['cut' expression] ['lot' Identifier]
  *   valueList   := expression (',' expression)*
  *   expression  := term (('+' | '-') term)*
  *   term        := factor (('*' | '/') factor)*
@@ -42,7 +48,8 @@ import {
  *   unit        := Identifier (not followed by '=' or '(', and not one of vary, to, series, step)
  *
  * `vary`, `to`, `series` and `step` are tokens of their own in the category of names, so they stay
- * usable as names everywhere else.
+ * usable as names everywhere else; so are `tol`, `normal`, `cut` and `lot`. (`normal` right after
+ * `tol` is always the distribution's word: a parameter named `normal` is written `(normal)` there.)
  *
  * A file is a sequence of lines; each non-empty line is one statement (a trailing backslash continues a line).
  */
@@ -69,6 +76,8 @@ export class NetlistParser extends CstParser {
         ]);
       },
     });
+    // a statement's own tolerance (only `lot caps tol normal 3%` takes one: the elaborator says so)
+    this.OPTION2(() => this.SUBRULE(this.tolerance));
     this.MANY(() => this.SUBRULE(this.argument));
   });
 
@@ -88,6 +97,7 @@ export class NetlistParser extends CstParser {
                   this.SUBRULE(this.expression, { LABEL: 'atValue' });
                 });
                 this.OPTION2(() => this.SUBRULE(this.range));
+                this.OPTION3(() => this.SUBRULE(this.tolerance));
               },
             },
           ]);
@@ -118,6 +128,28 @@ export class NetlistParser extends CstParser {
           },
         },
       ]);
+    });
+  });
+
+  /**
+   * A tolerance after a value: `tol [normal] AMOUNT [%] [cut K] [lot NAME]` — uniform within
+   * ±AMOUNT, or normal with σ = AMOUNT; `%` makes it relative to the value.
+   */
+  public tolerance = this.RULE('tolerance', () => {
+    this.CONSUME(Tol);
+    this.OPTION({
+      GATE: () => this.LA(1).tokenType === Normal,
+      DEF: () => this.CONSUME(Normal),
+    });
+    this.SUBRULE(this.expression, { LABEL: 'amount' });
+    this.OPTION2(() => this.CONSUME(Percent));
+    this.OPTION3(() => {
+      this.CONSUME(Cut);
+      this.SUBRULE2(this.expression, { LABEL: 'cut' });
+    });
+    this.OPTION4(() => {
+      this.CONSUME(Lot);
+      this.CONSUME(Identifier, { LABEL: 'lotName' });
     });
   });
 
@@ -212,8 +244,9 @@ export class NetlistParser extends CstParser {
   });
 }
 
+/** Words that end a value: the range words and the tolerance words are never a unit. */
 function isRangeWord(t: TokenType): boolean {
-  return t === Vary || t === To || t === Series || t === Step;
+  return t === Vary || t === To || t === Series || t === Step || t === Tol || t === Normal || t === Cut || t === Lot;
 }
 
 /** Characters that can start a token or a line break: the rest can never be read. */
@@ -226,7 +259,7 @@ function canStart(c: number): boolean {
     c === 32 || c === 9 || c === 10 || c === 13 || // space, tab, line breaks
     c === 92 || c === 35 || c === 34 || c === 46 || // \ # " .
     c === 61 || c === 44 || c === 40 || c === 41 || // = , ( )
-    c === 43 || c === 45 || c === 42 || c === 47 || c === 94 || // + - * / ^
+    c === 43 || c === 45 || c === 42 || c === 47 || c === 94 || c === 37 || // + - * / ^ %
     c === 0xb5 || c === 0x3bc || c === 0x3a9 || c === 0x2126 // µ μ Ω Ω
   );
 }

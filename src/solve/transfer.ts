@@ -161,6 +161,10 @@ export function unpackCircuit(p: PackedCircuit): Circuit {
     variables: [],
     bindings: [],
     unfollowed: [],
+    tolerances: [],
+    lots: [],
+    randomInputs: [],
+    randomUnfollowed: [],
     warnings: [],
   };
 }

@@ -42,6 +42,7 @@ export function makeRng(seed) {
 
 const STATEMENTS = ['title', 'let', 'port', 'sweep', 'spec', 'block', 'end', 'include'];
 const SWEEP_WORDS = ['vary', 'to', 'series', 'step', 'E24', 'E96', 'E7', 'linear', 'log', 'list', 'start', 'stop', 'points', 'step', 'per_decade', 'freqs'];
+const TOLERANCE_WORDS = ['tol', 'normal', 'cut', 'lot', '%', 'tol 5%', 'tol normal 2% cut 3', 'lot caps', 'lot caps tol normal 3%'];
 const PORT_WORDS = ['plus', 'minus', 'ref', 'ref_x'];
 const SPEC_WORDS = ['measure', 'min', 'max', 'over', 'above', 'below', 'il(2,1)', 'rl(1)', 'db(S21)', 'mu', 'k', 'vswr(1)', 'gd(2,1)', 'S(2,1)', 'zin_re(1)', 'zin_im(1)', 'mag', 'msg'];
 const UNITS = ['ohm', 'ohms', 'Ω', 'Ω', 'kohm', 'Mohm', 'mohm', 'kΩ', 'S', 'mS', 'uS', 'µS', 'F', 'pF', 'nF', 'uF', 'fF', 'µF', 'μF', 'H', 'nH', 'pH', 'uH', 'mH',
@@ -72,7 +73,7 @@ export function makeDictionary(elementMap) {
     for (const p of e.textProperties ?? []) elementWords.push(p.key, ...(p.choices ?? []));
     for (const t of e.terminals) elementWords.push(t.key);
   }
-  const words = [...new Set([...STATEMENTS, ...SWEEP_WORDS, ...PORT_WORDS, ...SPEC_WORDS, ...elementWords, ...UNITS, ...NUMBERS, ...JS_KEYS, ...FUNCTIONS, ...OPERATORS, ...NAMES, ...FILES])];
+  const words = [...new Set([...STATEMENTS, ...SWEEP_WORDS, ...TOLERANCE_WORDS, ...PORT_WORDS, ...SPEC_WORDS, ...elementWords, ...UNITS, ...NUMBERS, ...JS_KEYS, ...FUNCTIONS, ...OPERATORS, ...NAMES, ...FILES])];
   return {
     words,
     keywords: [...STATEMENTS, ...elements.map((e) => e.keyword)],

@@ -269,6 +269,7 @@ function blockHeader(st: Statement, bag: DiagnosticBag): BlockDefinition | undef
     bag.error('missing-name', '`block` needs a name', st.label?.span ?? st.keywordSpan, 'e.g. `block tee terminals=left, right l=10 nH c=2 pF`');
     return undefined;
   }
+  if (st.tolerance) bag.error('tol-in-block', 'a block takes no tolerance', st.tolerance.keywordSpan, 'put the tolerance on a top-level `let` (`let c = 2.2 pF tol 5%`) and give the parameter to the block where it is used');
   const terminals: string[] = [];
   const params = new Map<string, { expr: Expr; span: SourceSpan }>();
   let ok = true;
@@ -288,6 +289,11 @@ function blockHeader(st: Statement, bag: DiagnosticBag): BlockDefinition | undef
           ok = false;
         } else terminals.push(e.name);
       }
+      continue;
+    }
+    if (a.tolerance) {
+      bag.error('tol-in-block', 'a tolerance (`tol`) cannot be given inside a block', a.tolerance.keywordSpan, 'put the tolerance on a top-level `let` (`let c = 2.2 pF tol 5%`) and give the parameter to the block where the block is used (`c=c`)');
+      ok = false;
       continue;
     }
     if (a.range) {

@@ -17,6 +17,7 @@ import type { ValueBinding } from '../circuit.js';
 import { nodeArg, useNode } from '../nodes.js';
 import { DataFileError, ReportedError, type Context, type ElabState } from '../state.js';
 import { signOk } from '../values.js';
+import { elementTolerance, toleranceAllowedHere } from './tolerances.js';
 
 /** Shared by the elements with no `at` frequencies or no text properties (most of them). */
 const NONE_AT: Record<string, number> = Object.freeze({}) as Record<string, number>;
@@ -118,6 +119,10 @@ export function defineElement(s: ElabState, st: Statement, type: ElementType, ct
         s.bag.error('bad-value', `\`${p.key}\` takes a quoted string: ${p.key === 'file' ? 'file names are quoted' : 'text is quoted'}`, a.values[0]!.span, `write \`${p.key}="${bare}"\``);
         return false;
       }
+      if (a.tolerance) {
+        s.bag.error('tol-misplaced', `\`${p.key}\` is text: it has no tolerance`, a.tolerance.keywordSpan, 'a tolerance belongs after a number of the part, e.g. `value=2.2 pF tol 5%`');
+        return false;
+      }
       const word = a.text?.value ?? bare;
       if (word === undefined) {
         s.bag.error('bad-value', p.choices ? `\`${p.key}\` is one of: ${p.choices.join(', ')}` : `\`${p.key}\` takes a quoted string`, a.span, p.choices ? undefined : `write \`${p.key}="…"\``);
@@ -146,6 +151,10 @@ export function defineElement(s: ElabState, st: Statement, type: ElementType, ct
       s.bag.error('missing-terminal', `${what} \`${name}\` needs terminal \`${t.key}\` (${t.doc})`, st.label.span, `add \`${t.key}=<node>\``);
       ok = false;
       continue;
+    }
+    if (a.tolerance) {
+      s.bag.error('tol-misplaced', `\`${t.key}\` is a node: a node has no tolerance`, a.tolerance.keywordSpan, 'a tolerance belongs after a number of the part, e.g. `value=2.2 pF tol 5%`');
+      ok = false;
     }
     const n = nodeArg(s, a, name, false, ctx);
     if (n === undefined) ok = false;
@@ -180,6 +189,7 @@ export function defineElement(s: ElabState, st: Statement, type: ElementType, ct
       ok = false;
     }
     el.props[p.key] = v;
+    if (a.tolerance && toleranceAllowedHere(s, a.tolerance, ctx)) elementTolerance(s, a.tolerance, ctx, el, p.key, p.unit, v);
     if (p.takesAt && a.at) {
       const f = atArg(s, a, ctx, (value, span) => s.pendingBindings.push({ el, target: 'at', key: p.key, value, span }));
       if (f === undefined) ok = false;

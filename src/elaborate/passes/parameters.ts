@@ -10,11 +10,13 @@ import { joinSpans, type Expr, type KeyArg, type RangeClause, type Statement } f
 import { DiagnosticBag } from '../../diagnostics/diagnostic.js';
 import { didYouMean } from '../../diagnostics/suggest.js';
 import { SERIES_NAMES, isSeriesName, seriesValuesIn } from '../../design/series.js';
-import { compileExpr, NotCompilable, variableNode, type Compiled } from '../../params/compile.js';
+import { compileExpr, dependsOnVariables, NotCompilable, variableNode, type Compiled } from '../../params/compile.js';
+import type { Unfollowed } from '../circuit.js';
 import type { ParameterValue, Variable } from '../circuit.js';
 import { describeQuantity, evaluate, type EvalScope, type Quantity } from '../evaluate.js';
 import { firstReport, spanKey, type Context, type ElabState, type Override } from '../state.js';
 import { finiteOrReport, sameDimension, showQuantity, siOf } from '../values.js';
+import { misplacedTolerance, parameterTolerance, toleranceAllowedHere } from './tolerances.js';
 
 /** What an expression evaluated at `ctx` sees: the scope's parameters, with their uses recorded. */
 export function evalScope(s: ElabState, ctx: Context): EvalScope {
@@ -40,7 +42,7 @@ export function evalScope(s: ElabState, ctx: Context): EvalScope {
  * follow it, it is recorded as not followed.
  */
 export function follow(s: ElabState, e: Expr, ctx: Context, what: string): Compiled | undefined {
-  if (s.variables.length === 0) return undefined;
+  if (s.variables.length === 0 && s.randomInputs.length === 0) return undefined;
   try {
     return compileExpr(e, {
       node: (n) => ctx.scope.find(n)?.node,
@@ -48,9 +50,20 @@ export function follow(s: ElabState, e: Expr, ctx: Context, what: string): Compi
     });
   } catch (err) {
     if (!(err instanceof NotCompilable)) throw err;
-    s.unfollowed.push({ what, span: e.span, reason: err.message });
+    // a design variable among its names, or only random inputs (placeholder indices below 0)?
+    const onVariables = dependsOnVariables(e, { node: (n) => { const c = ctx.scope.find(n)?.node; return c && c.deps.some((d) => d >= 0) ? c : undefined; }, constant: () => undefined });
+    unfollowedBy(s, onVariables, { what, span: e.span, reason: err.message });
     return undefined;
   }
+}
+
+/**
+ * Records a number re-evaluation cannot follow: with the design variables' (Circuit.unfollowed)
+ * when it depends on one, else with the random inputs' (Circuit.randomUnfollowed), so that the
+ * design tools see the same circuit as without tolerances.
+ */
+export function unfollowedBy(s: ElabState, onVariables: boolean, u: Unfollowed): void {
+  (onVariables ? s.unfollowed : s.randomUnfollowed).push(u);
 }
 
 /** A `let` line: each `name = value` into the scope of `ctx` (a `--set` override replaces a top-level value). */
@@ -100,8 +113,14 @@ export function defineParameters(s: ElabState, st: Statement, ctx: Context): voi
     }
     const key = spanKey(a.keySpan);
     let node: Compiled | undefined;
-    if (s.variables.length > before) node = variableNode(before);
-    else if (value !== undefined) node = follow(s, o ? o.expr : a.values[0]!, ctx, `parameter \`${a.key}\``);
+    const isVariable = s.variables.length > before;
+    if (isVariable) node = variableNode(before);
+    if (a.tolerance && toleranceAllowedHere(s, a.tolerance, ctx) && value !== undefined && (isVariable || !a.range)) {
+      // a toleranced parameter that is not a variable is a random input: a node of its own
+      const own = parameterTolerance(s, a.tolerance, ctx, a.key, value, isVariable ? before : undefined);
+      if (own) node = own;
+    }
+    if (!node && value !== undefined) node = follow(s, o ? o.expr : a.values[0]!, ctx, `parameter \`${a.key}\``);
     ctx.scope.entries.set(a.key, { value: value ?? null, span: a.keySpan, key, ...(node ? { node } : {}) });
     if (!s.definitions.has(key)) s.definitions.set(key, { name: a.key, span: a.keySpan, failed: value === undefined, what: 'parameter' });
     if (o) s.usedKeys.add(key);

@@ -18,9 +18,10 @@ import { instantiate } from './blocks.js';
 import { defineElement } from './elements.js';
 import { defineParameters } from './parameters.js';
 import { definePort } from './ports.js';
+import { defineLot, misplacedTolerance } from './tolerances.js';
 
 /** Statements that only make sense at the top level of a netlist, not inside a block. */
-const TOP_LEVEL_ONLY = new Set(['title', 'port', 'sweep', 'spec', 'include', 'block']);
+const TOP_LEVEL_ONLY = new Set(['title', 'port', 'sweep', 'spec', 'include', 'block', 'lot']);
 
 function knownKeywords(s: ElabState): string[] {
   return [...STATEMENT_KEYWORDS.filter((k) => k !== 'end'), ...ELEMENTS.keys(), ...s.blocks.keys()];
@@ -41,7 +42,15 @@ export function runStatements(s: ElabState, statements: (StatementItem | undefin
         if (a.kind === 'key' && a.range && firstReport(s, a.range.keywordSpan)) s.bag.error('vary-not-let', '`vary` belongs on a `let` line: only a parameter can be a design variable', a.range.keywordSpan, 'write `let name = value vary LOW to HIGH` and use the name here');
       }
     }
+    if (st.tolerance && st.keyword !== 'lot') misplacedTolerance(s, st.tolerance, `\`${st.keyword}\``);
+    if (st.keyword !== 'let' && st.keyword !== 'lot' && !ELEMENTS.has(st.keyword)) {
+      // a port, the sweep, a spec, a block instance: their values take no tolerance
+      for (const a of st.args) if (a.kind === 'key' && a.tolerance) misplacedTolerance(s, a.tolerance, s.blocks.has(st.keyword) ? `a parameter of a block instance (\`${a.key}\`)` : `\`${a.key}\` of \`${st.keyword}\``);
+    }
     switch (st.keyword) {
+      case 'lot':
+        defineLot(s, st, ctx);
+        break;
       case 'title': {
         const text = st.args.find((a) => a.kind === 'text');
         if (st.label || !text || st.args.length !== 1) {
