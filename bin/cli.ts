@@ -27,6 +27,7 @@ import { runVary, varyBuilder, type VaryArgs } from './commands/vary.js';
 import { formatFromPath } from '../src/io/output.js';
 import { FigureError, parseFigure } from '../src/figures/registry.js';
 import { runSensitivity, sensitivityBuilder, type SensitivityArgs } from './commands/sensitivity.js';
+import { runYieldCommand, yieldBuilder, type YieldArgs } from './commands/yield.js';
 import { fitBuilder, runFit, type FitArgs } from './commands/fit.js';
 import {
   convertNetwork,
@@ -139,6 +140,14 @@ export async function main(argv: string[], io: Io = defaultIo): Promise<number> 
       sensitivityBuilder,
       (args) => {
         code = runSensitivity(args as unknown as SensitivityArgs, io, describeError);
+      },
+    )
+    .command(
+      'yield <netlist>',
+      'Monte Carlo over the netlist\'s tolerances: the fraction of builds that meet every spec, with its confidence interval',
+      yieldBuilder,
+      (args) => {
+        code = runYieldCommand(args as unknown as YieldArgs, io, describeError);
       },
     )
     .command(

@@ -35,3 +35,6 @@ export const MAX_REFERENCE_OHMS = 1e9;
 
 /** Members of a family (`vary`): values of one `--over`, and all combinations of two. */
 export const MAX_FAMILY_MEMBERS = 1000;
+
+/** Samples of one yield run (`--samples`): their margins and draws are kept, a few numbers each. */
+export const MAX_YIELD_SAMPLES = 10_000_000;

@@ -58,6 +58,10 @@ export class DesignModel {
   readonly warnings: Diagnostic[];
   private readonly current: Float64Array;
   private readonly nominal: Float64Array;
+  /** A yield sample's draws (per tolerance, x = n·mult + add), or none: every toleranced number nominal. */
+  private draws: { mult: Float64Array; add: Float64Array } | undefined;
+  /** The tolerances on element numbers: tolerance index, element, key, and the elaborated value. */
+  private readonly elementTolerances: { t: number[]; element: Int32Array; key: string[]; elaborated: Float64Array };
   /**
    * The fast path (undefined where some number that depends on a variable cannot be followed
    * without elaborating again, Circuit.unfollowed): the parameter graph, the working circuit it
@@ -77,11 +81,71 @@ export class DesignModel {
     this.sources = sources;
     this.nominal = Float64Array.from(circuit.variables, (v) => v.value);
     this.current = Float64Array.from(this.nominal);
+    const onElements = circuit.tolerances.flatMap((tol, t) => (tol.target.kind === 'element' ? [{ t, element: tol.target.element, key: tol.target.key }] : []));
+    this.elementTolerances = {
+      t: onElements.map((o) => o.t),
+      element: Int32Array.from(onElements, (o) => o.element),
+      key: onElements.map((o) => o.key),
+      elaborated: Float64Array.from(onElements, (o) => circuit.elements[o.element]!.props[o.key]!),
+    };
     if (circuit.unfollowed.length === 0) {
       const graph = new ParameterGraph(circuit);
       const working = graph.workingCopy(circuit);
-      this.fast = { graph, working, plan: buildPlan(working, { replayable: graph.elements }), applied: Float64Array.from(this.nominal), runners: new Map(), specPoints: specPoints(circuit) };
+      const x = this.inputVector();
+      this.fast = {
+        graph,
+        working,
+        plan: buildPlan(working, { replayable: graph.elements }),
+        applied: Float64Array.from(x),
+        appliedElements: Float64Array.from(this.elementTolerances.elaborated),
+        runners: new Map(),
+        specPoints: specPoints(circuit),
+      };
     }
+  }
+
+  /**
+   * The values the compiled bindings read: the design variables, then the random inputs
+   * (toleranced parameters that are not variables, Circuit.randomInputs), each toleranced one as
+   * drawn (n·mult + add) when a sample is set.
+   */
+  private inputVector(): Float64Array {
+    const c = this.circuit;
+    const V = this.variables.length;
+    const x = new Float64Array(V + c.randomInputs.length);
+    x.set(this.current);
+    for (const r of c.randomInputs) x[r.index] = r.value;
+    const d = this.draws;
+    if (d) {
+      c.tolerances.forEach((tol, t) => {
+        if (tol.target.kind === 'parameter') x[tol.target.input] = x[tol.target.input]! * d.mult[t]! + d.add[t]!;
+      });
+    }
+    return x;
+  }
+
+  /** The values of the toleranced element numbers at inputs x: their own value (following x), drawn. */
+  private elementValues(graph: ParameterGraph | undefined, x: Float64Array): Float64Array {
+    const et = this.elementTolerances;
+    const d = this.draws;
+    const out = new Float64Array(et.t.length);
+    for (let i = 0; i < out.length; i++) {
+      const base = graph ? graph.valueOf(et.element[i]!, et.key[i]!, x, et.elaborated[i]!) : et.elaborated[i]!;
+      out[i] = d ? base * d.mult[et.t[i]!]! + d.add[et.t[i]!]! : base;
+    }
+    return out;
+  }
+
+  /**
+   * Sets a yield sample's draws (src/yield/sampler.ts: per tolerance of Circuit.tolerances, the
+   * value is n·mult + add with n its nominal value — for a design variable, its current value), or
+   * none: every toleranced number at its nominal value, as the design tools see the circuit.
+   * (Derivatives are taken at the nominal draws.)
+   */
+  setDraws(draws: { mult: Float64Array; add: Float64Array } | undefined): void {
+    const n = this.circuit.tolerances.length;
+    if (draws && (draws.mult.length !== n || draws.add.length !== n)) throw new RangeError(`draws for ${draws.mult.length} tolerances, but the netlist has ${n}`);
+    this.draws = draws ? { mult: Float64Array.from(draws.mult), add: Float64Array.from(draws.add) } : undefined;
   }
 
   /**
@@ -95,17 +159,23 @@ export class DesignModel {
 
   /** Brings the plan to the current values (only the elements that depend on changed variables). */
   private update(fast: FastPath): void {
-    if (sameValues(fast.applied, this.current)) return;
+    const x = this.inputVector();
+    const ev = this.elementValues(fast.graph, x);
+    if (sameValues(fast.applied, x) && sameValues(fast.appliedElements, ev)) return;
     let changed: number[];
     try {
-      changed = fast.graph.apply(fast.working, this.current, fast.applied, this.circuit.frequencies);
+      changed = fast.graph.apply(fast.working, x, fast.applied, this.circuit.frequencies);
+      if (ev.length > 0) changed = [...new Set([...changed, ...fast.graph.setElementValues(fast.working, this.elementTolerances.element, this.elementTolerances.key, ev, this.circuit.frequencies)])];
     } catch (e) {
       // the working circuit holds some of the new numbers: every number is computed again next time
       fast.applied.fill(NaN);
+      fast.appliedElements.fill(NaN);
       if (!(e instanceof ElementValueError)) throw e;
-      throw new InputError([{ severity: 'error', code: 'bad-value', message: e.message, span: e.span, help: `with the design variables at ${this.setOptions().map((o) => o.replace('=', ' = ')).join(', ')}` }], this.sources);
+      const where = `with the design variables at ${this.setOptions().map((o) => o.replace('=', ' = ')).join(', ')}${this.draws ? ' and the parts as drawn' : ''}`;
+      throw new InputError([{ severity: 'error', code: 'bad-value', message: e.message, span: e.span, help: where }], this.sources);
     }
-    fast.applied.set(this.current);
+    fast.applied.set(x);
+    fast.appliedElements.set(ev);
     try {
       restampElements(fast.plan, fast.working, changed);
       for (const r of fast.runners.values()) r.refresh();
@@ -207,8 +277,21 @@ export class DesignModel {
       const parameters = fast.working.parameters.map((p) => (at.has(p.name) ? { ...p, value: at.get(p.name)! } : p));
       return { ...fast.working, elements, parameters, variables: this.variables.map((v, i) => ({ ...v, value: this.current[i]! })) };
     }
-    const set = [...(this.options.set ?? []).filter((s) => !this.variables.some((v) => s.trim().startsWith(`${v.name}=`) || s.trim().startsWith(`${v.name} `))), ...this.setOptions()];
-    return loadNetlist(this.text, this.file, { ...this.options, set }).circuit;
+    // elaborated again: the variables and the random inputs as --set options, then the parts drawn
+    const x = this.inputVector();
+    const named = [...this.variables.map((v, i) => ({ name: v.name, unit: v.unit, value: x[i]! })), ...this.circuit.randomInputs.map((r) => ({ name: r.name, unit: r.unit, value: x[r.index]! }))];
+    const given = (s: string) => named.some((v) => s.trim().startsWith(`${v.name}=`) || s.trim().startsWith(`${v.name} `));
+    const set = [...(this.options.set ?? []).filter((s) => !given(s)), ...named.map((v) => `${v.name}=${String(v.value)}${v.unit ? ` ${v.unit}` : ''}`)];
+    const circuit = loadNetlist(this.text, this.file, { ...this.options, set }).circuit;
+    const d = this.draws;
+    const et = this.elementTolerances;
+    if (d) {
+      for (let i = 0; i < et.t.length; i++) {
+        const el = circuit.elements[et.element[i]!]!;
+        el.props[et.key[i]!] = el.props[et.key[i]!]! * d.mult[et.t[i]!]! + d.add[et.t[i]!]!;
+      }
+    }
+    return circuit;
   }
 
   /** S over the sweep (or the given frequencies, Hz, ascending) at the current values. */
@@ -454,8 +537,10 @@ interface FastPath {
   graph: ParameterGraph;
   working: Circuit;
   plan: StampPlan;
-  /** The variable values the plan holds. */
+  /** The input values (variables, then random inputs) the plan holds. */
   applied: Float64Array;
+  /** The values of the toleranced element numbers the plan holds. */
+  appliedElements: Float64Array;
   /** Sweeps set up on the plan, by frequency set ('sweep', 'specs', or a list). */
   runners: Map<string, SweepRunner>;
   /** The sweep points the specs look at (empty: the whole sweep is needed). */

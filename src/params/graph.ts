@@ -46,8 +46,38 @@ export class ParameterGraph {
     circuit.bindings.forEach((b, i) => {
       for (const v of b.value.deps) this.byVariable[v]!.push(i);
     });
-    this.elements = new Set(circuit.bindings.map((b) => b.element));
+    // the elements that follow inputs, and those whose own numbers carry a tolerance (a yield
+    // run sets them directly: setElementValues)
+    this.elements = new Set([...circuit.bindings.map((b) => b.element), ...circuit.tolerances.flatMap((t) => (t.target.kind === 'element' ? [t.target.element] : []))]);
     this.mark = new Uint8Array(circuit.bindings.length);
+  }
+
+  /**
+   * The value number `key` of element e takes at inputs x: its compiled binding's, or, for a
+   * number that follows no input, `elaborated` (the value elaboration gave it).
+   */
+  valueOf(e: number, key: string, x: Float64Array, elaborated: number): number {
+    const b = this.bindings.find((q) => q.element === e && q.key === key && q.target === 'prop');
+    return b ? b.value.fn(x) : elaborated;
+  }
+
+  /**
+   * Sets element numbers directly (a drawn part value): each `values[i]` into number `keys[i]` of
+   * element `elements[i]` of `circuit` (a {@link workingCopy}), where it differs; checks the
+   * changed elements as {@link apply} does and returns their indices (ascending).
+   */
+  setElementValues(circuit: Circuit, elements: ArrayLike<number>, keys: readonly string[], values: ArrayLike<number>, frequencies: Float64Array | undefined): number[] {
+    const changed = this.elementMark;
+    changed.clear();
+    for (let i = 0; i < keys.length; i++) {
+      const el = circuit.elements[elements[i]!]!;
+      if (Object.is(el.props[keys[i]!], values[i])) continue;
+      el.props[keys[i]!] = values[i]!;
+      changed.add(elements[i]!);
+    }
+    const out = [...changed].sort((a, b) => a - b);
+    if (frequencies) for (const e of out) checkElement(circuit.elements[e]!, frequencies, (key) => this.spanOf(e, key));
+    return out;
   }
 
   /**
