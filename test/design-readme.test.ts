@@ -1,4 +1,4 @@
-// The README's design-exploration examples must be true: what `vary`, `fit` and `sensitivity`
+// The README's design-exploration examples must be true: what `vary`, `fit`, `sensitivity` and `yield`
 // print on the demos is what the README shows (the examples are taken from the README's own text).
 import { spawnSync } from 'node:child_process';
 import { existsSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
@@ -48,6 +48,13 @@ describe('README: design exploration', () => {
     expect(r.code).toBe(0);
     const shown = blocks[i + 1]!.body.replace(/…\n$/, '');
     expect(r.out.startsWith(shown)).toBe(true);
+  });
+
+  it('shows what `yield` prints for its example', () => {
+    const i = blocks.findIndex((b) => b.lang === 'sh' && b.body.startsWith('npx scatterbox yield'));
+    const r = run(argsOf(blocks[i]!.body));
+    expect(r.code).toBe(0);
+    expect(r.out).toBe(blocks[i + 1]!.body);
   });
 
   it('shows what `vary` prints for its example (the summary)', () => {
