@@ -27,7 +27,7 @@ import { runVary, varyBuilder, type VaryArgs } from './commands/vary.js';
 import { formatFromPath } from '../src/io/output.js';
 import { FigureError, parseFigure } from '../src/figures/registry.js';
 import { runSensitivity, sensitivityBuilder, type SensitivityArgs } from './commands/sensitivity.js';
-import { runYieldCommand, yieldBuilder, type YieldArgs } from './commands/yield.js';
+import { mergeBuilder, runMerge, runYieldCommand, yieldBuilder, type MergeArgs, type YieldArgs } from './commands/yield.js';
 import { fitBuilder, runFit, type FitArgs } from './commands/fit.js';
 import {
   convertNetwork,
@@ -148,6 +148,14 @@ export async function main(argv: string[], io: Io = defaultIo): Promise<number> 
       yieldBuilder,
       (args) => {
         code = runYieldCommand(args as unknown as YieldArgs, io, describeError);
+      },
+    )
+    .command(
+      'merge <partials..>',
+      'merge the partial files of a sharded yield run into its result (the same as one run)',
+      mergeBuilder,
+      (args) => {
+        code = runMerge(args as unknown as MergeArgs, io, describeError);
       },
     )
     .command(
