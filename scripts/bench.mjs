@@ -88,6 +88,7 @@ async function one(kind, size) {
   else if (kind === 'mesh') text = mesh(size, sweep);
   else if (kind === 'data16') text = await dataBlock(dir, sweep);
   else if (kind === 'design') return designEvaluation();
+  else if (kind === 'yield') return yieldRun();
   else if (kind === 'elaborate') {
     // parse and elaborate a netlist of `size` elements
     const big = ladder(size / 2, 'sweep list freqs=1 GHz');
@@ -222,6 +223,65 @@ async function designEvaluation() {
   return { sweepRatio: median(pairs.sweep), specRatio: median(pairs.specs), points: f.length, specPoints: specPoints.length, variables: model.variables.length, fit };
 }
 
+/**
+ * Yield on the band-pass demo (its tolerances): 10,000 samples in one process (after 500
+ * unmeasured), the cost of a sample against a plain solve of the spec frequencies (alternated,
+ * median of the pairs' ratios), and a sharded run: 4 shards of 40,000 samples as separate
+ * processes started together, then the merge, against one process doing all of them.
+ */
+async function yieldRun() {
+  const { DesignModel, solve, evaluateSpecs } = await import(lib);
+  const { runYield } = await import(new URL('../dist/src/yield/run.js', import.meta.url).href);
+  const demo = fileURLToPath(new URL('../circuits/bandpass-2g4.sbx', import.meta.url));
+  const model = DesignModel.load(demo);
+  const c = model.circuit;
+  runYield(model, { samples: 500, seed: 1 });
+  const t0 = performance.now();
+  runYield(model, { samples: 10000, seed: 2 });
+  const tenThousand = (performance.now() - t0) / 1000;
+  // the spec points, as the model takes them (inside the bands, and their neighbours)
+  const f = c.frequencies;
+  const keep = new Uint8Array(f.length);
+  for (const spec of c.specs) {
+    for (let k = 0; k < f.length; k++) {
+      if (f[k] < spec.band[0] * (1 - 1e-12) || f[k] > spec.band[1] * (1 + 1e-12)) continue;
+      keep[k] = 1;
+      if (k > 0) keep[k - 1] = 1;
+      if (k + 1 < f.length) keep[k + 1] = 1;
+    }
+  }
+  const specPoints = f.filter((_, k) => keep[k]);
+  const ratios = [];
+  for (let r = 0; r < 11; r++) {
+    let t = performance.now();
+    runYield(model, { samples: 200, seed: 3 + r });
+    const sample = (performance.now() - t) / 200;
+    t = performance.now();
+    for (let i = 0; i < 200; i++) evaluateSpecs(c.specs, solve(c, { frequencies: specPoints }));
+    ratios.push(sample / ((performance.now() - t) / 200));
+  }
+  // sharded: separate processes, as a batch engine would start them
+  const dir = mkdtempSync(join(tmpdir(), 'sbx-bench-yield-'));
+  const bin = fileURLToPath(new URL('../bin/scatterbox.js', import.meta.url));
+  const N = 4;
+  const samples = 40000;
+  const wall = (f) => {
+    const t = performance.now();
+    f();
+    return (performance.now() - t) / 1000;
+  };
+  const { spawn } = await import('node:child_process');
+  const runAll = (argsList) =>
+    Promise.all(argsList.map((args) => new Promise((res, rej) => spawn(process.execPath, [bin, ...args], { stdio: 'ignore' }).on('exit', (code) => (code === 0 ? res() : rej(new Error(`exit ${code}`)))))));
+  const one = wall(() => execFileSync(process.execPath, [bin, 'yield', demo, '--samples', String(samples), '--seed', '5', '--json', join(dir, 'one.json'), '-q']));
+  const t1 = performance.now();
+  await runAll(Array.from({ length: N }, (_, i) => ['yield', demo, '--samples', String(samples), '--seed', '5', '--shard', `${i + 1}/${N}`, '-o', join(dir, `p${i + 1}.json`), '-q']));
+  execFileSync(process.execPath, [bin, 'merge', ...Array.from({ length: N }, (_, i) => join(dir, `p${i + 1}.json`)), '--json', join(dir, 'merged.json'), '-q']);
+  const sharded = (performance.now() - t1) / 1000;
+  const same = readFileSync(join(dir, 'one.json'), 'utf8') === readFileSync(join(dir, 'merged.json'), 'utf8');
+  return { tenThousand, sampleRatio: median(ratios), one, sharded, speedup: one / sharded, same, samples, shards: N };
+}
+
 /** The plain dense baseline: each point assembled as a mathjs complex matrix and solved with lusolve. */
 async function mathjsBaseline(circuit) {
   const { buildPlan, stampAt } = await import(new URL('../dist/src/plan/plan.js', import.meta.url).href);
@@ -342,6 +402,7 @@ const base = child('mathjs', 100);
 const cal = await calibrate();
 const el = child('elaborate', 100000);
 const design = child('design', 0);
+const yieldFigures = child('yield', 0);
 // a whole command-line run on a small demo netlist, from process start to the written file: what
 // a CI job pays per netlist (mostly loading the program and its libraries)
 const cliRuns = [];
@@ -373,6 +434,9 @@ console.log(
   design.fit.error
     ? `fit of the band-pass demo: not measured (${design.fit.error})`
     : `fit of the band-pass demo from a 20 % detuned start: ${design.fit.seconds.toFixed(2)} s, ${design.fit.evaluations} evaluations, ${design.fit.pass ? 'every spec passes' : 'specs NOT all passing'} (target ≤ 1 s on one core)`,
+);
+console.log(
+  `yield of the band-pass demo: 10,000 samples in ${yieldFigures.tenThousand.toFixed(2)} s (target ≤ 5 s); a sample costs ${yieldFigures.sampleRatio.toFixed(2)}× a plain solve of the spec frequencies (target ≤ 1.3×); ${yieldFigures.shards} shards of ${yieldFigures.samples} samples as separate processes plus the merge: ${yieldFigures.sharded.toFixed(2)} s against ${yieldFigures.one.toFixed(2)} s in one process, ${yieldFigures.speedup.toFixed(2)}× (target ≥ 1.7×)${yieldFigures.same ? '' : ' — MERGED RESULT DIFFERS'}`,
 );
 console.log(`two threads of plain arithmetic on this machine: ${cal.latency.toFixed(2)}× one thread latency-bound, ${cal.throughput.toFixed(2)}× throughput-bound (medians of 7)`);
 const pairRatio = median(runsOf.get('ladder N = 10,000').map((x) => x.sizeRatio));
