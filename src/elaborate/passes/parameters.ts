@@ -166,10 +166,10 @@ function defineVariable(s: ElabState, a: KeyArg, r: RangeClause, ctx: Context, v
     bag.error('empty-range', `the range ${rangeText} is empty`, rangeSpan, 'write the lower bound first: `vary LOW to HIGH`, with LOW below HIGH');
     return;
   }
-  // the netlist's own value lies in its range; an override too
+  // the netlist's own value lies in its range, or, where `--set` gives the value, the override
+  // (the netlist's own value is then not used: with other parameters set it may move anywhere)
   const inside = (x: number) => x >= lo - 1e-12 * Math.abs(lo) && x <= hi + 1e-12 * Math.abs(hi);
-  const ownSI = o ? siOf(own).value : v.value;
-  if (!inside(ownSI)) {
+  if (!o && !inside(v.value)) {
     bag.error('out-of-range', `\`${a.key}\` = ${showQuantity(own)} lies outside its range ${rangeText}`, a.values[0]!.span, 'give a value within the range, or widen the range');
     ok = false;
   }

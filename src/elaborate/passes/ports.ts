@@ -7,7 +7,7 @@
  */
 import type { KeyArg, Statement } from '../../ast/ast.js';
 import { GROUND, GROUND_NAME } from '../../elements/types.js';
-import { MAX_PORTS, MAX_REFERENCE_OHMS, MIN_REFERENCE_OHMS } from '../../limits.js';
+import { MAX_NETWORK_VALUES, MAX_PORTS, MAX_REFERENCE_OHMS, MIN_REFERENCE_OHMS } from '../../limits.js';
 import { keyArgs, numberArg } from '../args.js';
 import { nodeArg } from '../nodes.js';
 import type { Context, ElabState } from '../state.js';
@@ -82,5 +82,13 @@ export function numberPorts(s: ElabState): void {
     const shown = missingPorts.length > 12 ? `${missingPorts.slice(0, 10).join(', ')} … ${missingPorts[missingPorts.length - 1]} (${missingPorts.length} in all)` : missingPorts.join(', ');
     const list = missingPorts.length === 1 ? `port ${missingPorts[0]} is missing` : `ports ${shown} are missing`;
     s.bag.error('port-gap', `ports must be numbered from 1 without gaps; ${list}`, after.span);
+  }
+  // the result: points × ports² complex values, within MAX_NETWORK_VALUES
+  const points = s.frequencies.length;
+  const p = portList.length;
+  if (points * p * p > MAX_NETWORK_VALUES) {
+    const sweep = s.options.sweep && s.options.sweep.length > 0 ? s.options.sweep : s.sweepStatements;
+    const at = sweep[0]?.keywordSpan ?? { file: s.file, line: 1, column: 1, length: 1 };
+    s.bag.error('too-many-values', `${points} sweep points of a ${p}-port are ${points * p * p} complex values, above the limit of ${MAX_NETWORK_VALUES} in one result`, at, `take fewer points (at most ${Math.floor(MAX_NETWORK_VALUES / (p * p))} for ${p} ports)`);
   }
 }
