@@ -157,7 +157,7 @@ async function one(kind, size) {
  * at. Alternated, the ratio of each pair, median of the pairs.
  */
 async function designEvaluation() {
-  const { DesignModel, loadNetlist, solve, evaluateSpecs } = await import(lib);
+  const { DesignModel, loadNetlist, solve, evaluateSpecs, specPoints: specPointsOf } = await import(lib);
   const demo = fileURLToPath(new URL('../circuits/bandpass-2g4.sbx', import.meta.url));
   let text = readFileSync(demo, 'utf8');
   // the demo's variables (older copies of it had none: then the resonator inductance is one)
@@ -181,16 +181,7 @@ async function designEvaluation() {
   };
   // the spec points, as the model takes them (inside the bands, and their neighbours)
   const f = circuit.frequencies;
-  const keep = new Uint8Array(f.length);
-  for (const spec of circuit.specs) {
-    for (let k = 0; k < f.length; k++) {
-      if (f[k] < spec.band[0] * (1 - 1e-12) || f[k] > spec.band[1] * (1 + 1e-12)) continue;
-      keep[k] = 1;
-      if (k > 0) keep[k - 1] = 1;
-      if (k + 1 < f.length) keep[k + 1] = 1;
-    }
-  }
-  const specPoints = f.filter((_, k) => keep[k]);
+  const specPoints = specPointsOf(circuit);
   for (let w = 0; w < 200; w++) {
     step();
     model.solve();
@@ -230,7 +221,7 @@ async function designEvaluation() {
  * processes started together, then the merge, against one process doing all of them.
  */
 async function yieldRun() {
-  const { DesignModel, solve, evaluateSpecs } = await import(lib);
+  const { DesignModel, solve, evaluateSpecs, specPoints: specPointsOf } = await import(lib);
   const { runYield } = await import(new URL('../dist/src/yield/run.js', import.meta.url).href);
   const demo = fileURLToPath(new URL('../circuits/bandpass-2g4.sbx', import.meta.url));
   const model = DesignModel.load(demo);
@@ -239,18 +230,7 @@ async function yieldRun() {
   const t0 = performance.now();
   runYield(model, { samples: 10000, seed: 2 });
   const tenThousand = (performance.now() - t0) / 1000;
-  // the spec points, as the model takes them (inside the bands, and their neighbours)
-  const f = c.frequencies;
-  const keep = new Uint8Array(f.length);
-  for (const spec of c.specs) {
-    for (let k = 0; k < f.length; k++) {
-      if (f[k] < spec.band[0] * (1 - 1e-12) || f[k] > spec.band[1] * (1 + 1e-12)) continue;
-      keep[k] = 1;
-      if (k > 0) keep[k - 1] = 1;
-      if (k + 1 < f.length) keep[k + 1] = 1;
-    }
-  }
-  const specPoints = f.filter((_, k) => keep[k]);
+  const specPoints = specPointsOf(c);
   const ratios = [];
   for (let r = 0; r < 11; r++) {
     let t = performance.now();

@@ -81,7 +81,7 @@ export { renderReport, renderPlotSvg, prepareOverlay, type ReportInput, type Ove
 export { solveSweepParallel, closeSweepPool, type ParallelOptions } from './solve/parallel.js';
 export { DesignModel, VariableError, setText, type DesignOptions, type MarginGradient, type NetworkDerivatives } from './design/model.js';
 export { rankSensitivities, formatSensitivities, type SpecSensitivity, type VariableEffect } from './design/rank.js';
-export { marginDerivatives, figureAlong } from './design/model.js';
+export { marginDerivatives, figureAlong, specPoints } from './design/model.js';
 export { stampDifferences, sweepDerivatives, stepFor, type StampDifferences } from './design/sensitivity.js';
 export { ParameterGraph, ElementValueError } from './params/graph.js';
 export { compileExpr, type Compiled, type CompileScope } from './params/compile.js';

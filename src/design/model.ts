@@ -560,7 +560,7 @@ function sameValues(a: Float64Array, b: Float64Array): boolean {
  * either side. Empty (the whole sweep) when a spec's figure needs every point before it (the
  * unwrapped phase) or when nothing is saved.
  */
-function specPoints(circuit: Circuit): Float64Array {
+export function specPoints(circuit: Circuit): Float64Array {
   const f = circuit.frequencies;
   if (circuit.specs.length === 0 || circuit.specs.some((s) => /^\s*uphase\b/i.test(s.figure))) return new Float64Array(0);
   const keep = new Uint8Array(f.length);
