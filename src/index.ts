@@ -91,3 +91,10 @@ export { parseOver, spacedValues, familyMembers, evaluateFamily, formatValue, Fa
 export { formatFamilyJson, familyCsvChunks, formatFamilyCsv, familyColumn, FAMILY_SCHEMA_ID, type FamilyVariable, type FamilyResult } from './io/family.js';
 export { fit, parseMargins, specScale, penaltyOf, mulberry32, toUnit, fromUnit, isLogScale, neighbours, HINGE, EXHAUSTIVE_SNAP, type FitOptions, type FitResult, type FitMethod, type FitProgress, type FitStop } from './design/fit.js';
 export { editVariableValues, valueText, valueRange, netlistValue, WriteBackError } from './design/write-back.js';
+export { runYield, evaluateSamples, summarizeYield, sampleSetShape, type YieldOptions, type YieldResult, type YieldSample, type YieldTolerance, type SampleSet } from './yield/run.js';
+export { samplerPlan, sampleDraws, drawSample, type SamplerPlan, type SampleDraws } from './yield/sampler.js';
+export { formatYield, yieldJson, yieldSuite } from './yield/report.js';
+export { parseShard, shardRange, designDigest, formatPartial, parsePartial, mergePartials, PartialError, PARTIAL_SCHEMA, type PartialMeta } from './yield/partial.js';
+export { uniformAt, normalAt, truncatedNormalAt, normalTruncation, fillUniform, fillNormal, philoxBlock } from './yield/random.js';
+export { wilsonInterval, normalQuantile, normalCdf, percentile, histogram, pearson, type ProportionInterval } from './yield/stats.js';
+export type { Tolerance as PartTolerance, ToleranceDistribution, Lot, RandomInput } from './elaborate/circuit.js';

@@ -786,6 +786,16 @@ function designCheck(lib, c, options, sources) {
     // the same pattern, ordering and pivot sequence; only the reference pivots may differ (rounding)
     if (!(worst <= 1e-9 * scale)) return { status: 'crash', reason: `design model differs from elaboration by ${worst} (S up to ${scale})` };
   }
+  // tolerances: two yield samples through the model give finite results or documented refusals
+  if (model.circuit.tolerances?.length > 0 && lib.runYield && model.circuit.specs.length > 0) {
+    try {
+      const r = lib.runYield(model, { samples: 2, seed: 7 });
+      if (!(r.passed >= 0 && r.passed <= 2)) return { status: 'crash', reason: `yield: ${r.passed} of 2 samples pass` };
+    } catch (e) {
+      const o = judgeError(lib, e, sources);
+      if (o.status === 'crash') return { status: 'crash', reason: `yield: ${o.reason}`, stack: o.stack };
+    }
+  }
   return undefined;
 }
 
@@ -828,7 +838,7 @@ export function runCase(lib, c) {
         return { status: 'ok', reason: 'solved (complex references)' };
       }
       writeAll(lib, net, 'solve', false);
-      if (r.circuit.variables?.length > 0 && lib.DesignModel) {
+      if ((r.circuit.variables?.length > 0 || r.circuit.tolerances?.length > 0) && lib.DesignModel) {
         const bad = designCheck(lib, c, options, sources);
         if (bad) return bad;
         return { status: 'ok', reason: 'solved, written and re-evaluated' };
