@@ -8,6 +8,7 @@
  * (as for `check`).
  */
 import type { Argv } from 'yargs';
+import type { Io } from '../cli.js';
 import { PREFIXES } from '../../src/design/family.js';
 import { DesignModel } from '../../src/design/model.js';
 import { fit, parseMargins, type FitMethod, type FitResult } from '../../src/design/fit.js';
@@ -36,10 +37,6 @@ export interface FitArgs {
   strict?: boolean;
 }
 
-interface Io {
-  out: (s: string) => void;
-  err: (s: string) => void;
-}
 
 /** The options of `fit` (--set, --sweep, --quiet and --strict as for `solve`; one thread, so no --jobs). */
 export function fitBuilder(y: Argv): Argv {

@@ -1,4 +1,5 @@
 import type { Argv } from 'yargs';
+import type { Io } from '../cli.js';
 import { DesignModel } from '../../src/design/model.js';
 import { formatSensitivities, rankSensitivities } from '../../src/design/rank.js';
 import { writeFileAtomicSync } from '../../src/io/atomic.js';
@@ -14,10 +15,6 @@ export interface SensitivityArgs {
   strict?: boolean;
 }
 
-interface Io {
-  out: (s: string) => void;
-  err: (s: string) => void;
-}
 
 export const sensitivityBuilder = (y: Argv) =>
   y

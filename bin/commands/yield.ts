@@ -1,4 +1,5 @@
 import type { Argv } from 'yargs';
+import type { Io } from '../cli.js';
 import { Presets, SingleBar } from 'cli-progress';
 import { DesignModel } from '../../src/design/model.js';
 import { formatDiagnostics } from '../../src/diagnostics/diagnostic.js';
@@ -26,10 +27,6 @@ export interface YieldArgs {
   strict?: boolean;
 }
 
-interface Io {
-  out: (s: string) => void;
-  err: (s: string) => void;
-}
 
 export const yieldBuilder = (y: Argv) =>
   y
