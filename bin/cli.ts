@@ -146,16 +146,16 @@ export async function main(argv: string[], io: Io = defaultIo): Promise<number> 
       'yield <netlist>',
       'Monte Carlo over the netlist\'s tolerances: the fraction of builds that meet every spec, with its confidence interval',
       yieldBuilder,
-      (args) => {
-        code = runYieldCommand(args as unknown as YieldArgs, io, describeError);
+      async (args) => {
+        code = await runYieldCommand(args as unknown as YieldArgs, io, describeError);
       },
     )
     .command(
       'merge <partials..>',
       'merge the partial files of a sharded yield run into its result (the same as one run)',
       mergeBuilder,
-      (args) => {
-        code = runMerge(args as unknown as MergeArgs, io, describeError);
+      async (args) => {
+        code = await runMerge(args as unknown as MergeArgs, io, describeError);
       },
     )
     .command(

@@ -38,3 +38,6 @@ export const MAX_FAMILY_MEMBERS = 1000;
 
 /** Samples of one yield run (`--samples`): their margins and draws are kept, a few numbers each. */
 export const MAX_YIELD_SAMPLES = 10_000_000;
+
+/** |S| values kept for the percentile envelopes of a yield run (envelope samples × points × ports²): 400 MB of numbers. */
+export const MAX_ENVELOPE_VALUES = 50_000_000;

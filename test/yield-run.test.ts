@@ -160,7 +160,7 @@ describe('draws', () => {
 });
 
 describe('yield options (fuzz)', () => {
-  it('any numbers for --samples, --seed and --min-yield give a result or a plain refusal, never an internal error (fast-check)', async () => {
+  it('any numbers for --samples, --seed, --min-yield, --jobs and --envelopes give a result or a plain refusal, never an internal error (fast-check)', async () => {
     const fc = (await import('fast-check')).default;
     const { runYieldCommand } = await import('../bin/commands/yield.js');
     const dir = mkdtempSync(join(tmpdir(), 'sbx-yield-fuzz-'));
@@ -168,13 +168,17 @@ describe('yield options (fuzz)', () => {
     writeFileSync(net, PAD(9.85, 10.15) + '\n');
     const num = fc.oneof(fc.integer({ min: -5, max: 40 }), fc.double(), fc.constantFrom(NaN, Infinity, -0, 1e300, 2 ** 53, 0.5));
     try {
-      fc.assert(
-        fc.property(num, num, fc.option(num), (samples, seed, minYield) => {
+      await fc.assert(
+        fc.asyncProperty(num, num, fc.option(num), fc.option(num), fc.option(num), async (samples, seed, minYield, jobs, envelopes) => {
           const out: string[] = [];
           const err: string[] = [];
-          const code = runYieldCommand({ netlist: net, samples, seed, minYield: minYield ?? undefined, quiet: true }, { out: (s) => void out.push(s), err: (s) => void err.push(s) }, (e) => `error: ${(e as Error).message}`);
+          const code = await runYieldCommand(
+            { netlist: net, samples, seed, minYield: minYield ?? undefined, jobs: jobs ?? 1, envelopes: envelopes ?? undefined, quiet: true },
+            { out: (s) => void out.push(s), err: (s) => void err.push(s) },
+            (e) => `error: ${(e as Error).message}`,
+          );
           expect([0, 1]).toContain(code);
-          if (err.length > 0) expect(err.join('')).toMatch(/^error: --(samples|seed|min-yield) /);
+          if (err.length > 0) expect(err.join('')).toMatch(/^error: --(samples|seed|min-yield|jobs|envelopes) /);
           else expect(out.join('')).toMatch(/^yield of /);
         }),
         { numRuns: 60, seed: 16 },

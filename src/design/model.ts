@@ -31,6 +31,15 @@ export interface DesignOptions extends LoadOptions {
   solver?: SolverChoice;
 }
 
+/** What makes a {@link DesignModel} again in another thread (plain data, structured-cloneable). */
+export interface ModelRecipe {
+  text: string;
+  file: string;
+  options: Omit<DesignOptions, 'readFile'>;
+  /** The variable values, SI units, in netlist order. */
+  values: Float64Array;
+}
+
 /** A variable value outside its range, or a name that is no variable. */
 export class VariableError extends RangeError {
   constructor(
@@ -137,6 +146,26 @@ export class DesignModel {
   }
 
   /**
+   * The nominal value of every tolerance (Circuit.tolerances, SI units) at the current variable
+   * values: what a yield sample's draws spread (a drawn value is nominal·mult + add).
+   */
+  toleranceNominals(): Float64Array {
+    const saved = this.draws;
+    this.draws = undefined;
+    try {
+      const x = this.inputVector();
+      const ev = this.elementValues(this.fast?.graph, x);
+      const out = Float64Array.from(this.circuit.tolerances, (tol) => (tol.target.kind === 'parameter' ? x[tol.target.input]! : tol.nominal));
+      this.elementTolerances.t.forEach((t, i) => {
+        out[t] = ev[i]!;
+      });
+      return out;
+    } finally {
+      this.draws = saved;
+    }
+  }
+
+  /**
    * Sets a yield sample's draws (src/yield/sampler.ts: per tolerance of Circuit.tolerances, the
    * value is n·mult + add with n its nominal value — for a design variable, its current value), or
    * none: every toleranced number at its nominal value, as the design tools see the circuit.
@@ -205,6 +234,23 @@ export class DesignModel {
     r.run(0, freqs.length);
     const net = r.finish();
     return { ...net, values: Float64Array.from(net.values) };
+  }
+
+  /**
+   * What another thread needs to make the same model (its netlist text, file and options, and the
+   * current variable values), or undefined where the options cannot be sent (a custom `readFile`).
+   */
+  get recipe(): ModelRecipe | undefined {
+    if (this.options.readFile) return undefined;
+    const { readFile: _r, ...options } = this.options;
+    return { text: this.text, file: this.file, options, values: this.values };
+  }
+
+  /** A model made from a {@link recipe} (in another thread), at the recipe's variable values. */
+  static fromRecipe(r: ModelRecipe): DesignModel {
+    const m = new DesignModel(r.text, r.file, r.options);
+    if (r.values.length > 0) m.setValues(r.values);
+    return m;
   }
 
   /** A model of the netlist file at `path` (throws InputError as loadNetlistFile does). */

@@ -11,10 +11,11 @@
  * @module
  */
 import { createHash } from 'node:crypto';
-import type { SampleSet } from './run.js';
-import { MAX_YIELD_SAMPLES } from '../limits.js';
+import { endianness } from 'node:os';
+import { envelopeRows, type EnvelopeRows, type SampleSet } from './run.js';
+import { MAX_ENVELOPE_VALUES, MAX_PORTS, MAX_YIELD_SAMPLES } from '../limits.js';
 
-export const PARTIAL_SCHEMA = 'scatterbox.yield-part/1';
+export const PARTIAL_SCHEMA = 'scatterbox.yield-part/2';
 
 /** What a partial file says about its run. */
 export interface PartialMeta {
@@ -61,10 +62,37 @@ export function designDigest(sources: ReadonlyMap<string, string>, options: { se
   return h.digest('hex');
 }
 
-/** A partial file's text. */
+/**
+ * Numbers of a partial file: the bytes of IEEE 754 doubles, little-endian, in base64 (RFC 4648):
+ * exact (every bit kept, −∞ and NaN included) and quick to write and read.
+ */
+export function encodeDoubles(a: Float64Array): string {
+  if (endianness() === 'LE') return Buffer.from(a.buffer, a.byteOffset, a.byteLength).toString('base64');
+  const b = Buffer.alloc(a.byteLength);
+  for (let i = 0; i < a.length; i++) b.writeDoubleLE(a[i]!, 8 * i);
+  return b.toString('base64');
+}
+
+const BASE64 = /^[A-Za-z0-9+/]*={0,2}$/;
+
+/** The doubles of {@link encodeDoubles}: exactly `count` of them, or undefined. */
+export function decodeDoubles(text: unknown, count: number): Float64Array | undefined {
+  if (typeof text !== 'string' || text.length % 4 !== 0 || !BASE64.test(text)) return undefined;
+  const b = Buffer.from(text, 'base64');
+  if (b.length !== 8 * count) return undefined;
+  const out = new Float64Array(count);
+  if (endianness() === 'LE') new Uint8Array(out.buffer).set(b);
+  else for (let i = 0; i < count; i++) out[i] = b.readDoubleLE(8 * i);
+  return out;
+}
+
+/** A partial file's text: JSON, the per-sample numbers in {@link encodeDoubles} form. */
 export function formatPartial(set: SampleSet, meta: PartialMeta): string {
-  const nS = set.specs.length;
-  const nT = set.tolerances.length;
+  const errors: [number, string][] = [];
+  set.errors.forEach((e, i) => {
+    if (e) errors.push([i, e]);
+  });
+  const env = set.envelope;
   const doc = {
     schema: PARTIAL_SCHEMA,
     ...meta,
@@ -73,11 +101,11 @@ export function formatPartial(set: SampleSet, meta: PartialMeta): string {
     count: set.count,
     specs: set.specs,
     tolerances: set.tolerances,
-    samples: Array.from({ length: set.count }, (_, i) => ({
-      margins: Array.from(set.margins.subarray(i * nS, (i + 1) * nS), (m) => (Number.isFinite(m) ? m : null)),
-      draws: Array.from(set.draws.subarray(i * nT, (i + 1) * nT)),
-      ...(set.errors[i] ? { error: set.errors[i] } : {}),
-    })),
+    errors,
+    margins: encodeDoubles(set.margins),
+    draws: encodeDoubles(set.draws),
+    values: encodeDoubles(set.values),
+    ...(env ? { envelope: { samples: env.samples, ports: env.ports, rows: env.rows, frequencies: encodeDoubles(env.frequencies), magnitudes: encodeDoubles(env.magnitudes) } } : {}),
   };
   return JSON.stringify(doc) + '\n';
 }
@@ -94,11 +122,12 @@ export function parsePartial(text: string, file: string): { set: SampleSet; meta
   }
   const bad = (what: string) => new PartialError(`${file}: not a partial yield file of this version (${what})`);
   if (!isObject(doc) || doc.schema !== PARTIAL_SCHEMA) throw bad(`its schema is not ${PARTIAL_SCHEMA}`);
-  const int = (k: string, min: number) => {
-    const v = doc[k];
-    if (typeof v !== 'number' || !Number.isSafeInteger(v) || v < min) throw bad(`\`${k}\` is not a whole number from ${min}`);
+  const intIn = (o: Record<string, unknown>, k: string, min: number, max = MAX_YIELD_SAMPLES) => {
+    const v = o[k];
+    if (typeof v !== 'number' || !Number.isSafeInteger(v) || v < min || v > max) throw bad(`\`${k}\` is not a whole number from ${min} to ${max}`);
     return v;
   };
+  const int = (k: string, min: number) => intIn(doc, k, min, k === 'seed' ? Number.MAX_SAFE_INTEGER : MAX_YIELD_SAMPLES);
   const str = (k: string) => {
     const v = doc[k];
     if (typeof v !== 'string') throw bad(`\`${k}\` is not text`);
@@ -108,34 +137,45 @@ export function parsePartial(text: string, file: string): { set: SampleSet; meta
   const seed = int('seed', 0);
   const first = int('first', 0);
   const count = int('count', 0);
-  if (meta.shard > meta.shards || meta.total > MAX_YIELD_SAMPLES) throw bad('its shard numbers do not fit');
+  if (meta.shard > meta.shards) throw bad('its shard numbers do not fit');
   const [f, c] = shardRange(meta.total, meta.shard, meta.shards);
   if (f !== first || c !== count) throw bad(`shard ${meta.shard} of ${meta.shards} holds samples ${f}… but the file says ${first}…`);
   const specs = doc.specs;
   const tolerances = doc.tolerances;
   if (!Array.isArray(specs) || !specs.every((s) => isObject(s) && typeof s.name === 'string' && typeof s.figure === 'string' && typeof s.unit === 'string' && typeof s.scale === 'number')) throw bad('its specs');
-  if (!Array.isArray(tolerances) || !tolerances.every((t) => isObject(t) && typeof t.name === 'string' && (t.lot === undefined || typeof t.lot === 'string'))) throw bad('its tolerances');
-  const samples = doc.samples;
-  if (!Array.isArray(samples) || samples.length !== count) throw bad('its samples');
+  if (!Array.isArray(tolerances) || !tolerances.every((t) => isObject(t) && typeof t.name === 'string' && (t.unit === null || typeof t.unit === 'string') && (t.lot === undefined || typeof t.lot === 'string'))) throw bad('its tolerances');
   const nS = specs.length;
   const nT = tolerances.length;
-  const margins = new Float64Array(count * nS);
-  const draws = new Float64Array(count * nT);
-  const errors: (string | null)[] = [];
-  samples.forEach((s: unknown, i) => {
-    if (!isObject(s) || !Array.isArray(s.margins) || s.margins.length !== nS || !Array.isArray(s.draws) || s.draws.length !== nT) throw bad(`sample ${first + i}`);
-    s.margins.forEach((m: unknown, q) => {
-      if (m !== null && typeof m !== 'number') throw bad(`sample ${first + i}`);
-      margins[i * nS + q] = m === null ? -Infinity : m;
-    });
-    s.draws.forEach((d: unknown, q) => {
-      if (typeof d !== 'number') throw bad(`sample ${first + i}`);
-      draws[i * nT + q] = d;
-    });
-    if (s.error !== undefined && typeof s.error !== 'string') throw bad(`sample ${first + i}`);
-    errors.push((s.error as string | undefined) ?? null);
-  });
-  return { set: { seed, first, count, specs: specs as SampleSet['specs'], tolerances: tolerances as SampleSet['tolerances'], margins, draws, errors }, meta };
+  if (count * Math.max(nS, nT, 1) > 16 * MAX_YIELD_SAMPLES) throw bad('its size');
+  const margins = decodeDoubles(doc.margins, count * nS);
+  const draws = decodeDoubles(doc.draws, count * nT);
+  const values = decodeDoubles(doc.values, count * nT);
+  if (!margins) throw bad('its margins');
+  if (!draws) throw bad('its draws');
+  if (!values) throw bad('its values');
+  const errors: (string | null)[] = new Array<string | null>(count).fill(null);
+  if (!Array.isArray(doc.errors)) throw bad('its errors');
+  for (const e of doc.errors as unknown[]) {
+    if (!Array.isArray(e) || e.length !== 2 || typeof e[0] !== 'number' || !Number.isSafeInteger(e[0]) || e[0] < 0 || e[0] >= count || typeof e[1] !== 'string') throw bad('its errors');
+    errors[e[0]] = e[1];
+  }
+  let envelope: EnvelopeRows | undefined;
+  if (doc.envelope !== undefined) {
+    const env = doc.envelope;
+    if (!isObject(env)) throw bad('its envelope');
+    const samples = intIn(env, 'samples', 1);
+    const ports = intIn(env, 'ports', 1, MAX_PORTS);
+    const rows = intIn(env, 'rows', 0);
+    if (rows !== envelopeRows(first, count, samples)) throw bad('its envelope rows');
+    const fb = typeof env.frequencies === 'string' ? env.frequencies.length : 0;
+    const points = Math.floor((fb / 4) * 3 / 8);
+    const frequencies = decodeDoubles(env.frequencies, points);
+    if (!frequencies || rows * points * ports * ports > MAX_ENVELOPE_VALUES) throw bad('its envelope frequencies');
+    const magnitudes = decodeDoubles(env.magnitudes, rows * points * ports * ports);
+    if (!magnitudes) throw bad('its envelope magnitudes');
+    envelope = { samples, ports, rows, frequencies, magnitudes };
+  }
+  return { set: { seed, first, count, specs: specs as SampleSet['specs'], tolerances: tolerances as SampleSet['tolerances'], margins, draws, values, errors, ...(envelope ? { envelope } : {}) }, meta };
 }
 
 /** Merges the partials of one run (any order) into the set a single run gives; every shard exactly once. */
@@ -159,14 +199,28 @@ export function mergePartials(parts: readonly { set: SampleSet; meta: PartialMet
   const nS = a.set.specs.length;
   const nT = a.set.tolerances.length;
   const total = a.meta.total;
+  const env = a.set.envelope;
+  for (const p of parts) {
+    const e = p.set.envelope;
+    if (!env !== !e || (env && e && (e.samples !== env.samples || e.ports !== env.ports || !same(Array.from(e.frequencies), Array.from(env.frequencies))))) {
+      throw new PartialError(`${p.file} and ${a.file} differ in their envelopes (the number of envelope samples or the sweep)`);
+    }
+  }
   const margins = new Float64Array(total * nS);
   const draws = new Float64Array(total * nT);
+  const values = new Float64Array(total * nT);
+  const stride = env ? env.frequencies.length * env.ports * env.ports : 0;
+  const envRows = env ? envelopeRows(0, total, env.samples) : 0;
+  const magnitudes = new Float64Array(envRows * stride);
   const errors: (string | null)[] = [];
   for (let i = 1; i <= a.meta.shards; i++) {
     const p = byShard.get(i)!;
     margins.set(p.set.margins, p.set.first * nS);
     draws.set(p.set.draws, p.set.first * nT);
+    values.set(p.set.values, p.set.first * nT);
+    if (p.set.envelope && p.set.envelope.rows > 0) magnitudes.set(p.set.envelope.magnitudes, p.set.first * stride);
     errors.push(...p.set.errors);
   }
-  return { set: { ...a.set, first: 0, count: total, margins, draws, errors }, meta: { ...a.meta, shard: 1, shards: 1 } };
+  const envelope = env ? { envelope: { samples: env.samples, ports: env.ports, frequencies: env.frequencies, rows: envRows, magnitudes } } : {};
+  return { set: { ...a.set, first: 0, count: total, margins, draws, values, errors, ...envelope }, meta: { ...a.meta, shard: 1, shards: 1 } };
 }

@@ -14,9 +14,9 @@ import type { DesignModel } from '../design/model.js';
 import { specScale } from '../design/fit.js';
 import { InputError } from '../diagnostics/diagnostic.js';
 import { SingularSystemError } from '../solve/sweep.js';
-import { drawSample, sampleDraws, samplerPlan } from './sampler.js';
-import { pearson, wilsonInterval, type ProportionInterval } from './stats.js';
-import { MAX_YIELD_SAMPLES } from '../limits.js';
+import { drawSample, sampleDraws, samplerPlan, type SampleDraws, type SamplerPlan } from './sampler.js';
+import { pearson, percentilesInPlace, wilsonInterval, type ProportionInterval } from './stats.js';
+import { MAX_ENVELOPE_VALUES, MAX_YIELD_SAMPLES } from '../limits.js';
 
 export interface YieldOptions {
   samples: number;
@@ -35,6 +35,8 @@ export interface YieldOptions {
 export interface YieldTolerance {
   /** `c1.value`, `lres`… */
   name: string;
+  /** The SI unit of its value ('F', 'H'…), or null for a plain number. */
+  unit: string | null;
   lot?: string;
 }
 
@@ -65,6 +67,8 @@ export interface YieldResult {
   draws: Float64Array;
   /** The worst samples, worst first. */
   worst: YieldSample[];
+  /** Per sample: why it could not be evaluated, or null. */
+  perSampleErrors: readonly (string | null)[];
   /**
    * Per spec, per tolerance: the correlation (Pearson) of the tolerance's draw with the spec's worst
    * margin over the evaluated samples (NaN where either does not vary): a strong one (|r| near 1)
@@ -72,7 +76,33 @@ export interface YieldResult {
    * high lowers the margin.
    */
   drivers: Float64Array;
+  /**
+   * Per spec, per tolerance: the correlation of the size of the tolerance's draw (|2u − 1| or |z|)
+   * with the spec's worst margin: strongly negative where a part off its nominal either way lowers
+   * the margin (a spec at its best near the nominal, as a match is), which the signed
+   * {@link drivers} miss.
+   */
+  spreadDrivers: Float64Array;
+  /** The drawn value of tolerance t in sample i (SI units) at values[i·tolerances + t]. */
+  values: Float64Array;
+  /** Percentile envelopes of |S_ij| over the sweep, when the run solved whole sweeps. */
+  envelope?: YieldEnvelope;
 }
+
+/** Percentiles of |S_ij| in dB over the evaluated envelope samples, at every point of the sweep. */
+export interface YieldEnvelope {
+  /** Envelope samples that could be evaluated (those that could not are left out). */
+  samples: number;
+  ports: number;
+  frequencies: Float64Array;
+  /** The percentiles, in percent (1, 50, 99). */
+  percentiles: number[];
+  /** 20·log10 |S_ij| at percentile q, frequency k: db[(q·F + k)·p² + i·p + j]. */
+  db: Float64Array;
+}
+
+/** The percentiles the envelopes show, in percent. */
+export const ENVELOPE_PERCENTILES = [1, 50, 99];
 
 /**
  * The per-sample results of samples first … first + count − 1: all a summary needs, so that
@@ -88,8 +118,32 @@ export interface SampleSet {
   margins: Float64Array;
   /** The standard draw of tolerance t in sample i at draws[i·tolerances + t]. */
   draws: Float64Array;
+  /** The drawn value of tolerance t in sample i (SI units) at values[i·tolerances + t]. */
+  values: Float64Array;
   /** Per sample: why it could not be evaluated, or null. */
   errors: (string | null)[];
+  /** The whole sweep of the run's first samples, for percentile envelopes (when asked for). */
+  envelope?: EnvelopeRows;
+}
+
+/**
+ * |S_ij| over the whole sweep of samples 0 … samples − 1 of a run (its envelope samples), as far
+ * as they fall in a set: the set's row r (sample first + r) for r < rows.
+ */
+export interface EnvelopeRows {
+  /** The run's envelope samples: samples 0 … samples − 1 have their whole sweep solved. */
+  samples: number;
+  ports: number;
+  frequencies: Float64Array;
+  /** Rows of this set that are envelope samples: max(0, min(count, samples − first)). */
+  rows: number;
+  /** |S_ij| of row r at frequency k at magnitudes[(r·F + k)·p² + i·p + j] (NaN: not evaluated). */
+  magnitudes: Float64Array;
+}
+
+/** The rows of a set of `count` samples from `first` that are among a run's first `samples`. */
+export function envelopeRows(first: number, count: number, samples: number): number {
+  return Math.max(0, Math.min(count, samples - first));
 }
 
 /** The specs and tolerances a set of samples of the model describes (its columns). */
@@ -97,53 +151,168 @@ export function sampleSetShape(model: DesignModel): Pick<SampleSet, 'specs' | 't
   const circuit = model.circuit;
   return {
     specs: circuit.specs.map((sp) => ({ name: sp.name, figure: sp.figure, unit: sp.unit, scale: specScale(sp) })),
-    tolerances: circuit.tolerances.map((t) => ({ name: t.target.kind === 'parameter' ? t.target.name : `${circuit.elements[t.target.element]!.name}.${t.target.key}`, ...(t.lot !== undefined ? { lot: t.lot } : {}) })),
+    tolerances: circuit.tolerances.map((t) => ({ name: t.target.kind === 'parameter' ? t.target.name : `${circuit.elements[t.target.element]!.name}.${t.target.key}`, unit: t.unit, ...(t.lot !== undefined ? { lot: t.lot } : {}) })),
   };
 }
 
-/** Evaluates samples first … first + count − 1 of the model's tolerances (see {@link SampleSet}). */
-export function evaluateSamples(model: DesignModel, options: { seed: number; first?: number; count: number; onProgress?: (done: number, total: number) => void }): SampleSet {
-  const circuit = model.circuit;
-  const specs = circuit.specs;
-  const nS = specs.length;
-  const nT = circuit.tolerances.length;
-  const n = options.count;
-  const first = options.first ?? 0;
-  if (!Number.isSafeInteger(n) || n < 1 || n > MAX_YIELD_SAMPLES) throw new RangeError(`the number of samples is a whole number from 1 to ${MAX_YIELD_SAMPLES}, not ${n}`);
-  if (!Number.isSafeInteger(first) || first < 0) throw new RangeError(`the first sample is a whole number from 0, not ${first}`);
-  const plan = samplerPlan(circuit, options.seed);
-  const draws = sampleDraws(plan);
-  const lotScratch = new Float64Array(plan.lots.length);
-  const margins = new Float64Array(n * nS);
-  const allDraws = new Float64Array(n * nT);
-  const errors: (string | null)[] = [];
-  for (let i = 0; i < n; i++) {
-    drawSample(plan, first + i, draws, lotScratch);
-    allDraws.set(draws.unit, i * nT);
-    model.setDraws(draws);
+/** The flat arrays samples are evaluated into, row by row (see {@link SampleSet}). */
+export interface SampleRows {
+  margins: Float64Array;
+  draws: Float64Array;
+  values: Float64Array;
+  /** Magnitudes of the envelope rows (see {@link EnvelopeRows}), when asked for. */
+  magnitudes?: Float64Array;
+}
+
+/**
+ * Evaluates single samples of a model into flat arrays: the sample's worst margin per spec at
+ * margins[i·specs + s], its standard draws and drawn values at [i·tolerances + t], and, for the
+ * run's envelope samples, |S| over the whole sweep. The result of sample k depends only on the
+ * model's design (netlist, options, variable values), the seed and k, not on which samples the
+ * model evaluated before: the threads of a run and the shards of a sharded run each use their own.
+ */
+export class SampleEvaluator {
+  private readonly plan: SamplerPlan;
+  private readonly scratch: SampleDraws;
+  private readonly lotScratch: Float64Array;
+  private readonly nominals: Float64Array;
+  readonly specCount: number;
+  readonly toleranceCount: number;
+  /** Values per envelope row: points × ports². */
+  readonly envelopeStride: number;
+
+  /** `envelopeSamples`: samples 0 … envelopeSamples − 1 also have their whole sweep solved. */
+  constructor(
+    private readonly model: DesignModel,
+    seed: number,
+    readonly envelopeSamples = 0,
+  ) {
+    this.plan = samplerPlan(model.circuit, seed);
+    this.scratch = sampleDraws(this.plan);
+    this.lotScratch = new Float64Array(this.plan.lots.length);
+    this.nominals = model.toleranceNominals();
+    this.specCount = model.circuit.specs.length;
+    this.toleranceCount = model.circuit.tolerances.length;
+    const p = model.circuit.ports.length;
+    this.envelopeStride = model.circuit.frequencies.length * p * p;
+  }
+
+  /**
+   * Evaluates sample k into row i of the arrays (and, for an envelope sample, row i of the
+   * magnitudes); why it could not be evaluated, or null.
+   */
+  evaluate(k: number, i: number, rows: SampleRows): string | null {
+    const nS = this.specCount;
+    const nT = this.toleranceCount;
+    const d = this.scratch;
+    drawSample(this.plan, k, d, this.lotScratch);
+    rows.draws.set(d.unit, i * nT);
+    for (let t = 0; t < nT; t++) rows.values[i * nT + t] = this.nominals[t]! * d.mult[t]! + d.add[t]!;
+    this.model.setDraws(d);
     let results: SpecResult[] | undefined;
     let error: string | null = null;
+    const wantSweep = k < this.envelopeSamples && rows.magnitudes !== undefined;
     try {
-      results = model.checkSpecs();
+      results = this.model.checkSpecs();
+      if (wantSweep) {
+        const v = this.model.solve().values;
+        const out = rows.magnitudes!;
+        const at = i * this.envelopeStride;
+        for (let q = 0; q < this.envelopeStride; q++) out[at + q] = Math.hypot(v[2 * q]!, v[2 * q + 1]!);
+      }
     } catch (e) {
       if (e instanceof InputError) error = e.diagnostics[0]?.message ?? 'a part value cannot be taken';
       else if (e instanceof SingularSystemError) error = e.message;
       else throw e;
+      if (wantSweep) rows.magnitudes!.fill(NaN, i * this.envelopeStride, (i + 1) * this.envelopeStride);
     }
-    errors.push(error);
-    for (let s = 0; s < nS; s++) margins[i * nS + s] = results ? results[s]!.worstMargin : -Infinity;
-    options.onProgress?.(i + 1, n);
+    for (let s = 0; s < nS; s++) rows.margins[i * nS + s] = results ? results[s]!.worstMargin : -Infinity;
+    return error;
   }
-  model.setDraws(undefined);
+
+  /** Puts the model back to its nominal parts. */
+  finish(): void {
+    this.model.setDraws(undefined);
+  }
+}
+
+/** Checks the first sample and the count of a run (RangeError). */
+export function checkSampleRange(first: number, count: number): void {
+  if (!Number.isSafeInteger(count) || count < 1 || count > MAX_YIELD_SAMPLES) throw new RangeError(`the number of samples is a whole number from 1 to ${MAX_YIELD_SAMPLES}, not ${count}`);
+  if (!Number.isSafeInteger(first) || first < 0) throw new RangeError(`the first sample is a whole number from 0, not ${first}`);
+}
+
+/** What {@link evaluateSamples} runs. */
+export interface EvaluateOptions {
+  seed: number;
+  /** The first sample's number (default 0). */
+  first?: number;
+  count: number;
+  /** The run's first `envelopeSamples` samples also have their whole sweep solved (default 0). */
+  envelopeSamples?: number;
+  onProgress?: (done: number, total: number) => void;
+}
+
+/** The arrays of a set of samples of the model, zeroed (shared between threads when `share`). */
+export function sampleRows(model: DesignModel, first: number, count: number, envelopeSamples: number, share = false): SampleRows {
+  const c = model.circuit;
+  const array = (n: number) => (share ? new Float64Array(new SharedArrayBuffer(8 * n)) : new Float64Array(n));
+  const p = c.ports.length;
+  const rows = envelopeRows(first, count, envelopeSamples);
+  const stride = c.frequencies.length * p * p;
+  if (rows * stride > MAX_ENVELOPE_VALUES) {
+    throw new RangeError(`the whole sweeps of ${rows} samples hold ${rows * stride} magnitudes, more than the limit of ${MAX_ENVELOPE_VALUES}: take fewer envelope samples (at most ${Math.floor(MAX_ENVELOPE_VALUES / stride)}) or fewer sweep points`);
+  }
   return {
-    seed: options.seed,
-    first,
-    count: n,
-    ...sampleSetShape(model),
-    margins,
-    draws: allDraws,
-    errors,
+    margins: array(count * c.specs.length),
+    draws: array(count * c.tolerances.length),
+    values: array(count * c.tolerances.length),
+    ...(envelopeSamples > 0 ? { magnitudes: array(rows * stride) } : {}),
   };
+}
+
+/** The set of samples first … first + count − 1 that the arrays hold. */
+export function sampleSetOf(model: DesignModel, o: { seed: number; first: number; count: number; envelopeSamples: number }, rows: SampleRows, errors: (string | null)[]): SampleSet {
+  const c = model.circuit;
+  return {
+    seed: o.seed,
+    first: o.first,
+    count: o.count,
+    ...sampleSetShape(model),
+    margins: rows.margins,
+    draws: rows.draws,
+    values: rows.values,
+    errors,
+    ...(rows.magnitudes
+      ? { envelope: { samples: o.envelopeSamples, ports: c.ports.length, frequencies: Float64Array.from(c.frequencies), rows: envelopeRows(o.first, o.count, o.envelopeSamples), magnitudes: rows.magnitudes } }
+      : {}),
+  };
+}
+
+/** Evaluates samples first … first + count − 1 of the model's tolerances in this thread (see {@link SampleSet}). */
+export function evaluateSamples(model: DesignModel, options: EvaluateOptions): SampleSet {
+  const n = options.count;
+  const first = options.first ?? 0;
+  const envelopeSamples = options.envelopeSamples ?? 0;
+  checkSampleRange(first, n);
+  checkEnvelopeSamples(envelopeSamples);
+  const rows = sampleRows(model, first, n, envelopeSamples);
+  const ev = new SampleEvaluator(model, options.seed, envelopeSamples);
+  const errors: (string | null)[] = [];
+  try {
+    for (let i = 0; i < n; i++) {
+      errors.push(ev.evaluate(first + i, i, rows));
+      options.onProgress?.(i + 1, n);
+    }
+  } finally {
+    ev.finish();
+  }
+  return sampleSetOf(model, { seed: options.seed, first, count: n, envelopeSamples }, rows, errors);
+}
+
+/** Checks a number of envelope samples (RangeError). */
+export function checkEnvelopeSamples(n: number): void {
+  if (!Number.isSafeInteger(n) || n < 0 || n > MAX_YIELD_SAMPLES) throw new RangeError(`the number of envelope samples is a whole number from 0 to ${MAX_YIELD_SAMPLES}, not ${n}`);
 }
 
 /** The yield, failures, worst samples and drivers of a set of samples (see {@link YieldResult}). */
@@ -195,6 +364,7 @@ export function summarizeYield(set: SampleSet, options: { confidence?: number; w
   }
   // which tolerance each spec's margin follows, over the samples that could be evaluated
   const drivers = new Float64Array(nS * nT);
+  const spreadDrivers = new Float64Array(nS * nT);
   const m = new Float64Array(n);
   const x = new Float64Array(n);
   for (let s = 0; s < nS; s++) {
@@ -207,6 +377,8 @@ export function summarizeYield(set: SampleSet, options: { confidence?: number; w
         c++;
       }
       drivers[s * nT + t] = c >= 3 ? pearson(x, m, c) : NaN;
+      for (let i = 0; i < c; i++) x[i] = Math.abs(x[i]!);
+      spreadDrivers[s * nT + t] = c >= 3 ? pearson(x, m, c) : NaN;
     }
   }
   return {
@@ -221,8 +393,32 @@ export function summarizeYield(set: SampleSet, options: { confidence?: number; w
     margins,
     draws: set.draws,
     worst,
+    perSampleErrors: set.errors,
     drivers,
+    spreadDrivers,
+    values: set.values,
+    ...(set.envelope ? { envelope: envelopePercentiles(set.envelope, set.errors) } : {}),
   };
+}
+
+/** The percentile envelopes of a set's envelope rows, over the rows that could be evaluated. */
+export function envelopePercentiles(env: EnvelopeRows, errors: readonly (string | null)[]): YieldEnvelope {
+  const stride = env.frequencies.length * env.ports * env.ports;
+  const good: number[] = [];
+  for (let r = 0; r < env.rows; r++) if (!errors[r]) good.push(r);
+  const q = ENVELOPE_PERCENTILES.length;
+  const db = new Float64Array(q * stride).fill(NaN);
+  const column = new Float64Array(good.length);
+  const out = new Float64Array(q);
+  const levels = ENVELOPE_PERCENTILES.map((p) => p / 100);
+  if (good.length > 0) {
+    for (let v = 0; v < stride; v++) {
+      for (let g = 0; g < good.length; g++) column[g] = env.magnitudes[good[g]! * stride + v]!;
+      percentilesInPlace(column, levels, out);
+      for (let l = 0; l < q; l++) db[l * stride + v] = 20 * Math.log10(out[l]!);
+    }
+  }
+  return { samples: good.length, ports: env.ports, frequencies: env.frequencies, percentiles: [...ENVELOPE_PERCENTILES], db };
 }
 
 /** Runs `options.samples` samples of the model's tolerances and evaluates its specs for each. */

@@ -63,7 +63,7 @@ function spread(d: ToleranceDistribution, s: number): { relative: number; absolu
 }
 
 /** Fills `out` with the draws of sample k (see the module comment). */
-export function drawSample(plan: SamplerPlan, k: number, out: SampleDraws, lotScratch = new Float64Array(plan.lots.length)): void {
+export function drawSample(plan: SamplerPlan, k: number, out: SampleDraws, lotScratch: Float64Array = new Float64Array(plan.lots.length)): void {
   const L = plan.lots.length;
   for (let l = 0; l < L; l++) {
     const lot = plan.lots[l]!;
