@@ -27,18 +27,20 @@ afterAll(() => rmSync(dir, { recursive: true, force: true }));
 
 describe('shards and merge', () => {
   it('N shards as separate processes, merged in any order, give the bytes of one run (JSON and printout)', () => {
-    const single = run(['yield', DEMO, '--samples', '301', '--seed', '12', '--json', join(dir, 'single.json'), '--junit', join(dir, 'single.xml'), '--min-yield', '0.05']);
+    // 90 envelope samples: shards 1 and 2 hold them (75 and 15), shards 3 and 4 none
+    const outputs = (name: string) => ['--json', join(dir, `${name}.json`), '--junit', join(dir, `${name}.xml`), '--csv', join(dir, `${name}.csv`), '--report', join(dir, `${name}.html`), '--plot', join(dir, `${name}.svg`), '--min-yield', '0.05'];
+    const single = run(['yield', DEMO, '--samples', '301', '--seed', '12', '--envelopes', '90', '--jobs', '1', ...outputs('single')]);
     expect(single.code).toBe(0);
     const N = 4;
     for (let i = 1; i <= N; i++) {
-      const r = run(['yield', DEMO, '--samples', '301', '--seed', '12', '--shard', `${i}/${N}`, '-o', join(dir, `p${i}.json`)]);
+      const r = run(['yield', DEMO, '--samples', '301', '--seed', '12', '--envelopes', '90', '--shard', `${i}/${N}`, '-o', join(dir, `p${i}.json`)]);
       expect(r.code).toBe(0);
     }
-    const merged = run(['merge', join(dir, 'p3.json'), join(dir, 'p1.json'), join(dir, 'p4.json'), join(dir, 'p2.json'), '--json', join(dir, 'merged.json'), '--junit', join(dir, 'merged.xml'), '--min-yield', '0.05']);
+    const merged = run(['merge', join(dir, 'p3.json'), join(dir, 'p1.json'), join(dir, 'p4.json'), join(dir, 'p2.json'), ...outputs('merged')]);
     expect(merged.code).toBe(0);
     expect(merged.out).toBe(single.out);
-    expect(readFileSync(join(dir, 'merged.json'))).toEqual(readFileSync(join(dir, 'single.json')));
-    expect(readFileSync(join(dir, 'merged.xml'))).toEqual(readFileSync(join(dir, 'single.xml')));
+    for (const ext of ['json', 'xml', 'csv', 'html', 'svg']) expect(readFileSync(join(dir, `merged.${ext}`)), ext).toEqual(readFileSync(join(dir, `single.${ext}`)));
+    expect(readFileSync(join(dir, 'single.html'), 'utf8')).toContain('data-testid="envelope-plot"');
   });
 
   it('refuses a missing shard, a shard given twice and a partial of another design', () => {
