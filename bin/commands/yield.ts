@@ -19,8 +19,8 @@ import { basename, extname } from 'node:path';
 
 export interface YieldArgs {
   netlist: string;
-  samples: number;
-  seed: number;
+  samples?: number;
+  seed?: number;
   jobs: number;
   minYield?: number;
   json?: string;
@@ -41,10 +41,10 @@ export interface YieldArgs {
 export const yieldBuilder = (y: Argv) =>
   y
     .positional('netlist', { type: 'string', describe: 'netlist file (.sbx) with tolerances (`tol …`) and specs', demandOption: true })
-    .option('samples', { alias: 'n', type: 'number', default: 1000, describe: 'number of samples' })
-    .option('seed', { type: 'number', default: 1, describe: 'seed of the draws (a whole number; sample k depends only on the seed and k)' })
+    .option('samples', { alias: 'n', type: 'number', describe: 'number of samples (default: the netlist\'s `yield samples=`, else 1000)' })
+    .option('seed', { type: 'number', describe: 'seed of the draws, a whole number; sample k depends only on the seed and k (default: the netlist\'s `yield seed=`, else 1)' })
     .option('jobs', { alias: 'j', type: 'number', default: availableParallelism(), describe: 'threads, this one included (1: one thread); the results are the same for any count' })
-    .option('min-yield', { type: 'number', describe: 'the yield target, 0 to 1: below it the exit code is 1 and the JUnit case fails' })
+    .option('min-yield', { type: 'number', describe: 'the yield target, 0 to 1: below it the exit code is 1 and the JUnit case fails (default: the netlist\'s `yield min=`)' })
     .option('json', { type: 'string', describe: 'write the results as JSON: summary, per spec, every sample\'s margins and draws' })
     .option('junit', { type: 'string', describe: 'write a JUnit XML report (one case, `yield`, failing below --min-yield)' })
     .option('csv', { type: 'string', describe: 'write every sample as CSV: pass or fail, its worst margin per spec and its drawn part values' })
@@ -65,8 +65,8 @@ export const yieldBuilder = (y: Argv) =>
 /** `scatterbox yield`: Monte Carlo over the netlist's tolerances. */
 export async function runYieldCommand(a: YieldArgs, io: Io, describeError: (e: unknown, quiet: boolean) => string): Promise<number> {
   try {
-    if (!Number.isSafeInteger(a.samples) || a.samples < 1 || a.samples > MAX_YIELD_SAMPLES) throw new RangeError(`--samples must be a whole number from 1 to ${MAX_YIELD_SAMPLES} (the limit of samples), not ${a.samples}`);
-    if (!Number.isSafeInteger(a.seed) || a.seed < 0) throw new RangeError(`--seed must be a whole number from 0 to 2^53 − 1, not ${a.seed}`);
+    if (a.samples !== undefined && (!Number.isSafeInteger(a.samples) || a.samples < 1 || a.samples > MAX_YIELD_SAMPLES)) throw new RangeError(`--samples must be a whole number from 1 to ${MAX_YIELD_SAMPLES} (the limit of samples), not ${a.samples}`);
+    if (a.seed !== undefined && (!Number.isSafeInteger(a.seed) || a.seed < 0)) throw new RangeError(`--seed must be a whole number from 0 to 2^53 − 1, not ${a.seed}`);
     if (a.minYield !== undefined && !(a.minYield >= 0 && a.minYield <= 1)) throw new RangeError(`--min-yield is a fraction from 0 to 1 (0.95 for 95 %), not ${a.minYield}`);
     if (!Number.isSafeInteger(a.jobs) || a.jobs < 1 || a.jobs > 1024) throw new RangeError(`--jobs must be a whole number of threads from 1 to 1024, not ${a.jobs}`);
     const shard = a.shard !== undefined ? parseShard(a.shard) : undefined;
@@ -75,32 +75,40 @@ export async function runYieldCommand(a: YieldArgs, io: Io, describeError: (e: u
     if (shard && (a.json || a.junit || a.minYield !== undefined || a.csv || a.report || a.plot)) throw new RangeError('a shard has no yield of its own: give --json, --junit, --csv, --report, --plot and --min-yield to `scatterbox merge` (and --envelopes N to every shard for envelopes)');
     if (a.plot) plotFormat(a.plot);
     if (a.envelopes !== undefined && (!Number.isSafeInteger(a.envelopes) || a.envelopes < 0 || a.envelopes > MAX_YIELD_SAMPLES)) throw new RangeError(`--envelopes takes a whole number of samples from 0 to ${MAX_YIELD_SAMPLES}, not ${a.envelopes}`);
-    const envelopeSamples = Math.min(a.samples, a.envelopes ?? (a.report || a.plot ? DEFAULT_ENVELOPE_SAMPLES : 0));
     checkOutputs([a.json, a.junit, a.out, a.csv, a.report, a.plot], [a.netlist]);
     const model = DesignModel.load(a.netlist, { set: a.set, sweep: a.sweep, strict: a.strict });
+    // the netlist's `yield` statement gives what the options leave out
+    const plan = model.circuit.yieldPlan;
+    const samples = a.samples ?? plan?.samples ?? DEFAULT_SAMPLES;
+    const seed = a.seed ?? plan?.seed ?? 1;
+    const minYield = a.minYield ?? plan?.min;
+    const envelopeSamples = Math.min(samples, a.envelopes ?? (a.report || a.plot ? DEFAULT_ENVELOPE_SAMPLES : 0));
     if (!a.quiet && model.warnings.length > 0) io.err(formatDiagnostics(model.warnings, model.sources) + '\n');
     if (model.circuit.tolerances.length === 0) io.err(`note: ${a.netlist} gives no tolerances (\`tol …\`): every sample is the nominal design\n`);
     if (model.circuit.specs.length === 0) throw new RangeError(`${a.netlist} has no specs: a yield needs specs to pass`);
-    const bar = !a.quiet && process.stderr.isTTY && a.samples >= 200 ? new SingleBar({ format: 'yield {bar} {value}/{total} samples', hideCursor: true, clearOnComplete: true, stream: process.stderr }, Presets.shades_classic) : undefined;
-    const [first, count] = shard ? shardRange(a.samples, shard.shard, shard.shards) : [0, a.samples];
+    const bar = !a.quiet && process.stderr.isTTY && samples >= 200 ? new SingleBar({ format: 'yield {bar} {value}/{total} samples', hideCursor: true, clearOnComplete: true, stream: process.stderr }, Presets.shades_classic) : undefined;
+    const [first, count] = shard ? shardRange(samples, shard.shard, shard.shards) : [0, samples];
     bar?.start(count, 0);
     const set: SampleSet =
       count > 0
-        ? await evaluateSamplesParallel(model, { seed: a.seed, first, count, jobs: a.jobs, envelopeSamples, onProgress: bar ? (done) => bar.update(done) : undefined })
-        : sampleSetOf(model, { seed: a.seed, first, count: 0, envelopeSamples }, sampleRows(model, first, 0, envelopeSamples), []);
+        ? await evaluateSamplesParallel(model, { seed, first, count, jobs: a.jobs, envelopeSamples, onProgress: bar ? (done) => bar.update(done) : undefined })
+        : sampleSetOf(model, { seed, first, count: 0, envelopeSamples }, sampleRows(model, first, 0, envelopeSamples), []);
     bar?.stop();
     if (shard) {
-      writeFileAtomicSync(a.out!, formatPartial(set, { netlist: a.netlist, digest: designDigest(model.sources, a), total: a.samples, shard: shard.shard, shards: shard.shards }));
-      io.out(`shard ${shard.shard} of ${shard.shards}: samples ${first} to ${first + count - 1} of ${a.samples} (seed ${a.seed}) written to ${a.out}\n`);
+      writeFileAtomicSync(a.out!, formatPartial(set, { netlist: a.netlist, digest: designDigest(model.sources, a), total: samples, shard: shard.shard, shards: shard.shards, ...(plan?.min !== undefined ? { min: plan.min } : {}) }));
+      io.out(`shard ${shard.shard} of ${shard.shards}: samples ${first} to ${first + count - 1} of ${samples} (seed ${seed}) written to ${a.out}\n`);
       return 0;
     }
     const nominal = a.report || (a.plot && envelopeSamples > 0) ? nominalOf(model) : undefined;
-    return await report(summarizeYield(set), a.netlist, a, io, nominal);
+    return await report(summarizeYield(set), a.netlist, { ...a, minYield }, io, nominal);
   } catch (e) {
     io.err(describeError(e, a.quiet) + '\n');
     return 1;
   }
 }
+
+/** Samples of a run when neither --samples nor the netlist says. */
+export const DEFAULT_SAMPLES = 1000;
 
 /** Envelope samples with --report or --plot when --envelopes is not given. */
 export const DEFAULT_ENVELOPE_SAMPLES = 1000;
@@ -159,7 +167,7 @@ export interface MergeArgs {
 export const mergeBuilder = (y: Argv) =>
   y
     .positional('partials', { type: 'string', array: true, describe: 'the partial files of every shard of one `yield --shard I/N` run, in any order', demandOption: true })
-    .option('min-yield', { type: 'number', describe: 'the yield target, 0 to 1: below it the exit code is 1 and the JUnit case fails' })
+    .option('min-yield', { type: 'number', describe: 'the yield target, 0 to 1: below it the exit code is 1 and the JUnit case fails (default: the netlist\'s `yield min=`)' })
     .option('json', { type: 'string', describe: 'write the results as JSON (the same bytes as a single run\'s --json)' })
     .option('junit', { type: 'string', describe: 'write a JUnit XML report' })
     .option('csv', { type: 'string', describe: 'write every sample as CSV (as a single run\'s --csv)' })
@@ -178,7 +186,7 @@ export async function runMerge(a: MergeArgs, io: Io, describeError: (e: unknown,
     const parts = a.partials.map((file) => ({ file, ...parsePartial(readInputText(file), file) }));
     const { set, meta } = mergePartials(parts);
     if (a.plot && !set.envelope) throw new RangeError('the shards solved no whole sweeps: run them with --envelopes N for a plot of the envelopes');
-    return await report(summarizeYield(set), meta.netlist, a, io, a.report || a.plot ? nominalFromNetlist(meta, io, a.quiet) : undefined);
+    return await report(summarizeYield(set), meta.netlist, { ...a, minYield: a.minYield ?? meta.min }, io, a.report || a.plot ? nominalFromNetlist(meta, io, a.quiet) : undefined);
   } catch (e) {
     io.err(describeError(e, a.quiet) + '\n');
     return 1;

@@ -104,6 +104,17 @@ export interface Tolerance {
 }
 
 /**
+ * The `yield` statement: the yield the design must reach (a fraction, 0 to 1) and the run that
+ * shows it (samples and seed), as `scatterbox yield` takes them unless its options say otherwise.
+ */
+export interface YieldPlan {
+  min?: number;
+  samples?: number;
+  seed?: number;
+  span: SourceSpan;
+}
+
+/**
  * A lot (`lot caps tol normal 3%`): its parts share one draw of this relative spread, each part's
  * own tolerance added on top.
  */
@@ -155,6 +166,8 @@ export interface Circuit {
   tolerances: Tolerance[];
   /** The lots parts are drawn from (`lot NAME tol …`). */
   lots: Lot[];
+  /** The yield target and run of the `yield` statement, if the netlist has one. */
+  yieldPlan?: YieldPlan;
   /**
    * The toleranced parameters that are not design variables, in netlist order: the bindings may
    * depend on them (indices from `variables.length` up).

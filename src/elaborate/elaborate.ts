@@ -58,6 +58,7 @@ export function elaborate(ast: NetlistAst | NetlistItems, bag: DiagnosticBag, op
     unfollowed: s.unfollowed,
     tolerances,
     lots,
+    ...(s.yieldPlan ? { yieldPlan: s.yieldPlan } : {}),
     randomInputs,
     randomUnfollowed: s.randomUnfollowed,
     warnings: bag.items.filter((d) => d.severity === 'warning'),

@@ -12,7 +12,7 @@ import type { ElementInstance } from '../elements/types.js';
 import type { NetworkData } from '../network/types.js';
 import type { Compiled } from '../params/compile.js';
 import type { SpecDefinition } from '../check/types.js';
-import type { Port, ToleranceDistribution, Unfollowed, Variable } from './circuit.js';
+import type { Port, ToleranceDistribution, Unfollowed, Variable, YieldPlan } from './circuit.js';
 import type { PendingInput, PendingTolerance } from './passes/tolerances.js';
 import type { Quantity } from './evaluate.js';
 
@@ -54,7 +54,7 @@ export interface ElaborateOptions {
 }
 
 /** Statement keywords that are not elements. */
-export const STATEMENT_KEYWORDS = ['title', 'let', 'port', 'sweep', 'spec', 'block', 'end', 'include', 'lot'] as const;
+export const STATEMENT_KEYWORDS = ['title', 'let', 'port', 'sweep', 'spec', 'block', 'end', 'include', 'lot', 'yield'] as const;
 
 /** A parameter of a scope: its value (null when its definition failed) and where it was defined. */
 export interface ParamEntry {
@@ -179,6 +179,8 @@ export interface ElabState {
   readonly randomUnfollowed: Unfollowed[];
   /** The lots by name (`failed`: declared, but its tolerance was wrong: reported). */
   readonly lots: Map<string, { name: string; distribution: ToleranceDistribution; span: SourceSpan; failed?: boolean }>;
+  /** The `yield` statement's settings, once read. */
+  yieldPlan?: YieldPlan;
 
   // blocks (passes/blocks.ts)
   readonly blocks: Map<string, BlockDefinition>;

@@ -26,6 +26,8 @@ export interface PartialMeta {
   /** This shard, 1-based, of `shards`. */
   shard: number;
   shards: number;
+  /** The yield target of the netlist's `yield min=`, if it has one. */
+  min?: number;
 }
 
 /** A partial file or a set of them that cannot be read or merged. */
@@ -137,6 +139,10 @@ export function parsePartial(text: string, file: string): { set: SampleSet; meta
   const seed = int('seed', 0);
   const first = int('first', 0);
   const count = int('count', 0);
+  if (doc.min !== undefined) {
+    if (typeof doc.min !== 'number' || !(doc.min >= 0 && doc.min <= 1)) throw bad('`min` is not a fraction from 0 to 1');
+    meta.min = doc.min;
+  }
   if (meta.shard > meta.shards) throw bad('its shard numbers do not fit');
   const [f, c] = shardRange(meta.total, meta.shard, meta.shards);
   if (f !== first || c !== count) throw bad(`shard ${meta.shard} of ${meta.shards} holds samples ${f}… but the file says ${first}…`);
@@ -187,7 +193,7 @@ export function mergePartials(parts: readonly { set: SampleSet; meta: PartialMet
   for (const p of parts) {
     const m = p.meta;
     if (m.digest !== a.meta.digest) throw new PartialError(`${p.file} is a run of another design than ${a.file} (the netlist, its files or the --set/--sweep options differ)`);
-    if (p.set.seed !== a.set.seed || m.total !== a.meta.total || m.shards !== a.meta.shards) throw new PartialError(`${p.file} is not of the same run as ${a.file} (seed, samples or shard count differ)`);
+    if (p.set.seed !== a.set.seed || m.total !== a.meta.total || m.shards !== a.meta.shards || m.min !== a.meta.min) throw new PartialError(`${p.file} is not of the same run as ${a.file} (seed, samples or shard count differ)`);
     if (!same(p.set.specs, a.set.specs) || !same(p.set.tolerances, a.set.tolerances)) throw new PartialError(`${p.file} has other specs or tolerances than ${a.file}`);
     const dup = byShard.get(m.shard);
     if (dup) throw new PartialError(`shard ${m.shard} of ${m.shards} is given twice (${dup.file} and ${p.file})`);

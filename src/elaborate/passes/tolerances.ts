@@ -20,7 +20,9 @@ import type { SourceSpan } from '../../diagnostics/diagnostic.js';
 import { didYouMean } from '../../diagnostics/suggest.js';
 import type { ElementInstance } from '../../elements/types.js';
 import type { Compiled } from '../../params/compile.js';
-import type { Lot, RandomInput, Tolerance, ToleranceDistribution } from '../circuit.js';
+import type { Lot, RandomInput, Tolerance, ToleranceDistribution, YieldPlan } from '../circuit.js';
+import { keyArgs, numberArg } from '../args.js';
+import { MAX_YIELD_SAMPLES } from '../../limits.js';
 import { describeQuantity, evaluate, toSI, type Quantity } from '../evaluate.js';
 import { firstReport, type Context, type ElabState } from '../state.js';
 import { finiteOrReport, showQuantity, siOf } from '../values.js';
@@ -205,6 +207,40 @@ export function defineLot(s: ElabState, st: Statement, ctx: Context): void {
     return;
   }
   s.lots.set(st.label.text, { name: st.label.text, distribution, span: st.label.span });
+}
+
+/**
+ * `yield min=0.95 samples=2000 seed=7`: the yield the design must reach (a fraction from 0 to 1)
+ * and the run that shows it; each argument optional, the statement at most once.
+ */
+export function defineYield(s: ElabState, st: Statement, ctx: Context): void {
+  const example = 'write e.g. `yield min=0.95 samples=2000 seed=7` (min a fraction: 0.95 for 95 %)';
+  if (st.label) s.bag.error('bad-yield', '`yield` takes only `min=`, `samples=` and `seed=`', st.label.span, example);
+  if (s.yieldPlan) {
+    s.bag.error('duplicate-yield', `the netlist has a \`yield\` statement already (line ${s.yieldPlan.span.line})`, st.keywordSpan);
+    return;
+  }
+  const args = keyArgs(s, st, ['min', 'samples', 'seed'], '`yield`');
+  const plan: YieldPlan = { span: st.keywordSpan };
+  const min = args.get('min');
+  if (min) {
+    const v = numberArg(s, min, null, 'plain number', ctx);
+    if (v !== undefined && !(v >= 0 && v <= 1)) s.bag.error('bad-yield', `the yield target is a fraction from 0 to 1, not ${v}`, min.values[0]!.span, v > 1 && v <= 100 ? `did you mean \`min=${v / 100}\` (${v} %)?` : example);
+    else if (v !== undefined) plan.min = v;
+  }
+  const samples = args.get('samples');
+  if (samples) {
+    const v = numberArg(s, samples, null, 'plain number', ctx);
+    if (v !== undefined && !(Number.isSafeInteger(v) && v >= 1 && v <= MAX_YIELD_SAMPLES)) s.bag.error('bad-yield', `\`samples\` is a whole number from 1 to ${MAX_YIELD_SAMPLES} (the limit of samples), not ${v}`, samples.values[0]!.span);
+    else if (v !== undefined) plan.samples = v;
+  }
+  const seed = args.get('seed');
+  if (seed) {
+    const v = numberArg(s, seed, null, 'plain number', ctx);
+    if (v !== undefined && !(Number.isSafeInteger(v) && v >= 0)) s.bag.error('bad-yield', `\`seed\` is a whole number from 0 to 2^53 − 1, not ${v}`, seed.values[0]!.span);
+    else if (v !== undefined) plan.seed = v;
+  }
+  s.yieldPlan = plan;
 }
 
 /**

@@ -18,10 +18,10 @@ import { instantiate } from './blocks.js';
 import { defineElement } from './elements.js';
 import { defineParameters } from './parameters.js';
 import { definePort } from './ports.js';
-import { defineLot, misplacedTolerance } from './tolerances.js';
+import { defineLot, defineYield, misplacedTolerance } from './tolerances.js';
 
 /** Statements that only make sense at the top level of a netlist, not inside a block. */
-const TOP_LEVEL_ONLY = new Set(['title', 'port', 'sweep', 'spec', 'include', 'block', 'lot']);
+const TOP_LEVEL_ONLY = new Set(['title', 'port', 'sweep', 'spec', 'include', 'block', 'lot', 'yield']);
 
 function knownKeywords(s: ElabState): string[] {
   return [...STATEMENT_KEYWORDS.filter((k) => k !== 'end'), ...ELEMENTS.keys(), ...s.blocks.keys()];
@@ -50,6 +50,9 @@ export function runStatements(s: ElabState, statements: (StatementItem | undefin
     switch (st.keyword) {
       case 'lot':
         defineLot(s, st, ctx);
+        break;
+      case 'yield':
+        defineYield(s, st, ctx);
         break;
       case 'title': {
         const text = st.args.find((a) => a.kind === 'text');
