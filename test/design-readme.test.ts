@@ -50,11 +50,14 @@ describe('README: design exploration', () => {
     expect(r.out.startsWith(shown)).toBe(true);
   });
 
-  it('shows what `yield` prints for its example', () => {
-    const i = blocks.findIndex((b) => b.lang === 'sh' && b.body.startsWith('npx scatterbox yield'));
-    const r = run(argsOf(blocks[i]!.body));
-    expect(r.code).toBe(0);
-    expect(r.out).toBe(blocks[i + 1]!.body);
+  it('shows what `yield` prints for each of its examples', () => {
+    const at = blocks.flatMap((b, i) => (b.lang === 'sh' && b.body.startsWith('npx scatterbox yield') ? [i] : []));
+    expect(at.length).toBe(2);
+    for (const i of at) {
+      const r = run(argsOf(blocks[i]!.body));
+      expect(r.code).toBe(0);
+      expect(r.out).toBe(blocks[i + 1]!.body);
+    }
   });
 
   it('shows what `vary` prints for its example (the summary)', () => {
