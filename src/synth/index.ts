@@ -1,0 +1,25 @@
+/**
+ * Synthesis: `scatterbox design` as a library. A request becomes a netlist text, which is then
+ * loaded, solved and checked exactly as `scatterbox check` would (DesignModel, the netlist's own
+ * specs).
+ *
+ * ```ts
+ * const d = designFilter(readFilterRequest('lowpass', { response: 'chebyshev', order: '5', cutoff: '600 MHz' }));
+ * const { pass, results } = checkDesignText(d.text, 'lowpass.sbx');
+ * ```
+ *
+ * @module
+ */
+import { DesignModel } from '../design/model.js';
+import type { SpecResult } from '../check/types.js';
+
+export { designFilter, minimumOrder, mappedFrequency, DesignRequestError, type FilterDesign, type FilterKind, type FilterRequest, type Part } from './lumped.js';
+export { prototype, prototypeGain, butterworthG, chebyshevG, besselPolynomial, besselCutoff, darlington, type Prototype, type AllPoleResponse, type FirstElement } from './prototype.js';
+export { readFilterRequest, type RawOptions } from './options.js';
+
+/** Loads a written netlist and checks its specs (throws InputError if the text does not load). */
+export function checkDesignText(text: string, file: string): { pass: boolean; results: SpecResult[] } {
+  const model = DesignModel.fromText(text, file);
+  const results = model.checkSpecs();
+  return { pass: results.length > 0 && results.every((r) => r.pass), results };
+}
