@@ -278,12 +278,14 @@ export function designFilter(r: FilterRequest): FilterDesign {
   const mismatchDb = -10 * Math.log10(Math.min(1, peak));
   const roundingRoom = 0.001;
   // Cohn's estimate of the dissipation loss at the centre: 4.343·Σg/(Q·w) dB (w = FBW for band filters, 1 otherwise)
-  const cohn = r.q !== undefined ? (4.343 * proto.g.reduce((a, b) => a + b, 0)) / (r.q * (isBand ? fbw : 1)) : 0;
+  // a resonator of two parts of Q each has Q/2; a low-pass or high-pass arm is one part
+  const qu = r.q !== undefined ? (isBand ? r.q / 2 : r.q) : Infinity;
+  const cohn = r.q !== undefined ? (4.343 * proto.g.reduce((a, b) => a + b, 0)) / (qu * (isBand ? fbw : 1)) : 0;
   const lossRoom = r.q !== undefined ? 3 * cohn + 0.1 : 0;
   const passLimit = ripple + mismatchDb + roundingRoom + lossRoom;
   lines.push(
     ...comment(
-      `Specs: the request. Pass band: the loss stays within ${r.response === 'chebyshev' ? 'the ripple' : 'the 3 dB of the cutoff'}${mismatchDb > 1e-9 ? ` plus the ${short(mismatchDb, 4)} dB mismatch loss of the terminations` : ''}, with ${roundingRoom} dB of room for the rounding of the written values${r.q !== undefined ? ` and ${short(lossRoom, 3)} dB for the part losses (three times Cohn's estimate of the dissipation loss at the centre, 4.343·Σg/(Q·${isBand ? 'FBW' : '1'}) = ${short(cohn, 3)} dB, plus 0.1 dB)` : ''}.`,
+      `Specs: the request. Pass band: the loss stays within ${r.response === 'chebyshev' ? 'the ripple' : 'the 3 dB of the cutoff'}${mismatchDb > 1e-9 ? ` plus the ${short(mismatchDb, 4)} dB mismatch loss of the terminations` : ''}, with ${roundingRoom} dB of room for the rounding of the written values${r.q !== undefined ? ` and ${short(lossRoom, 3)} dB for the part losses (three times Cohn's estimate of the dissipation loss at the centre, 4.343·Σg/(${isBand ? 'Qu·FBW, Qu = Q/2 for a resonator of two parts' : 'Q'}) = ${short(cohn, 3)} dB, plus 0.1 dB)` : ''}.`,
     ),
   );
   const lim = `${short(passLimit, 8)} dB`;

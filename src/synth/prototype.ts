@@ -144,6 +144,7 @@ export function prototypeGain(response: AllPoleResponse, n: number, rippleDb: nu
     const t = chebyshevT(n, omega);
     return peak / (1 + epsilonSquared(rippleDb) * t * t);
   }
+  if (!Number.isFinite(omega)) return 0;
   const e = besselNormalised(n);
   return (peak * e[0]! * e[0]!) / magSq(e, omega);
 }
