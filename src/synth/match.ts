@@ -51,6 +51,8 @@ export interface MatchDesign {
   sections?: number[];
   /** The largest reflection of a multi-section transformer in its band (small-reflection theory). */
   gammaMax?: number;
+  /** The same, from the sections' chain matrices (exact for ideal lines), over 2001 points of the band. */
+  exactMax?: number;
 }
 
 /**
@@ -173,7 +175,7 @@ export function designMatch(m: MatchRequest): MatchDesign {
   const complexLoad = Math.abs(xl) > 1e-12 * rl;
   if (Math.abs(rl - z0) <= 1e-9 * z0 && !complexLoad) throw new DesignRequestError('--load already equals --z0: there is nothing to match');
   const needsReal = ['pi', 'tee', 'quarter-wave', 'binomial', 'chebyshev'].includes(m.network);
-  if (needsReal && complexLoad) throw new DesignRequestError(`--network ${m.network} takes a resistive --load; for ${xl > 0 ? '30+20j' : '30-20j'}-like loads use l-lowpass, l-highpass or stub (or cancel the reactance first)`);
+  if (needsReal && complexLoad) throw new DesignRequestError(`--network ${m.network} takes a resistive --load, but this one has a reactance of ${short(xl)} ohm: use --network l-lowpass, l-highpass or stub (or cancel the reactance first)`);
   if (m.loadedQ !== undefined && m.network !== 'pi' && m.network !== 'tee') throw new DesignRequestError('--loaded-q belongs to --network pi or tee');
   if (m.sections !== undefined && m.network !== 'binomial' && m.network !== 'chebyshev') throw new DesignRequestError('--sections belongs to --network binomial or chebyshev');
   if (m.bandwidth !== undefined && !['binomial', 'chebyshev'].includes(m.network)) throw new DesignRequestError('--bandwidth of a match belongs to --network binomial or chebyshev');
@@ -196,7 +198,7 @@ export function designMatch(m: MatchRequest): MatchDesign {
     piece.rows.push([id, role, quantity(value, unit, 6), ...(m.series ? [quantity(exact, unit, 6)] : [])]);
     return true;
   };
-  const susceptance = (name: string, b: number, node: string, role: string) => reactance(name, -1 / b, node, 'ground', role);
+  const susceptance = (name: string, b: number, node: string, role: string) => (Math.abs(b) * z0 <= 1e-12 ? false : reactance(name, -1 / b, node, 'ground', role));
 
   let how = '';
   let sections: number[] | undefined;
@@ -352,14 +354,50 @@ export function designMatch(m: MatchRequest): MatchDesign {
     lines.push(`# Matched at f0 in theory; snapped to ${m.series}, 20 dB of return loss is asked for there.`);
     lines.push('spec match_at_f0 measure=rl(1) min=20 dB over=f0, f0');
   }
-  if (band && gammaMax !== undefined) {
-    const rlMin = -20 * Math.log10(gammaMax) - 1;
-    lines.push(`# Over the band: the largest reflection of the design, ${short(gammaMax, 4)} (${short(-20 * Math.log10(gammaMax), 4)} dB of return loss), less 1 dB of room for the small-reflection approximation.`);
+  let exactMax: number | undefined;
+  if (band && gammaMax !== undefined && sections) {
+    exactMax = transformerReflection(sections, z0, rl, f0, band);
+    const rlMin = -20 * Math.log10(exactMax) - 0.1;
+    lines.push(
+      ...comment(
+        `Over the band: the largest reflection of these sections, from their chain matrices, is ${short(exactMax, 4)} (${short(-20 * Math.log10(exactMax), 4)} dB of return loss; small-reflection theory predicted ${short(gammaMax, 4)}); the limit leaves 0.1 dB of room for rounding.`,
+      ),
+    );
     lines.push(`spec band_match measure=rl(1) min=${short(rlMin, 6)} dB over=${quantity(band[0], 'Hz')}, ${quantity(band[1], 'Hz')}`);
   }
   const text = lines.join('\n') + '\n';
   const summary = `${title}\n${how}\n\n` + columns([['part', 'role', 'value', ...(m.series ? [`before ${m.series}`] : [])], ...piece.rows]);
-  return { request: m, text, summary, sections, gammaMax };
+  return { request: m, text, summary, sections, gammaMax, exactMax };
+}
+
+/**
+ * The largest |Γ| over a band of quarter-wave sections (at f0) into a resistance, from the chain
+ * matrix of each lossless line, [[cos θ, jZ·sin θ], [j·sin θ/Z, cos θ]] (common practice).
+ */
+export function transformerReflection(z: readonly number[], z0: number, rl: number, f0: number, band: readonly [number, number]): number {
+  let worst = 0;
+  const points = 2001;
+  for (let k = 0; k < points; k++) {
+    const f = band[0] + ((band[1] - band[0]) * k) / (points - 1);
+    const th = (Math.PI / 2) * (f / f0);
+    // impedance seen looking toward the load, from the load end back to the source
+    let zr = rl;
+    let zi = 0;
+    for (let i = z.length - 1; i >= 0; i--) {
+      const zc = z[i]!;
+      const t = Math.tan(th);
+      // Zin = Zc·(ZL + jZc·t)/(Zc + jZL·t)
+      const nr = zr;
+      const ni = zi + zc * t;
+      const dr = zc - zi * t;
+      const di = zr * t;
+      const d = dr * dr + di * di;
+      [zr, zi] = [(zc * (nr * dr + ni * di)) / d, (zc * (ni * dr - nr * di)) / d];
+    }
+    const g = Math.hypot(zr - z0, zi) / Math.hypot(zr + z0, zi);
+    worst = Math.max(worst, g);
+  }
+  return worst;
 }
 
 function evenCount(s: number[] | undefined): boolean {
