@@ -16,6 +16,7 @@ import type { SpecResult } from '../check/types.js';
 export { designFilter, minimumOrder, mappedFrequency, DesignRequestError, type FilterDesign, type FilterKind, type FilterRequest, type Part } from './lumped.js';
 export { prototype, prototypeGain, butterworthG, chebyshevG, besselPolynomial, besselCutoff, darlington, type Prototype, type AllPoleResponse, type FirstElement } from './prototype.js';
 export { readFilterRequest, type RawOptions } from './options.js';
+export { designMatch, readMatchRequest, readImpedance, binomialSections, chebyshevSections, transformerReflection, type MatchRequest, type MatchDesign, type MatchNetwork } from './match.js';
 
 /** Loads a written netlist and checks its specs (throws InputError if the text does not load). */
 export function checkDesignText(text: string, file: string): { pass: boolean; results: SpecResult[] } {

@@ -74,6 +74,9 @@ export class DesignRequestError extends RangeError {
   }
 }
 
+/** The narrowest band-pass or band-stop, as a fraction of the centre. */
+export const MIN_FRACTIONAL_BANDWIDTH = 0.001;
+
 const RESPONSE_NAME: Record<AllPoleResponse, string> = { butterworth: 'Butterworth', chebyshev: 'Chebyshev', bessel: 'Bessel' };
 const KIND_NAME: Record<FilterKind, string> = { lowpass: 'low-pass', highpass: 'high-pass', bandpass: 'band-pass', bandstop: 'band-stop' };
 
@@ -86,6 +89,7 @@ function band(r: FilterRequest): { fc: number; f0: number; fbw: number; edges: n
   if (r.center === undefined || r.bandwidth === undefined) throw new DesignRequestError(`a ${KIND_NAME[r.kind]} filter needs --center and --bandwidth`);
   const f0 = r.center;
   const bw = r.bandwidth;
+  if (bw < MIN_FRACTIONAL_BANDWIDTH * f0) throw new DesignRequestError(`--bandwidth (${formatFrequency(bw)}) must be at least ${MIN_FRACTIONAL_BANDWIDTH * 100} % of --center (${formatFrequency(f0)}): narrower lumped resonators need parts no one can build`);
   if (bw >= 2 * f0) throw new DesignRequestError(`--bandwidth (${formatFrequency(bw)}) must be below twice --center (${formatFrequency(f0)})`);
   // edges with f2 − f1 = bw and f1·f2 = f0² (geometric centre)
   const f1 = -bw / 2 + Math.sqrt((bw * bw) / 4 + f0 * f0);
@@ -270,7 +274,7 @@ export function designFilter(r: FilterRequest): FilterDesign {
   const lo = r.kind === 'lowpass' ? fc / 100 : r.kind === 'highpass' ? Math.min(fc / 10, ...stopFs.map((f) => f / 1.5)) : Math.min(edges[0]! / 2, ...stopFs.map((f) => f / 1.2));
   const hi = r.kind === 'lowpass' ? Math.max(3 * fc, ...stopFs.map((f) => f * 1.5)) : r.kind === 'highpass' ? 3 * fc : Math.max(edges[1]! * 2, ...stopFs.map((f) => f * 1.2));
   lines.push(`sweep linear start=${quantity(lo, 'Hz', 6)} stop=${quantity(hi, 'Hz', 6)} points=401`);
-  lines.push(`sweep list freqs=${[...(isBand ? ['f1', 'f2'] : ['fc']), ...(isBand ? ['f0'] : []), ...stopFs.map((f) => quantity(f, 'Hz'))].join(', ')}`);
+  lines.push(`sweep list freqs=${[...(isBand ? ['f1', 'f2'] : ['fc']), ...(r.kind === 'bandpass' ? ['f0'] : []), ...stopFs.map((f) => quantity(f, 'Hz'))].join(', ')}`);
   lines.push('');
 
   // specs
