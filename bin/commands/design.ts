@@ -13,8 +13,7 @@ import { describeError, EXIT_INPUT, EXIT_OK } from '../cli.js';
 import { writeFileAtomicSync } from '../../src/io/atomic.js';
 import { checkOutputs } from '../../src/io/guard.js';
 import { formatSpecTable } from '../../src/check/report.js';
-import { checkDesignText } from '../../src/synth/index.js';
-import { designFilter } from '../../src/synth/lumped.js';
+import { checkDesignText, designAnyFilter } from '../../src/synth/index.js';
 import { readFilterRequest } from '../../src/synth/options.js';
 import { designMatch, readMatchRequest } from '../../src/synth/match.js';
 
@@ -45,6 +44,7 @@ export function designBuilder(y: Argv): Argv {
     .option('first', { type: 'string', describe: 'filters: the first arm, shunt (default) or series' })
     .option('series', { type: 'string', describe: 'snap the part values to an IEC 60063 series (E6 … E192) and check again' })
     .option('q', { type: 'string', describe: 'unloaded Q of every inductor and capacitor (default: lossless parts)' })
+    .option('realize', { type: 'string', describe: 'filters: lumped (default), stubs (low-pass: Richards\' transformation and Kuroda\'s identities) or coupled-lines (band-pass: Cohn\'s parallel-coupled lines)' })
     .option('network', { type: 'string', describe: 'match: l-lowpass, l-highpass, pi, tee, stub, double-stub, quarter-wave, binomial, chebyshev' })
     .option('freq', { type: 'string', describe: 'match: the frequency to match at' })
     .option('loaded-q', { type: 'string', describe: 'match, pi and tee: the loaded Q of the network' })
@@ -62,7 +62,7 @@ export function runDesign(a: DesignArgs, io: Io): number {
   try {
     checkOutputs([a.out], []);
     const file = a.out ?? `design-${a.kind}.sbx`;
-    const d = a.kind === 'match' ? designMatch(readMatchRequest(a)) : designFilter(readFilterRequest(a.kind, a));
+    const d = a.kind === 'match' ? designMatch(readMatchRequest(a)) : designAnyFilter(readFilterRequest(a.kind, a));
     const { pass, results } = checkDesignText(d.text, file);
     // the summary goes to stdout, unless the netlist itself does (no -o)
     const say = a.out ? io.out : io.err;

@@ -18,6 +18,17 @@ export { prototype, prototypeGain, butterworthG, chebyshevG, besselPolynomial, b
 export { readFilterRequest, type RawOptions } from './options.js';
 export { designMatch, readMatchRequest, readImpedance, binomialSections, chebyshevSections, transformerReflection, type MatchRequest, type MatchDesign, type MatchNetwork } from './match.js';
 
+import { designFilter as lumpedFilter, type FilterRequest } from './lumped.js';
+import { designCoupledBandpass, designStubLowpass } from './distributed.js';
+export { designStubLowpass, designCoupledBandpass, richardsOmega, type DistributedDesign } from './distributed.js';
+
+/** A filter as asked: lumped, or from lines (`realize`). The result has the written text, a summary and the response. */
+export function designAnyFilter(r: FilterRequest): { text: string; summary: string; gain: (f: number) => number } {
+  if (r.realize === 'stubs') return designStubLowpass(r);
+  if (r.realize === 'coupled-lines') return designCoupledBandpass(r);
+  return lumpedFilter(r);
+}
+
 /** Loads a written netlist and checks its specs (throws InputError if the text does not load). */
 export function checkDesignText(text: string, file: string): { pass: boolean; results: SpecResult[] } {
   const model = DesignModel.fromText(text, file);

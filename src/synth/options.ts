@@ -127,5 +127,8 @@ export function readFilterRequest(kind: FilterKind, raw: RawOptions): FilterRequ
     first: choiceOption<FirstElement>(raw, 'first', 'first', FIRST_ELEMENTS, 'shunt'),
     series: seriesOption(raw),
     q: numberOption(raw, 'q', 'q', 1, 1e6),
+    realize: choiceOption(raw, 'realize', 'realize', REALIZATIONS, 'lumped'),
   };
 }
+
+export const REALIZATIONS = ['lumped', 'stubs', 'coupled-lines'] as const;
