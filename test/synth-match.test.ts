@@ -24,11 +24,13 @@ const base = { f0: F0, z0: 50, stub: 'open' as const };
 
 describe('single-frequency matches: |S11| at f0 vanishes (1e-9) and the specs pass', () => {
   const loads: [number, number][] = [[30, 20], [100, -40], [75, 0], [20, 0], [12.5, -60], [50, 35]];
-  const networks: MatchNetwork[] = ['l-lowpass', 'l-highpass', 'stub'];
+  const networks: MatchNetwork[] = ['l-lowpass', 'l-highpass', 'stub', 'double-stub'];
   for (const network of networks) {
     for (const [r, x] of loads) {
-      for (const stub of network === 'stub' ? (['open', 'short'] as const) : (['open'] as const)) {
-        it(`${network}${network === 'stub' ? ` (${stub})` : ''} into ${r}${x >= 0 ? '+' : ''}${x}j ohm`, () => {
+      // a double-stub tuner with stubs λ/8 apart cannot reach loads whose conductance exceeds 2·Y0 (Pozar, §5.3)
+      if (network === 'double-stub' && r / (r * r + x * x) > 2 / 50) continue;
+      for (const stub of network.includes('stub') ? (['open', 'short'] as const) : (['open'] as const)) {
+        it(`${network}${network.includes('stub') ? ` (${stub})` : ''} into ${r}${x >= 0 ? '+' : ''}${x}j ohm`, () => {
           const d = designMatch({ ...base, network, r, x, stub });
           const { g } = reflection(d.text, `list freqs=${F0} Hz`);
           expect(g[0]!).toBeLessThan(1e-9);
@@ -70,6 +72,12 @@ describe('single-frequency matches: |S11| at f0 vanishes (1e-9) and the specs pa
       });
     }
   }
+  it('a double-stub tuner refuses loads in its forbidden region, G > (1 + t²)/t²·Y0 (Pozar, §5.3), naming the way out', () => {
+    // 20 ohm: G = 0.05 S above 2/50 = 0.04 S
+    expect(() => designMatch({ ...base, network: 'double-stub', r: 20, x: 0 })).toThrow(/cannot match this load .* 0\.05 S is above .* 0\.04 S/);
+    // just inside: 26 ohm, G = 0.0385 S
+    expect(checkDesignText(designMatch({ ...base, network: 'double-stub', r: 26, x: 0 }).text, 'd.sbx').pass).toBe(true);
+  });
   it('refuses a loaded Q below the least for the resistances, √(Rhigh/Rlow − 1)', () => {
     // 50 → 200 ohm: the least Q is √3 = 1.732 (common practice)
     expect(() => designMatch({ ...base, network: 'pi', r: 200, x: 0, loadedQ: 1.5 })).toThrow(/below the least .* 1\.7321/);

@@ -217,7 +217,7 @@ export function designFilter(r: FilterRequest): FilterDesign {
   const respText = r.response === 'chebyshev' ? `${resp} ${short(r.rippleDb)} dB ripple` : resp;
   const cutoffMeaning = r.response === 'chebyshev' ? `the edge of the ${short(r.rippleDb)} dB ripple band` : 'the 3 dB point';
   const bandText = isBand
-    ? `centre ${formatFrequency(f0)} (geometric), bandwidth ${formatFrequency(r.bandwidth!)} from edge to edge (each edge ${cutoffMeaning}): ${formatFrequency(edges[0]!)} to ${formatFrequency(edges[1]!)}`
+    ? `centre ${formatFrequency(f0)} (geometric), bandwidth ${formatFrequency(r.bandwidth!)} between ${r.response === 'chebyshev' ? `the ends of the ${short(r.rippleDb)} dB ripple band` : 'the 3 dB points'}: ${formatFrequency(edges[0]!)} to ${formatFrequency(edges[1]!)}`
     : `cutoff ${formatFrequency(fc)} (${cutoffMeaning})`;
   const title = `${resp} ${KIND_NAME[r.kind]}, order ${order}, ${isBand ? `${formatFrequency(f0)} centre, ${formatFrequency(r.bandwidth!)} wide` : `${formatFrequency(fc)} cutoff`}`;
   const lines: string[] = [];

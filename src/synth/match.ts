@@ -24,7 +24,7 @@ import { columns, comment, quantity, short, snap, variableText } from './netlist
 import { choiceOption, frequencyOption, numberOption, resistanceOption, seriesOption, wholeOption, MAX_DESIGN_IMPEDANCE, MIN_DESIGN_IMPEDANCE, type RawOptions } from './options.js';
 import { evaluateQuantity } from '../load.js';
 
-export const MATCH_NETWORKS = ['l-lowpass', 'l-highpass', 'pi', 'tee', 'stub', 'quarter-wave', 'binomial', 'chebyshev'] as const;
+export const MATCH_NETWORKS = ['l-lowpass', 'l-highpass', 'pi', 'tee', 'stub', 'double-stub', 'quarter-wave', 'binomial', 'chebyshev'] as const;
 export type MatchNetwork = (typeof MATCH_NETWORKS)[number];
 
 export interface MatchRequest {
@@ -181,6 +181,7 @@ export function designMatch(m: MatchRequest): MatchDesign {
   if (m.bandwidth !== undefined && !['binomial', 'chebyshev'].includes(m.network)) throw new DesignRequestError('--bandwidth of a match belongs to --network binomial or chebyshev');
   if (m.bandwidth !== undefined && !(m.bandwidth < 2 * f0)) throw new DesignRequestError(`--bandwidth (${formatFrequency(m.bandwidth)}) must be below twice --freq (${formatFrequency(f0)})`);
   const lumped = ['l-lowpass', 'l-highpass', 'pi', 'tee'].includes(m.network);
+  if (m.stub !== 'open' && m.network !== 'stub' && m.network !== 'double-stub') throw new DesignRequestError('--stub belongs to --network stub or double-stub');
   if (!lumped && (m.series !== undefined || m.q !== undefined)) throw new DesignRequestError(`--series and --q apply to lumped parts; --network ${m.network} is made of lines`);
 
   const piece: Piece = { lets: [], elements: [], rows: [] };
@@ -275,6 +276,37 @@ export function designMatch(m: MatchRequest): MatchDesign {
       how = `Single shunt ${m.stub} stub: the line to the load is θd = atan(t) (plus 180° for t < 0), t = (XL + √(RL·((Z0 − RL)² + XL²)/Z0))/(RL − Z0) = ${short(t)}; there the admittance is 1/Z0 + jB, B = ${short(b)} S, which the stub cancels (${m.stub === 'open' ? 'tan θs = −B·Z0' : 'cot θs = B·Z0'}).`;
       break;
     }
+    case 'double-stub': {
+      // stub 1 at the load, stub 2 an eighth of a wavelength (at f0) toward the source; t = tan(βd) = 1
+      // (Pozar, Microwave Engineering, §5.3): B1 = −BL + (Y0 + √((1 + t²)·GL·Y0 − GL²·t²))/t,
+      // B2 = (Y0·√(Y0·GL·(1 + t²) − GL²·t²) + GL·Y0)/(GL·t)
+      const y0 = 1 / z0;
+      const d = rl * rl + xl * xl;
+      const gl = rl / d;
+      const bl = -xl / d;
+      const t = 1;
+      const disc = (1 + t * t) * gl * y0 - gl * gl * t * t;
+      if (!(disc >= 0)) throw new DesignRequestError(`--network double-stub cannot match this load with stubs an eighth of a wavelength apart: its conductance ${short(gl)} S is above (1 + t²)/t²·Y0 = ${short(2 * y0)} S (put a line before the first stub, or use --network stub)`);
+      const b1 = -bl + (y0 + Math.sqrt(disc)) / t;
+      const b2 = (y0 * Math.sqrt(disc) + gl * y0) / (gl * t);
+      // stub 2 cancels the susceptance seen there: it supplies B2 in Pozar's sign convention, which is the negative of what remains
+      const stubAngle = (b: number) => {
+        let th = m.stub === 'open' ? Math.atan(b / y0) : Math.atan(-y0 / b);
+        if (th <= 0) th += Math.PI;
+        return th;
+      };
+      const th1 = stubAngle(b1);
+      const th2 = stubAngle(b2);
+      const deg = (x: number) => (x * 180) / Math.PI;
+      piece.lets.push(`let th1  = ${quantity(deg(th1), 'deg')} vary ${quantity(deg(th1) / 2, 'deg', 6)} to ${quantity(Math.min(2 * deg(th1), 360), 'deg', 6)}   # stub at the load, B1 = ${short(b1)} S`);
+      piece.lets.push(`let th2  = ${quantity(deg(th2), 'deg')} vary ${quantity(deg(th2) / 2, 'deg', 6)} to ${quantity(Math.min(2 * deg(th2), 360), 'deg', 6)}   # stub at the source end, B2 = ${short(b2)} S`);
+      piece.elements.push(`${m.stub}_stub ts1 a=load z0=z0 theta=th1 at f0`);
+      piece.elements.push(`line ld a=in b=load z0=z0 theta=45 deg at f0`);
+      piece.elements.push(`${m.stub}_stub ts2 a=in z0=z0 theta=th2 at f0`);
+      piece.rows.push(['ts1', `${m.stub} stub at the load`, `${short(deg(th1))} deg`], ['ld', 'line between the stubs', '45 deg'], ['ts2', `${m.stub} stub at the source end`, `${short(deg(th2))} deg`]);
+      how = `Double ${m.stub}-stub tuner, stubs 45° apart at f0, the first at the load (Pozar, §5.3): B1 = −BL + (Y0 + √((1 + t²)·GL·Y0 − GL²·t²))/t = ${short(b1)} S, B2 = (Y0·√(Y0·GL·(1 + t²) − GL²·t²) + GL·Y0)/(GL·t) = ${short(b2)} S, t = tan 45° = 1.`;
+      break;
+    }
     case 'quarter-wave':
     case 'binomial':
     case 'chebyshev': {
@@ -313,7 +345,18 @@ export function designMatch(m: MatchRequest): MatchDesign {
 
   // the netlist
   const loadText = `${short(rl)}${complexLoad ? ` ${xl > 0 ? '+' : '−'} j${short(Math.abs(xl))}` : ''} ohm`;
-  const title = `${m.network} match at ${formatFrequency(f0)}, ${short(z0)} ohm to ${loadText}`;
+  const networkName: Record<MatchNetwork, string> = {
+    'l-lowpass': 'L-section match (low-pass form)',
+    'l-highpass': 'L-section match (high-pass form)',
+    pi: 'Π match',
+    tee: 'T match',
+    stub: `single ${m.stub}-stub match`,
+    'double-stub': `double ${m.stub}-stub match`,
+    'quarter-wave': 'quarter-wave transformer',
+    binomial: `${sections?.length ?? ''}-section binomial transformer`,
+    chebyshev: `${sections?.length ?? ''}-section Chebyshev transformer`,
+  };
+  const title = `${networkName[m.network]} at ${formatFrequency(f0)}, ${short(z0)} ohm to ${loadText}`;
   const lines: string[] = [];
   lines.push(
     ...comment(
