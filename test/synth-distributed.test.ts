@@ -7,7 +7,7 @@ import { describe, expect, it } from 'vitest';
 import { loadNetlist } from '../src/load.js';
 import { solveSweep } from '../src/solve/sweep.js';
 import { checkDesignText } from '../src/synth/index.js';
-import { designCoupledBandpass, designStubLowpass, richardsOmega } from '../src/synth/distributed.js';
+import { designCoupledBandpass, designSteppedLowpass, designStubLowpass, richardsOmega } from '../src/synth/distributed.js';
 import { readFilterRequest } from '../src/synth/options.js';
 import type { FilterRequest } from '../src/synth/lumped.js';
 
@@ -99,5 +99,25 @@ describe('parallel-coupled-line band-pass (Cohn, 1958)', () => {
     expect(() => designCoupledBandpass(r)).toThrow(/narrow-band design/);
     expect(() => designCoupledBandpass({ ...r, bandwidth: 100e6, order: 4 })).toThrow(/odd order/);
     expect(() => designCoupledBandpass({ ...r, bandwidth: 100e6, load: 75 })).toThrow(/equal terminations/);
+  });
+});
+
+describe('stepped-impedance low-pass (Matthaei, Young & Jones 1964, §7.03)', () => {
+  it('maximally flat, order 6, 2.5 GHz, 120 and 20 ohm lines: 11.8°, 33.8°, 44.3°, 46.1°, 32.4°, 12.3° (Pozar, Microwave Engineering, example 8.6; from memory), ±0.1°', () => {
+    const d = designSteppedLowpass({ ...base, response: 'butterworth', realize: 'stepped', order: 6, first: 'shunt', cutoff: 2.5e9 }, 120, 20);
+    const { circuit } = loadNetlist(d.text, 's.sbx');
+    [11.8, 33.8, 44.3, 46.1, 32.4, 12.3].forEach((v, k) => {
+      const th = circuit.variables.find((x) => x.name === `th${k + 1}`)!.value; // radians
+      expect(Math.abs((th * 180) / Math.PI - v)).toBeLessThan(0.1);
+    });
+    expect(checkDesignText(d.text, 's.sbx').pass).toBe(true);
+    // an approximation: the loss at the cutoff within 1 dB of the 3 dB of the lumped prototype
+    const { g } = s21(d.text, 'list freqs=2.5 GHz');
+    expect(Math.abs(-20 * Math.log10(g[0]!) - 3.0103)).toBeLessThan(1);
+  });
+  it('refuses sections too long for the approximation, and impedances on the wrong side of z0', () => {
+    const r = { ...base, response: 'butterworth' as const, realize: 'stepped' as const, order: 5, first: 'shunt' as const, cutoff: 1e9 };
+    expect(() => designSteppedLowpass(r, 60, 45)).toThrow(/too long for the stepped-impedance approximation/);
+    expect(() => designSteppedLowpass(r, 40, 20)).toThrow(/--high-z .* must be above --z0/);
   });
 });

@@ -6,7 +6,7 @@ import { describe, expect, it } from 'vitest';
 import { loadNetlist } from '../src/load.js';
 import { solveSweep } from '../src/solve/sweep.js';
 import { checkDesignText } from '../src/synth/index.js';
-import { designFilter, mappedFrequency, minimumOrder, type FilterRequest } from '../src/synth/lumped.js';
+import { designFilter, mappedFrequency, minimumOrder, passbandDelay, type FilterRequest } from '../src/synth/lumped.js';
 import { readFilterRequest } from '../src/synth/options.js';
 import { chebyshevT, epsilonSquared } from '../src/synth/prototype.js';
 import { nearestInSeries } from '../src/design/series.js';
@@ -108,6 +108,19 @@ describe('minimum order from a mask', () => {
 });
 
 describe('series snapping and losses', () => {
+  it('the pass-band delay behind the loss allowance: Butterworth n=1 has τmax = 1, n=2 has 1 + 1/√2 at Ω² = √2 − 1 (closed forms of the all-pole delay)', () => {
+    expect(passbandDelay('butterworth', 1, 0)).toBeCloseTo(1, 9);
+    // τ(Ω) = √2·(1 + Ω²)/(1 + Ω⁴), largest at Ω² = √2 − 1; sampled every 1/400: within 1e-5
+    expect(Math.abs(passbandDelay('butterworth', 2, 0) - (1 + Math.SQRT1_2))).toBeLessThan(1e-5);
+  });
+  it('lossy designs of every order pass their specs (high-order Chebyshev, Q = 30, 5 % wide band-pass)', () => {
+    for (const order of [3, 6, 9]) {
+      for (const kind of ['lowpass', 'bandpass'] as const) {
+        const d = designFilter({ ...base, kind, response: 'chebyshev', rippleDb: 0.5, order, cutoff: 1e9, center: 1e9, bandwidth: 5e7, q: 30 });
+        expect(checkDesignText(d.text, 'q.sbx').pass).toBe(true);
+      }
+    }
+  });
   it('--series E12 writes E12 values, keeps the series on the variables, and the check says whether it passes', () => {
     const r = readFilterRequest('lowpass', { response: 'butterworth', order: '5', cutoff: '100 MHz', series: 'e12' });
     const d = designFilter(r);

@@ -145,6 +145,9 @@ export function designStubLowpass(r: FilterRequest): DistributedDesign {
   return { proto, text, summary, gain };
 }
 
+/** The largest J·z0 of a coupled section the narrow-band design accepts (its formulas assume loose coupling). */
+export const MAX_COUPLING = 0.7;
+
 /** The parallel-coupled-line band-pass of Cohn (1958). */
 export function designCoupledBandpass(r: FilterRequest): DistributedDesign {
   if (r.kind !== 'bandpass') throw new DesignRequestError('--realize coupled-lines makes band-pass filters only');
@@ -164,6 +167,8 @@ export function designCoupledBandpass(r: FilterRequest): DistributedDesign {
     const j = k === 0 || k === order ? Math.sqrt((Math.PI * delta) / (2 * g[k]! * g[k + 1]!)) : (Math.PI * delta) / (2 * Math.sqrt(g[k]! * g[k + 1]!));
     modes.push({ j, z0e: z0 * (1 + j + j * j), z0o: z0 * (1 - j + j * j) });
   }
+  const tight = modes.findIndex((m) => m.j > MAX_COUPLING);
+  if (tight >= 0) throw new DesignRequestError(`section ${tight + 1} would need J·z0 = ${short(modes[tight]!.j, 4)}, too tight a coupling for the narrow-band method (at most ${MAX_COUPLING}): narrow --bandwidth or lower --order`);
   const peak = 1;
   // Matthaei, Young & Jones: the band-pass maps to the prototype by Ω = (2/Δ)·(f − f0)/f0 near f0
   const gain = (f: number) => prototypeGain(r.response, order, proto.rippleDb, omega(f), peak);
@@ -216,4 +221,65 @@ export function designCoupledBandpass(r: FilterRequest): DistributedDesign {
   const text = lines.join('\n') + '\n';
   const summary = `${title}\n${note}\n\n` + columns([['section', 'J·z0', 'Z0e', 'Z0o'], ...modes.map((m, k) => [`k${k + 1}`, short(m.j, 5), quantity(m.z0e, 'ohm', 6), quantity(m.z0o, 'ohm', 6)])]);
   return { proto, text, summary, gain, modes };
+}
+
+/**
+ * The stepped-impedance low-pass (common practice; Matthaei, Young & Jones 1964, §7.03; Pozar,
+ * §8.6): each series inductor g becomes a short high-impedance line of βl = g·z0/Zhigh, each
+ * shunt capacitor a short low-impedance line of βl = g·Zlow/z0, at the cutoff. An approximation
+ * that holds while every section stays short (βl below about 45°).
+ */
+export function designSteppedLowpass(r: FilterRequest, zHigh: number, zLow: number): DistributedDesign {
+  if (r.kind !== 'lowpass') throw new DesignRequestError('--realize stepped makes low-pass filters only');
+  if (r.series !== undefined || r.q !== undefined) throw new DesignRequestError('--series and --q apply to lumped parts; --realize stepped is made of lines');
+  if (r.load !== undefined && Math.abs(r.load - r.z0) > 1e-9 * r.z0) throw new DesignRequestError('--realize stepped takes equal terminations (leave out --load)');
+  const z0 = r.z0;
+  if (!(zHigh > z0 && zLow < z0)) throw new DesignRequestError(`--high-z (${short(zHigh)} ohm) must be above --z0 and --low-z (${short(zLow)} ohm) below it (${short(z0)} ohm)`);
+  const fc = r.cutoff!;
+  const { order, note } = orderOf(r, (f) => f / fc);
+  if (r.response === 'chebyshev' && order % 2 === 0) throw new DesignRequestError('--realize stepped with a Chebyshev response needs an odd order (equal terminations)');
+  const proto = prototype({ response: r.response, order, rippleDb: r.rippleDb, first: r.first });
+  const shunt = (k: number) => (k % 2 === 0) === (proto.first === 'shunt');
+  const secs = proto.g.map((g, k) => (shunt(k) ? { z: zLow, theta: (g * zLow) / z0, role: `low-impedance line for C${k + 1}: βl = g${k + 1}·Zlow/z0` } : { z: zHigh, theta: (g * z0) / zHigh, role: `high-impedance line for L${k + 1}: βl = g${k + 1}·z0/Zhigh` }));
+  const longest = Math.max(...secs.map((x) => x.theta));
+  const deg = (x: number) => (x * 180) / Math.PI;
+  if (longest > Math.PI / 2) throw new DesignRequestError(`a section would be ${short(deg(longest), 3)}° long at the cutoff, too long for the stepped-impedance approximation: raise --high-z or lower --low-z`);
+  const peak = 1;
+  const gain = (f: number) => prototypeGain(r.response, order, proto.rippleDb, f / fc, peak);
+  const resp = RESPONSE_NAME[r.response];
+  const title = `${resp} stepped-impedance low-pass, order ${order}, ${formatFrequency(fc)} cutoff`;
+  const ripple = r.response === 'chebyshev' ? r.rippleDb : 10 * Math.log10(2);
+  const lines: string[] = [];
+  lines.push(
+    ...comment(
+      [
+        `${title}: written by \`scatterbox design lowpass --realize stepped\`.`,
+        `${r.response === 'chebyshev' ? `${resp} ${short(r.rippleDb)} dB ripple` : resp} response, ${note}; cutoff ${formatFrequency(fc)}. Source and load ${short(z0)} ohm; lines of ${short(zHigh)} and ${short(zLow)} ohm.`,
+        `Prototype: ${proto.g.map((x, k) => `g${k + 1} = ${short(x, 6)}`).join(', ')} (${proto.method}).`,
+        'Each series inductor is a short high-impedance line, βl = g·z0/Zhigh; each shunt capacitor a short low-impedance line, βl = g·Zlow/z0 (common practice; Matthaei, Young & Jones 1964, §7.03). An approximation for short sections: the written specs ask for the pass band below 0.8·fc within the response plus 0.5 dB, and the cutoff region is left to the check of the solved response.',
+      ].join('\n'),
+    ),
+  );
+  lines.push(`title "${title}"`, '');
+  lines.push(`let z0 = ${quantity(z0, 'ohm')}      # source and load`);
+  lines.push(`let fc = ${quantity(fc, 'Hz')}      # cutoff`, '');
+  secs.forEach((x, k) => lines.push(`let th${k + 1} = ${quantity(deg(x.theta), 'deg')} vary ${quantity(deg(x.theta) / 2, 'deg', 6)} to ${quantity(Math.min(deg(x.theta) * 2, 180), 'deg', 6)}   # ${x.role}`));
+  lines.push('');
+  let node = 'in';
+  secs.forEach((x, k) => {
+    const next = k === secs.length - 1 ? 'out' : `n${k + 1}`;
+    lines.push(`line t${k + 1} a=${node} b=${next} z0=${quantity(x.z, 'ohm')} theta=th${k + 1} at fc`);
+    node = next;
+  });
+  lines.push('', 'port 1 plus=in ref=z0', 'port 2 plus=out ref=z0', '');
+  lines.push(`sweep linear start=${quantity(fc / 100, 'Hz', 6)} stop=${quantity(2 * fc, 'Hz', 6)} points=401`);
+  lines.push(`sweep list freqs=fc${r.stopEdges.map((f) => `, ${quantity(f, 'Hz')}`).join('')}`, '');
+  const inner = Math.max(-10 * Math.log10(prototypeGain(r.response, order, proto.rippleDb, 0.8)), r.response === 'chebyshev' ? ripple : 0);
+  lines.push(`spec passband_loss measure=il(2,1) max=${short(inner + 0.5, 6)} dB below=${quantity(0.8 * fc, 'Hz')}`);
+  if (r.stopAttenDb !== undefined) {
+    r.stopEdges.forEach((f, i) => lines.push(`spec stopband${r.stopEdges.length > 1 ? `_${i + 1}` : ''} measure=il(2,1) min=${short(r.stopAttenDb!, 8)} dB over=${quantity(f, 'Hz')}, ${quantity(Math.max(f, 1.2 * f), 'Hz')}`));
+  }
+  const text = lines.join('\n') + '\n';
+  const summary = `${title}\n${note}\n\n` + columns([['line', 'impedance', 'length at fc'], ...secs.map((x, k) => [`t${k + 1}`, quantity(x.z, 'ohm', 6), `${short(deg(x.theta), 4)} deg`])]);
+  return { proto, text, summary, gain };
 }

@@ -18,14 +18,16 @@ export { prototype, prototypeGain, butterworthG, chebyshevG, besselPolynomial, b
 export { readFilterRequest, type RawOptions } from './options.js';
 export { designMatch, readMatchRequest, readImpedance, binomialSections, chebyshevSections, transformerReflection, type MatchRequest, type MatchDesign, type MatchNetwork } from './match.js';
 
-import { designFilter as lumpedFilter, type FilterRequest } from './lumped.js';
-import { designCoupledBandpass, designStubLowpass } from './distributed.js';
-export { designStubLowpass, designCoupledBandpass, richardsOmega, type DistributedDesign } from './distributed.js';
+import { designFilter as lumpedFilter, DesignRequestError, type FilterRequest } from './lumped.js';
+import { designCoupledBandpass, designSteppedLowpass, designStubLowpass } from './distributed.js';
+export { designStubLowpass, designCoupledBandpass, designSteppedLowpass, richardsOmega, type DistributedDesign } from './distributed.js';
 
 /** A filter as asked: lumped, or from lines (`realize`). The result has the written text, a summary and the response. */
 export function designAnyFilter(r: FilterRequest): { text: string; summary: string; gain: (f: number) => number } {
   if (r.realize === 'stubs') return designStubLowpass(r);
   if (r.realize === 'coupled-lines') return designCoupledBandpass(r);
+  if (r.realize === 'stepped') return designSteppedLowpass(r, r.highZ ?? 2.4 * r.z0, r.lowZ ?? 0.4 * r.z0);
+  if (r.highZ !== undefined || r.lowZ !== undefined) throw new DesignRequestError('--high-z and --low-z belong to --realize stepped');
   return lumpedFilter(r);
 }
 

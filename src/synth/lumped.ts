@@ -8,8 +8,9 @@
  */
 import type { SeriesName } from '../design/series.js';
 import { formatFrequency } from '../format/frequency.js';
-import { epsilonSquared, MAX_ORDER, peakGain, prototype, prototypeGain, type AllPoleResponse, type FirstElement, type Prototype } from './prototype.js';
+import { epsilonSquared, MAX_ORDER, peakGain, prototype, prototypeGain, responsePolynomial, type AllPoleResponse, type FirstElement, type Prototype } from './prototype.js';
 import { columns, comment, quantity, short, snap, variableText } from './netlist.js';
+import { roots } from './poly.js';
 
 export type FilterKind = 'lowpass' | 'highpass' | 'bandpass' | 'bandstop';
 
@@ -38,7 +39,10 @@ export interface FilterRequest {
   /** Unloaded Q of every part, at the cutoff or centre; undefined: lossless. */
   q?: number;
   /** How it is built: lumped parts (default), stubs (low-pass: Richards and Kuroda), coupled lines (band-pass: Cohn). */
-  realize?: 'lumped' | 'stubs' | 'coupled-lines';
+  realize?: 'lumped' | 'stubs' | 'stepped' | 'coupled-lines';
+  /** Stepped-impedance low-pass: the line impedances, ohm (defaults 120 and 20 ohm, for 50 ohm ports scaled with --z0). */
+  highZ?: number;
+  lowZ?: number;
 }
 
 export interface Part {
@@ -127,6 +131,22 @@ export function minimumOrder(response: AllPoleResponse, rippleDb: number, atten:
     return Infinity;
   }
   return Math.max(1, Math.ceil(n - 1e-9));
+}
+
+/**
+ * The largest group delay (s, prototype: 1 rad/s) over the pass band |Ω| ≤ 1, from the poles:
+ * τ(Ω) = Σ −Re p/((Ω − Im p)² + Re p²) (closed form of an all-pole response).
+ */
+export function passbandDelay(response: AllPoleResponse, order: number, rippleDb: number): number {
+  const poles = roots(responsePolynomial(response, order, rippleDb));
+  let worst = 0;
+  for (let k = 0; k <= 400; k++) {
+    const w = k / 400;
+    let t = 0;
+    for (const p of poles) t += -p[0] / ((w - p[1]) ** 2 + p[0] ** 2);
+    worst = Math.max(worst, t);
+  }
+  return worst;
 }
 
 /** Designs a lumped filter and writes its netlist. */
@@ -283,15 +303,19 @@ export function designFilter(r: FilterRequest): FilterDesign {
   const ripple = r.response === 'chebyshev' ? r.rippleDb : 10 * Math.log10(2);
   const mismatchDb = -10 * Math.log10(Math.min(1, peak));
   const roundingRoom = 0.001;
-  // Cohn's estimate of the dissipation loss at the centre: 4.343·Σg/(Q·w) dB (w = FBW for band filters, 1 otherwise)
-  // a resonator of two parts of Q each has Q/2; a low-pass or high-pass arm is one part
-  const qu = r.q !== undefined ? (isBand ? r.q / 2 : r.q) : Infinity;
-  const cohn = r.q !== undefined ? (4.343 * proto.g.reduce((a, b) => a + b, 0)) / (qu * (isBand ? fbw : 1)) : 0;
-  const lossRoom = r.q !== undefined ? 3 * cohn + 0.1 : 0;
+  // Dissipation: uniform loss moves the poles by σ (s → s + σ), which costs about 8.686·σ·τ(Ω) dB
+  // at a point of group delay τ (common practice; Cohn 1959 gives the same at the centre). In the
+  // prototype, σ = 1/(2·Q) for parts of Q (low-pass, high-pass) and 1/(Q·FBW) for resonators of
+  // two parts (band filters); the room asked for is three times that at the largest pass-band
+  // delay, plus 0.1 dB (the loss also upsets the match near the edges).
+  const sigma = r.q !== undefined ? (isBand ? 1 / (r.q * fbw) : 1 / (2 * r.q)) : 0;
+  const tauMax = r.q !== undefined ? passbandDelay(r.response, order, proto.rippleDb) : 0;
+  const dissipation = 8.686 * sigma * tauMax;
+  const lossRoom = r.q !== undefined ? 3 * dissipation + 0.1 : 0;
   const passLimit = ripple + mismatchDb + roundingRoom + lossRoom;
   lines.push(
     ...comment(
-      `Specs: the request. Pass band: the loss stays within ${r.response === 'chebyshev' ? 'the ripple' : 'the 3 dB of the cutoff'}${mismatchDb > 1e-9 ? ` plus the ${short(mismatchDb, 4)} dB mismatch loss of the terminations` : ''}, with ${roundingRoom} dB of room for the rounding of the written values${r.q !== undefined ? ` and ${short(lossRoom, 3)} dB for the part losses (three times Cohn's estimate of the dissipation loss at the centre, 4.343·Σg/(${isBand ? 'Qu·FBW, Qu = Q/2 for a resonator of two parts' : 'Q'}) = ${short(cohn, 3)} dB, plus 0.1 dB)` : ''}.`,
+      `Specs: the request. Pass band: the loss stays within ${r.response === 'chebyshev' ? 'the ripple' : 'the 3 dB of the cutoff'}${mismatchDb > 1e-9 ? ` plus the ${short(mismatchDb, 4)} dB mismatch loss of the terminations` : ''}, with ${roundingRoom} dB of room for the rounding of the written values${r.q !== undefined ? ` and ${short(lossRoom, 3)} dB for the part losses (three times the dissipation estimate 8.686·σ·τmax = ${short(dissipation, 3)} dB, σ = ${isBand ? '1/(Q·FBW)' : '1/(2Q)'}, τmax = ${short(tauMax, 4)} the largest pass-band delay of the prototype; plus 0.1 dB)` : ''}.`,
     ),
   );
   const lim = `${short(passLimit, 8)} dB`;

@@ -128,7 +128,9 @@ export function readFilterRequest(kind: FilterKind, raw: RawOptions): FilterRequ
     series: seriesOption(raw),
     q: numberOption(raw, 'q', 'q', 1, 1e6),
     realize: choiceOption(raw, 'realize', 'realize', REALIZATIONS, 'lumped'),
+    highZ: resistanceOption(raw, 'highZ', 'high-z'),
+    lowZ: resistanceOption(raw, 'lowZ', 'low-z'),
   };
 }
 
-export const REALIZATIONS = ['lumped', 'stubs', 'coupled-lines'] as const;
+export const REALIZATIONS = ['lumped', 'stubs', 'stepped', 'coupled-lines'] as const;
