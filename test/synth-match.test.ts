@@ -5,6 +5,9 @@
  */
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
+import { mkdirSync, mkdtempSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import { loadNetlist } from '../src/load.js';
 import { solveSweep } from '../src/solve/sweep.js';
 import { checkDesignText } from '../src/synth/index.js';
@@ -189,5 +192,57 @@ describe('option readers', () => {
       ),
       { seed: 21, numRuns: 150 },
     );
+  });
+});
+
+describe('a load read from a data file over a band', () => {
+  const dir = mkdtempSync(join(tmpdir(), 'synth-match-'));
+  mkdirSync(join(dir, 'out'));
+  // a series R-L-C load (25 ohm, 5 nH, resonant at 2.3 GHz) as a Touchstone one-port, 2.2 to 2.7 GHz
+  const L = 5e-9;
+  const C = 1 / ((2 * Math.PI * 2.3e9) ** 2 * L);
+  const zAt = (f: number) => ({ r: 25, x: 2 * Math.PI * f * L - 1 / (2 * Math.PI * f * C) });
+  let text = '! series R-L-C\n# GHz S RI R 50\n';
+  for (let k = 0; k <= 50; k++) {
+    const f = 2.2e9 + k * 10e6;
+    const { r, x } = zAt(f);
+    // Γ = (Z − 50)/(Z + 50)
+    const d = (r + 50) ** 2 + x * x;
+    text += `${f / 1e9} ${((r - 50) * (r + 50) + x * x) / d} ${(x * (r + 50) - (r - 50) * x) / d}\n`;
+  }
+  const file = join(dir, 'load.s1p');
+  writeFileSync(file, text);
+  const out = join(dir, 'out', 'm.sbx');
+  for (const network of ['l-lowpass', 'l-highpass', 'stub', 'double-stub'] as const) {
+    it(`${network}: the load at the centre is read from the file, matched there (|S11| < 1e-9, with the file as the load element), band spec checked`, () => {
+      const req = readMatchRequest({ loadFile: file, band: '2.4 GHz, 2.5 GHz', network });
+      const f0 = Math.sqrt(2.4e9 * 2.5e9);
+      // at a file point's neighbours the load is interpolated linearly in S; the R-L-C closed form agrees to 1e-3 ohm on this 10 MHz grid
+      expect(Math.abs(req.r - zAt(f0).r)).toBeLessThan(1e-3);
+      expect(Math.abs(req.x - zAt(f0).x)).toBeLessThan(0.05);
+      const d = designMatch(req, out);
+      expect(d.text).toMatch(/datafile rload file="\.\.\/load\.s1p" p1=load/);
+      const { circuit } = loadNetlist(d.text, out, { sweep: `list freqs=${f0} Hz` });
+      const net = solveSweep(circuit);
+      expect(Math.hypot(net.values[0]!, net.values[1]!)).toBeLessThan(1e-9);
+      const { pass, results } = checkDesignText(d.text, out);
+      expect(results.map((r) => r.spec.name)).toEqual(['match_at_f0', 'band_match']);
+      expect(pass).toBe(true);
+    });
+  }
+  it('a return loss the network cannot give over the band fails the check (and says so through the spec)', () => {
+    const d = designMatch(readMatchRequest({ loadFile: file, band: '2.2 GHz, 2.7 GHz', minReturnLoss: '30 dB' }), out);
+    const { pass, results } = checkDesignText(d.text, out);
+    expect(pass).toBe(false);
+    expect(results.find((r) => r.spec.name === 'band_match')!.pass).toBe(false);
+  });
+  it('plain errors: band outside the data, a two-port file, both loads, a missing band', () => {
+    expect(() => readMatchRequest({ loadFile: file, band: '2 GHz, 2.5 GHz' })).toThrow(/--band .* reaches outside the data/);
+    expect(() => readMatchRequest({ loadFile: file })).toThrow(/needs --band with two frequencies/);
+    expect(() => readMatchRequest({ loadFile: file, load: '50', band: '2.4 GHz, 2.5 GHz' })).toThrow(/give --load or --load-file, not both/);
+    const two = join(dir, 'two.s2p');
+    writeFileSync(two, '# GHz S RI R 50\n2.4 0 0 1 0 1 0 0 0\n2.5 0 0 1 0 1 0 0 0\n');
+    expect(() => readMatchRequest({ loadFile: two, band: '2.4 GHz, 2.5 GHz' })).toThrow(/must hold a one-port/);
+    expect(() => readMatchRequest({ freq: '1 GHz', load: '30', band: '1 GHz, 2 GHz' })).toThrow(/--band and --min-return-loss belong to a load read from a file/);
   });
 });

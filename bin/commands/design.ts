@@ -49,6 +49,9 @@ export function designBuilder(y: Argv): Argv {
     .option('low-z', { type: 'string', describe: 'stepped-impedance low-pass: the low line impedance (default 0.4·z0, 20 ohm at 50 ohm)' })
     .option('network', { type: 'string', describe: 'match: l-lowpass, l-highpass, pi, tee, stub, double-stub, quarter-wave, binomial, chebyshev' })
     .option('freq', { type: 'string', describe: 'match: the frequency to match at' })
+    .option('load-file', { type: 'string', describe: 'match: a one-port data file (.s1p or .json) holding the load over a band' })
+    .option('band', { type: 'string', describe: 'match with --load-file: the band to check, two frequencies, e.g. "2.4 GHz, 2.5 GHz" (matched at its geometric centre unless --freq)' })
+    .option('min-return-loss', { type: 'string', describe: 'match with --load-file: the return loss to reach over --band, dB (default 10)' })
     .option('loaded-q', { type: 'string', describe: 'match, pi and tee: the loaded Q of the network' })
     .option('sections', { type: 'string', describe: 'match, binomial and chebyshev: the number of quarter-wave sections, 1 to 8' })
     .option('stub', { type: 'string', describe: 'match, stub and double-stub: open (default) or short' })
@@ -64,7 +67,7 @@ export function runDesign(a: DesignArgs, io: Io): number {
   try {
     checkOutputs([a.out], []);
     const file = a.out ?? `design-${a.kind}.sbx`;
-    const d = a.kind === 'match' ? designMatch(readMatchRequest(a)) : designAnyFilter(readFilterRequest(a.kind, a));
+    const d = a.kind === 'match' ? designMatch(readMatchRequest(a), file) : designAnyFilter(readFilterRequest(a.kind, a));
     const { pass, results } = checkDesignText(d.text, file);
     // the summary goes to stdout, unless the netlist itself does (no -o)
     const say = a.out ? io.out : io.err;

@@ -21,8 +21,12 @@ import { formatFrequency } from '../format/frequency.js';
 import { DesignRequestError } from './lumped.js';
 import { chebyshevT } from './prototype.js';
 import { columns, comment, quantity, short, snap, variableText } from './netlist.js';
-import { choiceOption, frequencyOption, numberOption, resistanceOption, seriesOption, wholeOption, MAX_DESIGN_IMPEDANCE, MIN_DESIGN_IMPEDANCE, type RawOptions } from './options.js';
+import { choiceOption, frequencyList, frequencyOption, numberOption, resistanceOption, seriesOption, wholeOption, MAX_DESIGN_IMPEDANCE, MIN_DESIGN_IMPEDANCE, type RawOptions } from './options.js';
 import { evaluateQuantity } from '../load.js';
+import { loadNetworkFile } from '../io/read.js';
+import { convertNetwork } from '../network/convert.js';
+import { cdiv, type Cx } from './poly.js';
+import { dirname, relative, resolve } from 'node:path';
 
 export const MATCH_NETWORKS = ['l-lowpass', 'l-highpass', 'pi', 'tee', 'stub', 'double-stub', 'quarter-wave', 'binomial', 'chebyshev'] as const;
 export type MatchNetwork = (typeof MATCH_NETWORKS)[number];
@@ -41,6 +45,11 @@ export interface MatchRequest {
   stub: 'open' | 'short';
   series?: SeriesName;
   q?: number;
+  /** A one-port data file (Touchstone or JSON) holding the load over a band, and that band (Hz). */
+  loadFile?: string;
+  band?: [number, number];
+  /** With a load file: the return loss asked for over the band, dB (default 10). */
+  minReturnLoss?: number;
 }
 
 export interface MatchDesign {
@@ -79,6 +88,8 @@ export function readImpedance(text: string, option: string): { r: number; x: num
 
 export function readMatchRequest(raw: RawOptions): MatchRequest {
   const network = choiceOption<MatchNetwork>(raw, 'network', 'network', MATCH_NETWORKS, 'l-lowpass');
+  if (raw.loadFile !== undefined && raw.loadFile !== null) return readFileMatch(raw, network);
+  if (raw.band !== undefined || raw.minReturnLoss !== undefined) throw new DesignRequestError('--band and --min-return-loss belong to a load read from a file (--load-file)');
   const f0 = frequencyOption(raw, 'freq', 'freq');
   if (f0 === undefined) throw new DesignRequestError('a match needs --freq (the frequency to match at)');
   const loadText = raw.load;
@@ -87,21 +98,66 @@ export function readMatchRequest(raw: RawOptions): MatchRequest {
   const { r, x } = readImpedance(String(loadText), 'load');
   if (!(r >= MIN_DESIGN_IMPEDANCE && r <= MAX_DESIGN_IMPEDANCE)) throw new DesignRequestError(`the resistance of --load must be from ${MIN_DESIGN_IMPEDANCE} ohm to ${MAX_DESIGN_IMPEDANCE} ohm, not ${r} ohm`);
   if (!(Math.abs(x) <= MAX_DESIGN_IMPEDANCE)) throw new DesignRequestError(`the reactance of --load must be within ±${MAX_DESIGN_IMPEDANCE} ohm, not ${x} ohm`);
-  for (const k of ['response', 'order', 'ripple', 'stopAtten', 'stopEdge', 'cutoff', 'center', 'first']) {
+  return { network, f0, r, x, ...commonOptions(raw) };
+}
+
+/** The options common to every match (network choices, z0, Q, series…), after the load. */
+function commonOptions(raw: RawOptions) {
+  for (const k of ['response', 'order', 'ripple', 'stopAtten', 'stopEdge', 'cutoff', 'center', 'first', 'realize']) {
     if (raw[k] !== undefined) throw new DesignRequestError(`--${k.replace(/[A-Z]/g, (c) => `-${c.toLowerCase()}`)} belongs to the filters, not to a match`);
   }
   return {
-    network,
-    f0,
     z0: resistanceOption(raw, 'z0', 'z0') ?? 50,
-    r,
-    x,
     loadedQ: numberOption(raw, 'loadedQ', 'loaded-q', 0.01, 1000),
     sections: wholeOption(raw, 'sections', 'sections', 1, 8),
     bandwidth: frequencyOption(raw, 'bandwidth', 'bandwidth'),
     stub: choiceOption(raw, 'stub', 'stub', ['open', 'short'] as const, 'open'),
     series: seriesOption(raw),
     q: numberOption(raw, 'q', 'q', 1, 1e6),
+  };
+}
+
+/**
+ * A match to a load read from a one-port data file: matched at --freq (default the geometric
+ * centre of --band), the load taken from the file there (S11 interpolated linearly in its real
+ * and imaginary parts, as the `datafile` element does), and checked over --band.
+ */
+function readFileMatch(raw: RawOptions, network: MatchNetwork): MatchRequest {
+  if (raw.load !== undefined) throw new DesignRequestError('give --load or --load-file, not both');
+  const path = raw.loadFile;
+  if (Array.isArray(path)) throw new DesignRequestError('--load-file is given more than once');
+  if (typeof path !== 'string' || path.trim() === '') throw new DesignRequestError('--load-file needs the path of a one-port data file (.s1p or .json)');
+  const band = frequencyList(raw, 'band', 'band');
+  if (band.length !== 2 || !(band[0]! < band[1]!)) throw new DesignRequestError('--load-file needs --band with two frequencies, low first, e.g. "2.4 GHz, 2.5 GHz"');
+  const f0 = frequencyOption(raw, 'freq', 'freq') ?? Math.sqrt(band[0]! * band[1]!);
+  if (f0 < band[0]! || f0 > band[1]!) throw new DesignRequestError(`--freq (${formatFrequency(f0)}) must lie within --band`);
+  const { net } = loadNetworkFile(path);
+  if (net.ports !== 1) throw new DesignRequestError(`--load-file must hold a one-port (a load), but ${path} has ${net.ports} ports`);
+  const s = net.parameter === 'S' ? net : convertNetwork(net, 'S');
+  const f = s.frequencies;
+  if (band[0]! < f[0]! * (1 - 1e-9) || band[1]! > f[f.length - 1]! * (1 + 1e-9)) {
+    throw new DesignRequestError(`--band (${formatFrequency(band[0]!)} to ${formatFrequency(band[1]!)}) reaches outside the data of ${path} (${formatFrequency(f[0]!)} to ${formatFrequency(f[f.length - 1]!)})`);
+  }
+  let k = 0;
+  while (k < f.length - 2 && f[k + 1]! < f0) k++;
+  const t = f.length === 1 ? 0 : Math.min(1, Math.max(0, (f0 - f[k]!) / (f[k + 1]! - f[k]!)));
+  const at = (i: number) => [s.values[2 * i]!, s.values[2 * i + 1]!] as const;
+  const a = at(k);
+  const b = f.length === 1 ? a : at(k + 1);
+  const g: Cx = [a[0] + t * (b[0] - a[0]), a[1] + t * (b[1] - a[1])];
+  const ref = s.references[0]!;
+  // Z = R·(1 + Γ)/(1 − Γ)
+  const z = cdiv([ref * (1 + g[0]), ref * g[1]], [1 - g[0], -g[1]]);
+  if (!(z[0] > 0) || !Number.isFinite(z[1])) throw new DesignRequestError(`the load in ${path} at ${formatFrequency(f0)} has no positive resistance (Z = ${short(z[0])} ${z[1] < 0 ? '−' : '+'} j${short(Math.abs(z[1]))} ohm): nothing passive matches it`);
+  return {
+    network,
+    f0,
+    r: z[0],
+    x: z[1],
+    ...commonOptions(raw),
+    loadFile: path,
+    band: [band[0]!, band[1]!],
+    minReturnLoss: numberOption(raw, 'minReturnLoss', 'min-return-loss', 0, 60, 'dB') ?? 10,
   };
 }
 
@@ -168,8 +224,11 @@ interface Piece {
   rows: string[][];
 }
 
-/** Designs a match and writes its netlist. */
-export function designMatch(m: MatchRequest): MatchDesign {
+/**
+ * Designs a match and writes its netlist. `netlistPath` is where the netlist will be written: a
+ * load file is named relative to it.
+ */
+export function designMatch(m: MatchRequest, netlistPath = 'design.sbx'): MatchDesign {
   const { f0, z0, r: rl, x: xl } = m;
   const w0 = 2 * Math.PI * f0;
   const complexLoad = Math.abs(xl) > 1e-12 * rl;
@@ -364,7 +423,9 @@ export function designMatch(m: MatchRequest): MatchDesign {
         `${title}: written by \`scatterbox design match\`.`,
         how,
         '',
-        `Port 1 is the source (${short(z0)} ohm); the load ${loadText} at f0 is written below as a resistor${complexLoad ? ` with a series ${xl > 0 ? 'inductor' : 'capacitor'} that gives its reactance at f0 (away from f0 a real load will differ)` : ''}.`,
+        m.loadFile !== undefined
+          ? `Port 1 is the source (${short(z0)} ohm); the load is the data of ${m.loadFile}, ${loadText} at f0 (S11 interpolated linearly in its real and imaginary parts).`
+          : `Port 1 is the source (${short(z0)} ohm); the load ${loadText} at f0 is written below as a resistor${complexLoad ? ` with a series ${xl > 0 ? 'inductor' : 'capacitor'} that gives its reactance at f0 (away from f0 a real load will differ)` : ''}.`,
         lumped
           ? `The part values are design variables, from half to twice the design value${m.series ? `, snapped to the ${m.series} series` : ', not rounded'}. ${m.q !== undefined ? `Every part has Q = ${short(m.q)} at f0.` : 'Parts are ideal (lossless).'}`
           : 'The line impedances and lengths are design variables; the lines are ideal TEM lines (lossless).',
@@ -374,17 +435,24 @@ export function designMatch(m: MatchRequest): MatchDesign {
   lines.push(`title "${title}"`, '');
   lines.push(`let z0 = ${quantity(z0, 'ohm')}      # source`);
   lines.push(`let f0 = ${quantity(f0, 'Hz')}      # match frequency`);
-  lines.push(`let rl = ${quantity(rl, 'ohm')}      # load resistance`);
-  if (complexLoad) lines.push(`let xl = ${quantity(xl, 'ohm')}      # load reactance at f0`);
+  if (m.loadFile !== undefined) lines.push(`# the load at f0, from the data file: ${quantity(rl, 'ohm', 6)} resistance, ${quantity(xl, 'ohm', 6)} reactance`);
+  else {
+    lines.push(`let rl = ${quantity(rl, 'ohm')}      # load resistance`);
+    if (complexLoad) lines.push(`let xl = ${quantity(xl, 'ohm')}      # load reactance at f0`);
+  }
   lines.push('', ...piece.lets, '', ...piece.elements, '');
   lines.push('# the load');
-  if (complexLoad) {
+  if (m.loadFile !== undefined) {
+    const rel = relative(dirname(resolve(netlistPath)), resolve(m.loadFile)).split('\\').join('/');
+    lines.push(`datafile rload file="${rel.replace(/["\\]/g, (c) => `\\${c}`)}" p1=load`);
+  } else if (complexLoad) {
     lines.push('resistor rload a=load b=lx value=rl');
     lines.push(xl > 0 ? 'inductor xload a=lx b=ground value=xl/(2*pi*f0)' : 'capacitor xload a=lx b=ground value=-1/(2*pi*f0*xl)');
   } else lines.push('resistor rload a=load b=ground value=rl');
   lines.push('', 'port 1 plus=in ref=z0', '');
-  const lo = band ? Math.max(band[0] / 2, f0 / 4) : f0 / 2;
-  const hiF = band ? Math.min(band[1] * 1.5, 1.99 * f0) : 1.5 * f0;
+  if (m.band) band = m.band;
+  const lo = m.band ? m.band[0] : band ? Math.max(band[0] / 2, f0 / 4) : f0 / 2;
+  const hiF = m.band ? m.band[1] : band ? Math.min(band[1] * 1.5, 1.99 * f0) : 1.5 * f0;
   lines.push(`sweep linear start=${quantity(lo, 'Hz', 6)} stop=${quantity(hiF, 'Hz', 6)} points=401`);
   lines.push(`sweep list freqs=f0${band ? `, ${quantity(band[0], 'Hz')}, ${quantity(band[1], 'Hz')}` : ''}`);
   lines.push('');
@@ -407,6 +475,10 @@ export function designMatch(m: MatchRequest): MatchDesign {
       ),
     );
     lines.push(`spec band_match measure=rl(1) min=${short(rlMin, 6)} dB over=${quantity(band[0], 'Hz')}, ${quantity(band[1], 'Hz')}`);
+  }
+  if (m.loadFile !== undefined && m.minReturnLoss !== undefined) {
+    lines.push(...comment(`Over the band asked for: at least ${short(m.minReturnLoss)} dB of return loss with the load of the data file.`));
+    lines.push(`spec band_match measure=rl(1) min=${short(m.minReturnLoss, 8)} dB over=${quantity(m.band![0], 'Hz')}, ${quantity(m.band![1], 'Hz')}`);
   }
   const text = lines.join('\n') + '\n';
   const summary = `${title}\n${how}\n\n` + columns([['part', 'role', 'value', ...(m.series ? [`before ${m.series}`] : [])], ...piece.rows]);
