@@ -97,7 +97,7 @@ describe('fuzz: filter option readers', () => {
   it('random option values never crash: a plain error naming an option, or a netlist that passes its own check', () => {
     let designed = 0;
     const freq = fc.oneof(fc.constantFrom('1 GHz', '600 MHz', '2.4e9', '0 Hz', '-1 GHz', '1e300', '5 pF', 'abc', '1 THz', '10 Hz', '(1', ''), fc.double({ min: 1, max: 1e12, noNaN: true }).map(String));
-    const junk = fc.oneof(freq, fc.constantFrom('x', '', '0', '-1', '1e999', '3.5', 'E25', 'e24', 'both', '40 dB', '__proto__', '11', '3 dB', 'stubs', 'coupled-lines', 'lumped', 'stepped', '100 ohm'), fc.string({ maxLength: 8 }));
+    const junk = fc.oneof(freq, fc.constantFrom('x', '', '0', '-1', '1e999', '3.5', 'E25', 'e24', 'both', '40 dB', '__proto__', '11', '3 dB', 'stubs', 'coupled-lines', 'lumped', 'stepped', '100 ohm', 'elliptic'), fc.string({ maxLength: 8 }));
     const keys = ['realize', 'highZ', 'lowZ', 'response', 'order', 'ripple', 'stopAtten', 'stopEdge', 'cutoff', 'center', 'bandwidth', 'z0', 'load', 'first', 'series', 'q'];
     // a valid request of each kind, then up to three of its options replaced, removed or added at random
     const valid = fc

@@ -31,9 +31,9 @@ export function designBuilder(y: Argv): Argv {
   return y
     .positional('kind', { choices: DESIGN_KINDS, describe: 'what to design: a lumped filter, or a matching network', demandOption: true })
     .option('out', { alias: 'o', type: 'string', describe: 'the netlist to write (.sbx); without it the netlist is printed' })
-    .option('response', { type: 'string', describe: 'filters: butterworth (default), chebyshev or bessel' })
+    .option('response', { type: 'string', describe: 'filters: butterworth (default), chebyshev, bessel or elliptic (low-pass and high-pass, odd orders, with --stop-edge)' })
     .option('order', { type: 'string', describe: 'filters: the order, 1 to 10 (or give a mask: --stop-atten and --stop-edge)' })
-    .option('ripple', { type: 'string', describe: 'Chebyshev: pass-band ripple in dB (default 0.1)' })
+    .option('ripple', { type: 'string', describe: 'Chebyshev and elliptic: pass-band ripple in dB (default 0.1)' })
     .option('stop-atten', { type: 'string', describe: 'filters: attenuation to reach at the stop edges, dB (with --stop-edge: the least order that does)' })
     .option('stop-edge', { type: 'string', array: true, describe: 'filters: stop-band edge frequencies, comma-separated' })
     .option('cutoff', { type: 'string', describe: 'low-pass, high-pass: the cutoff (Chebyshev: the ripple edge; Butterworth and Bessel: the 3 dB point)' })

@@ -17,7 +17,7 @@
  */
 import { formatFrequency } from '../format/frequency.js';
 import { DesignRequestError, type FilterRequest } from './lumped.js';
-import { MAX_ORDER, peakGain, prototype, prototypeGain, type Prototype } from './prototype.js';
+import { MAX_ORDER, peakGain, prototype, prototypeGain, type AllPoleResponse, type Prototype } from './prototype.js';
 import { columns, comment, quantity, short } from './netlist.js';
 import { minimumOrder } from './lumped.js';
 
@@ -33,7 +33,13 @@ export interface DistributedDesign {
 
 const RESPONSE_NAME = { butterworth: 'Butterworth', chebyshev: 'Chebyshev', bessel: 'Bessel' } as const;
 
-function orderOf(r: FilterRequest, omegaOf: (f: number) => number): { order: number; note: string } {
+/** The distributed designs take the all-pole responses. */
+function allPole(r: FilterRequest, how: string): FilterRequest & { response: AllPoleResponse } {
+  if (r.response === 'elliptic') throw new DesignRequestError(`--realize ${how} takes butterworth, chebyshev or bessel; an elliptic response is made with lumped parts`);
+  return r as FilterRequest & { response: AllPoleResponse };
+}
+
+function orderOf(r: FilterRequest & { response: AllPoleResponse }, omegaOf: (f: number) => number): { order: number; note: string } {
   if (r.order !== undefined) return { order: r.order, note: `order ${r.order}, as given` };
   if (r.stopEdges.length === 0 || r.stopAttenDb === undefined) throw new DesignRequestError('give --order, or a mask: --stop-atten with --stop-edge');
   const w = Math.min(...r.stopEdges.map(omegaOf));
@@ -56,7 +62,8 @@ interface Section {
 }
 
 /** The stub low-pass of Richards and Kuroda. */
-export function designStubLowpass(r: FilterRequest): DistributedDesign {
+export function designStubLowpass(req: FilterRequest): DistributedDesign {
+  const r = allPole(req, 'stubs');
   if (r.kind !== 'lowpass') throw new DesignRequestError('--realize stubs makes low-pass filters only');
   if (r.series !== undefined || r.q !== undefined) throw new DesignRequestError('--series and --q apply to lumped parts; --realize stubs is made of lines');
   const fc = r.cutoff!;
@@ -149,7 +156,8 @@ export function designStubLowpass(r: FilterRequest): DistributedDesign {
 export const MAX_COUPLING = 0.7;
 
 /** The parallel-coupled-line band-pass of Cohn (1958). */
-export function designCoupledBandpass(r: FilterRequest): DistributedDesign {
+export function designCoupledBandpass(req: FilterRequest): DistributedDesign {
+  const r = allPole(req, 'coupled-lines');
   if (r.kind !== 'bandpass') throw new DesignRequestError('--realize coupled-lines makes band-pass filters only');
   if (r.series !== undefined || r.q !== undefined) throw new DesignRequestError('--series and --q apply to lumped parts; --realize coupled-lines is made of lines');
   if (r.load !== undefined && Math.abs(r.load - r.z0) > 1e-9 * r.z0) throw new DesignRequestError('--realize coupled-lines takes equal terminations (leave out --load)');
@@ -229,7 +237,8 @@ export function designCoupledBandpass(r: FilterRequest): DistributedDesign {
  * shunt capacitor a short low-impedance line of βl = g·Zlow/z0, at the cutoff. An approximation
  * that holds while every section stays short (βl below about 45°).
  */
-export function designSteppedLowpass(r: FilterRequest, zHigh: number, zLow: number): DistributedDesign {
+export function designSteppedLowpass(req: FilterRequest, zHigh: number, zLow: number): DistributedDesign {
+  const r = allPole(req, 'stepped');
   if (r.kind !== 'lowpass') throw new DesignRequestError('--realize stepped makes low-pass filters only');
   if (r.series !== undefined || r.q !== undefined) throw new DesignRequestError('--series and --q apply to lumped parts; --realize stepped is made of lines');
   if (r.load !== undefined && Math.abs(r.load - r.z0) > 1e-9 * r.z0) throw new DesignRequestError('--realize stepped takes equal terminations (leave out --load)');

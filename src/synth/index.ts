@@ -19,11 +19,18 @@ export { readFilterRequest, type RawOptions } from './options.js';
 export { designMatch, readMatchRequest, readImpedance, binomialSections, chebyshevSections, transformerReflection, type MatchRequest, type MatchDesign, type MatchNetwork } from './match.js';
 
 import { designFilter as lumpedFilter, DesignRequestError, type FilterRequest } from './lumped.js';
+import { designEllipticFilter } from './elliptic-filter.js';
+export { designEllipticFilter, ellipticOrder } from './elliptic-filter.js';
+export { ellipticResponse, ellipticGain, ellipticLadder } from './elliptic.js';
 import { designCoupledBandpass, designSteppedLowpass, designStubLowpass } from './distributed.js';
 export { designStubLowpass, designCoupledBandpass, designSteppedLowpass, richardsOmega, type DistributedDesign } from './distributed.js';
 
 /** A filter as asked: lumped, or from lines (`realize`). The result has the written text, a summary and the response. */
 export function designAnyFilter(r: FilterRequest): { text: string; summary: string; gain: (f: number) => number } {
+  if (r.response === 'elliptic') {
+    if (r.realize !== undefined && r.realize !== 'lumped') throw new DesignRequestError(`--realize ${r.realize} takes butterworth, chebyshev or bessel; an elliptic response is made with lumped parts`);
+    return designEllipticFilter(r);
+  }
   if (r.realize === 'stubs') return designStubLowpass(r);
   if (r.realize === 'coupled-lines') return designCoupledBandpass(r);
   if (r.realize === 'stepped') return designSteppedLowpass(r, r.highZ ?? 2.4 * r.z0, r.lowZ ?? 0.4 * r.z0);

@@ -16,7 +16,7 @@ export type FilterKind = 'lowpass' | 'highpass' | 'bandpass' | 'bandstop';
 
 export interface FilterRequest {
   kind: FilterKind;
-  response: AllPoleResponse;
+  response: AllPoleResponse | 'elliptic';
   /** The order, or undefined to find the least order that meets the stop-band mask. */
   order?: number;
   /** Pass-band ripple, dB (Chebyshev). */
@@ -150,7 +150,9 @@ export function passbandDelay(response: AllPoleResponse, order: number, rippleDb
 }
 
 /** Designs a lumped filter and writes its netlist. */
-export function designFilter(r: FilterRequest): FilterDesign {
+export function designFilter(req: FilterRequest): FilterDesign {
+  if (req.response === 'elliptic') throw new DesignRequestError('an elliptic response has a ladder of its own (resonators in the series arms): it is designed apart from the all-pole responses');
+  const r = req as FilterRequest & { response: AllPoleResponse };
   const { fc, f0, fbw, edges } = band(r);
   const isBand = r.kind === 'bandpass' || r.kind === 'bandstop';
   // the order: given, or from the mask

@@ -95,15 +95,15 @@ export function seriesOption(raw: RawOptions): SeriesName | undefined {
   return name;
 }
 
-export const RESPONSES = ['butterworth', 'chebyshev', 'bessel'] as const;
+export const RESPONSES = ['butterworth', 'chebyshev', 'bessel', 'elliptic'] as const;
 export const FIRST_ELEMENTS = ['shunt', 'series'] as const;
 export const FILTER_KINDS = ['lowpass', 'highpass', 'bandpass', 'bandstop'] as const;
 
 /** The request of `design lowpass|highpass|bandpass|bandstop`. */
 export function readFilterRequest(kind: FilterKind, raw: RawOptions): FilterRequest {
-  const response = choiceOption<AllPoleResponse>(raw, 'response', 'response', RESPONSES, 'butterworth');
+  const response = choiceOption<AllPoleResponse | 'elliptic'>(raw, 'response', 'response', RESPONSES, 'butterworth');
   const ripple = numberOption(raw, 'ripple', 'ripple', 0.001, 3, 'dB');
-  if (ripple !== undefined && response !== 'chebyshev') throw new DesignRequestError(`--ripple belongs to --response chebyshev; a ${response} response has no ripple`);
+  if (ripple !== undefined && response !== 'chebyshev' && response !== 'elliptic') throw new DesignRequestError(`--ripple belongs to --response chebyshev or elliptic; a ${response} response has no ripple`);
   const isBand = kind === 'bandpass' || kind === 'bandstop';
   const cutoff = frequencyOption(raw, 'cutoff', 'cutoff');
   const center = frequencyOption(raw, 'center', 'center');
