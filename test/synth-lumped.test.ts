@@ -3,7 +3,9 @@
  * its own specs, and its solved |S21| follows the closed-form response at the mapped frequency.
  */
 import { describe, expect, it } from 'vitest';
-import { loadNetlist } from '../src/load.js';
+import fc from 'fast-check';
+import { evaluateQuantity, loadNetlist } from '../src/load.js';
+import { quantity } from '../src/synth/netlist.js';
 import { solveSweep } from '../src/solve/sweep.js';
 import { checkDesignText } from '../src/synth/index.js';
 import { designFilter, mappedFrequency, minimumOrder, passbandDelay, type FilterRequest } from '../src/synth/lumped.js';
@@ -168,5 +170,20 @@ describe('bad requests get plain errors that name the option', () => {
   }
   it('a frequency in the wrong unit is located in the option text', () => {
     expect(() => readFilterRequest('lowpass', { order: '3', cutoff: '5 pF' })).toThrow(expect.objectContaining({ name: 'InputError' }));
+  });
+});
+
+describe('written values', () => {
+  it('every written quantity reads back through the netlist grammar within 1e-11 (fast-check, fixed seed); angles take no prefix', () => {
+    fc.assert(
+      fc.property(fc.double({ min: 1e-17, max: 1e13, noNaN: true }), fc.constantFrom(['F', 'F'], ['H', 'H'], ['Hz', 'Hz'], ['ohm', 'ohm'], ['deg', 'rad']), (x, [unit, si]) => {
+        const text = quantity(x, unit);
+        const back = evaluateQuantity(text, si, 'value');
+        const want = unit === 'deg' ? (x * Math.PI) / 180 : x;
+        expect(Math.abs(back / want - 1)).toBeLessThan(1e-11);
+      }),
+      { seed: 7, numRuns: 400 },
+    );
+    expect(quantity(0.75, 'deg')).toBe('0.75 deg');
   });
 });

@@ -47,7 +47,7 @@ export function designBuilder(y: Argv): Argv {
     .option('realize', { type: 'string', describe: 'filters: lumped (default), stubs (low-pass: Richards\' transformation and Kuroda\'s identities), stepped (low-pass: stepped impedance) or coupled-lines (band-pass: Cohn\'s parallel-coupled lines)' })
     .option('high-z', { type: 'string', describe: 'stepped-impedance low-pass: the high line impedance (default 2.4·z0, 120 ohm at 50 ohm)' })
     .option('low-z', { type: 'string', describe: 'stepped-impedance low-pass: the low line impedance (default 0.4·z0, 20 ohm at 50 ohm)' })
-    .option('network', { type: 'string', describe: 'match: l-lowpass, l-highpass, pi, tee, stub, double-stub, quarter-wave, binomial, chebyshev' })
+    .option('network', { type: 'string', describe: 'match: l-lowpass (default), l-highpass, pi, tee, stub, double-stub, quarter-wave, binomial, chebyshev' })
     .option('freq', { type: 'string', describe: 'match: the frequency to match at' })
     .option('load-file', { type: 'string', describe: 'match: a one-port data file (.s1p or .json) holding the load over a band' })
     .option('band', { type: 'string', describe: 'match with --load-file: the band to check, two frequencies, e.g. "2.4 GHz, 2.5 GHz" (matched at its geometric centre unless --freq)' })

@@ -102,7 +102,7 @@ export function designEllipticFilter(r: FilterRequest): EllipticDesign {
       }
     }
   });
-  const outNode = dual ? node : node;
+  const outNode = node;
   const mapped = (f: number) => (r.kind === 'lowpass' ? f / fc : fc / f);
   const gain = (f: number) => ellipticGain(resp, mapped(f));
   const title = `Elliptic ${r.kind === 'lowpass' ? 'low' : 'high'}-pass, order ${order}, ${formatFrequency(fc)} cutoff`;

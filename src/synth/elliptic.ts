@@ -184,7 +184,6 @@ export function ellipticLadder(r: EllipticResponse): { arms: EllipticArm[]; load
   // Y = (E − F)/(E + F): a shunt capacitor first (Y → ∞ at s → ∞, since F and E share their degree and leading sign)
   let num = add(r.e, r.f, -1);
   let den = add(r.e, r.f);
-  const n = r.e.length - 1;
   const trimTop = (p: number[]) => {
     const big = Math.max(...p.map(Math.abs));
     let m = p.length;
@@ -221,6 +220,5 @@ export function ellipticLadder(r: EllipticResponse): { arms: EllipticArm[]; load
   arms.push({ kind: 'shunt', c: num[1]! / den[0]! });
   const g = num[0]! / den[0]!;
   if (arms.some((a) => (a.kind === 'shunt' ? !(a.c > 0) : !(a.l > 0 && a.c > 0)))) throw new RangeError('the elliptic ladder has a negative element for this response');
-  void n;
   return { arms, load: 1 / g };
 }

@@ -33,7 +33,8 @@ export function quantity(x: number, unit: string, digits = VALUE_DIGITS): string
     const t = v.toPrecision(digits);
     return t.includes('e') ? t : t.includes('.') ? t.replace(/0+$/, '').replace(/\.$/, '') : t;
   };
-  if (unit === '' || x === 0) return unit ? `${trimmed(x)} ${unit}` : trimmed(x);
+  // angles take no prefix (`0.75 deg`, never `750 mdeg`)
+  if (unit === '' || unit === 'deg' || x === 0) return unit ? `${trimmed(x)} ${unit}` : trimmed(x);
   const a = Math.abs(x);
   let [f, p] = PREFIX[PREFIX.length - 1]!;
   for (const [fac, pre] of PREFIX) {
@@ -43,10 +44,7 @@ export function quantity(x: number, unit: string, digits = VALUE_DIGITS): string
     }
   }
   if (unit === 'ohm' && !['', 'k', 'M', 'm'].includes(p)) [f, p] = a >= 1 ? [1e6, 'M'] : [1e-3, 'm'];
-  const m = x / f;
-  // 999.9999999999 pF rounds to 1000: take the next prefix up
-  const text = trimmed(m);
-  return `${text} ${p}${unit}`;
+  return `${trimmed(x / f)} ${p}${unit}`;
 }
 
 /** A design variable's value and range: `6.08 pF vary 3.04 pF to 12.2 pF [series E24]`. */
