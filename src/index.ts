@@ -99,7 +99,12 @@ export { uniformAt, normalAt, truncatedNormalAt, normalTruncation, fillUniform, 
 export { wilsonInterval, normalQuantile, normalCdf, percentile, histogram, pearson, type ProportionInterval } from './yield/stats.js';
 export type { Tolerance as PartTolerance, ToleranceDistribution, Lot, RandomInput } from './elaborate/circuit.js';
 export {
+  designAnyFilter,
   designFilter,
+  designEllipticFilter,
+  designStubLowpass,
+  designSteppedLowpass,
+  designCoupledBandpass,
   designMatch,
   readFilterRequest,
   readMatchRequest,
