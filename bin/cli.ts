@@ -29,6 +29,7 @@ import { FigureError, parseFigure } from '../src/figures/registry.js';
 import { runSensitivity, sensitivityBuilder, type SensitivityArgs } from './commands/sensitivity.js';
 import { mergeBuilder, runMerge, runYieldCommand, yieldBuilder, type MergeArgs, type YieldArgs } from './commands/yield.js';
 import { fitBuilder, runFit, type FitArgs } from './commands/fit.js';
+import { designBuilder, runDesign, type DesignArgs } from './commands/design.js';
 import {
   convertNetwork,
   ConversionError,
@@ -235,6 +236,14 @@ export async function main(argv: string[], io: Io = defaultIo): Promise<number> 
       (y: Argv) => fitBuilder(y),
       async (args) => {
         code = await runFit(args as unknown as FitArgs, io);
+      },
+    )
+    .command(
+      'design <kind>',
+      'write a first design (lumped filter or matching network) as a netlist with variables and specs, and check it',
+      designBuilder,
+      (args) => {
+        code = runDesign(args as unknown as DesignArgs, io);
       },
     )
     .command(

@@ -98,3 +98,26 @@ export { parseShard, shardRange, designDigest, formatPartial, parsePartial, merg
 export { uniformAt, normalAt, truncatedNormalAt, normalTruncation, fillUniform, fillNormal, philoxBlock } from './yield/random.js';
 export { wilsonInterval, normalQuantile, normalCdf, percentile, histogram, pearson, type ProportionInterval } from './yield/stats.js';
 export type { Tolerance as PartTolerance, ToleranceDistribution, Lot, RandomInput } from './elaborate/circuit.js';
+export {
+  designAnyFilter,
+  designFilter,
+  designEllipticFilter,
+  designStubLowpass,
+  designSteppedLowpass,
+  designCoupledBandpass,
+  designMatch,
+  readFilterRequest,
+  readMatchRequest,
+  checkDesignText,
+  prototype,
+  prototypeGain,
+  minimumOrder,
+  binomialSections,
+  chebyshevSections,
+  DesignRequestError,
+  type FilterRequest,
+  type FilterDesign,
+  type MatchRequest,
+  type MatchDesign,
+  type Prototype,
+} from './synth/index.js';
