@@ -38,3 +38,6 @@ export const MAX_FAMILY_MEMBERS = 1000;
 
 /** Samples of one yield run (`--samples`): their margins and draws are kept, a few numbers each. */
 export const MAX_YIELD_SAMPLES = 10_000_000;
+
+/** Body of one request to a live page's server (`scatterbox live`): a few numbers as JSON. */
+export const MAX_LIVE_REQUEST_BYTES = 64 * 1024;
