@@ -147,7 +147,7 @@ export async function startLive(o: LiveOptions): Promise<LiveServer> {
     res.writeHead(200, { ...SECURITY_HEADERS, 'content-type': 'text/event-stream; charset=utf-8', connection: 'keep-alive' });
     res.write(': scatterbox live\n\n');
     streams.add(res);
-    req.on('close', () => streams.delete(res));
+    res.on('close', () => streams.delete(res));
     res.on('error', () => streams.delete(res));
   }
 

@@ -10,6 +10,7 @@
  *   setValue(name, x)   sets a variable (SI units) as its number field does, and re-solves
  *   latencies           ms from each slider or field input to the redrawn page (after the next frame)
  *   results             the number of results drawn so far
+ *   idle()              whether no request is under way or waiting
  *
  * @module
  */
@@ -213,6 +214,8 @@ export const LIVE_SCRIPT = String.raw`(function () {
     },
     latencies: latencies,
     get results() { return results; },
+    /** Whether no request is under way or waiting. */
+    idle: function () { return !busy && waiting === null; },
   };
   root.setAttribute('data-live-ready', 'true');
 })();
