@@ -17,6 +17,7 @@ import { readInputText } from '../io/source-file.js';
 import { loadNetlist } from '../load.js';
 import { reportContent, type ReportContent, type ReportInput } from '../report/html.js';
 import { renderReport } from '../report/index.js';
+import { defaultEntries } from '../report/model.js';
 import { sliderOf } from './sliders.js';
 import type { LivePage } from '../report/live.js';
 
@@ -141,7 +142,9 @@ export class LiveSession {
     const net = model.solve();
     // where a spec depends on a variable (not on the fast path), the circuit at the values has it
     const circuit = model.followsVariables ? model.circuit : model.currentCircuit();
-    return { source: this.netlist, net, circuit, specs: evaluateSpecs(circuit.specs, net) };
+    // the entries named, not the default merge of equal ones (S11 = S22 of a symmetric design):
+    // a slider that breaks the symmetry then changes the values, not the page's layout
+    return { source: this.netlist, net, circuit, specs: evaluateSpecs(circuit.specs, net), entries: defaultEntries(net.ports) };
   }
 
   /** The signature of what the page is made of: variables, sweep, entries and plots. */

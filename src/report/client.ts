@@ -557,6 +557,7 @@ export const CLIENT_SCRIPT = String.raw`(function () {
   // A new result of the same layout (sweep, entries, plots), drawn in place: the plots keep their
   // zoom, the marker and the hidden traces; the Smith chart, the tables and the verdict are the
   // server's new HTML of the same parts the page was made of.
+  var shown = {};
   function update(c) {
     var next = c.data, gdUnitChanged = next.gdUnit.unit !== GU.unit;
     ['title', 'entries', 'limits', 'fails', 'gdUnit'].forEach(function (k) { data[k] = next[k]; });
@@ -594,7 +595,9 @@ export const CLIENT_SCRIPT = String.raw`(function () {
     }
     ['summary', 'specs', 'values'].forEach(function (part) {
       var el = document.querySelector('section[data-testid="' + part + '"]');
-      if (el) el.innerHTML = c.html[part];
+      // a part that did not change (the summary, mostly) is left as it is
+      if (el && shown[part] !== c.html[part]) el.innerHTML = c.html[part];
+      shown[part] = c.html[part];
     });
     var verdict = document.querySelector('[data-testid="verdict"]');
     if (verdict) { verdict.textContent = c.verdict.text; verdict.setAttribute('data-status', c.verdict.status); }
