@@ -418,7 +418,7 @@ console.log(
 console.log(
   `yield of the band-pass demo: 10,000 samples in ${yieldFigures.tenThousand.toFixed(2)} s (target ≤ 5 s); a sample costs ${yieldFigures.sampleRatio.toFixed(2)}× a plain solve of the spec frequencies (target ≤ 1.3×); ${yieldFigures.shards} shards of ${yieldFigures.samples} samples as separate processes plus the merge: ${yieldFigures.sharded.toFixed(2)} s against ${yieldFigures.one.toFixed(2)} s in one process, ${yieldFigures.speedup.toFixed(2)}× (target ≥ 1.7×)${yieldFigures.same ? '' : ' — MERGED RESULT DIFFERS'}`,
 );
-await import(new URL('./bench-live.mjs', import.meta.url).href).then(async ({ benchLive, formatLive }) => formatLive(await benchLive()).forEach((l) => console.log(l)), (e) => console.log(`live page: not measured (${e?.message ?? e})`));
+await import(new URL('./bench-live.mjs', import.meta.url).href).then(async ({ benchLive, formatLive }) => formatLive(await benchLive()).forEach((l) => console.log(l))).catch((e) => console.log(`live page: not measured (${e?.message ?? e})`));
 console.log(`two threads of plain arithmetic on this machine: ${cal.latency.toFixed(2)}× one thread latency-bound, ${cal.throughput.toFixed(2)}× throughput-bound (medians of 7)`);
 const pairRatio = median(runsOf.get('ladder N = 10,000').map((x) => x.sizeRatio));
 console.log(
