@@ -323,3 +323,34 @@ describe('scatterbox live (the command, from dist/)', () => {
     expect(existsSync(join(root, 'no-such.sbx'))).toBe(false);
   }, 30_000);
 });
+
+describe('a netlist with an included file', () => {
+  it('follows a change of the included file, and writes a variable defined there into that file only', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'sbx-live-include-'));
+    const main = join(dir, 'main.sbx');
+    const part = join(dir, 'part.sbx');
+    // an RC low-pass: series R, shunt C; the capacitor's value is a variable of the included file
+    const partText = '# the shunt part\nlet cs = 2 pF vary 1 pF to 10 pF   # tuned\ncapacitor c1 a=out b=ground value=cs\n';
+    const mainText = 'title "include test"\ninclude "part.sbx"\nresistor r1 a=in b=out value=50 ohm\nport 1 plus=in\nport 2 plus=out\nsweep linear start=10 MHz stop=1 GHz points=21\n';
+    writeFileSync(part, partText);
+    writeFileSync(main, mainText);
+    const live = await startLive({ netlist: main });
+    try {
+      expect([...live.session.files].sort()).toEqual([main, part].sort());
+      const base = `/${live.token}/`;
+      const got = listen(live.port, `${base}events`, (ev) => ev.some((e) => e.event === 'result'));
+      await new Promise((r) => setTimeout(r, 200));
+      writeFileSync(part, partText.replace('value=cs', 'value=cs q=100 at 100 MHz'));
+      const ev = (await got).find((e) => e.event === 'result')!;
+      expect(JSON.parse(ev.data).why).toMatch(/part\.sbx/);
+      const wb = await ask(live.port, `${base}write-back`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ values: [4.7e-12] }) });
+      expect(wb.status).toBe(200);
+      expect(JSON.parse(wb.body).files).toEqual([part]);
+      expect(readFileSync(main, 'utf8')).toBe(mainText);
+      expect(readFileSync(part, 'utf8')).toBe(partText.replace('value=cs', 'value=cs q=100 at 100 MHz').replace('let cs = 2 pF vary', 'let cs = 4.7 pF vary'));
+    } finally {
+      await live.close();
+      rmSync(dir, { recursive: true, force: true });
+    }
+  });
+});
