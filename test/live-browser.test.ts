@@ -175,6 +175,21 @@ describe.skipIf(!haveChromium)('live page in a browser', () => {
     console.log(`live slider → redrawn page: ${lat.length} moves, median ${sorted[Math.floor(sorted.length / 2)]?.toFixed(1)} ms, max ${sorted[sorted.length - 1]?.toFixed(1)} ms (measured, not asserted)`);
   });
 
+  it('the number field takes a value in its unit (pF), and the page follows it', async () => {
+    const before = await state();
+    await page.locator('[data-testid="value-field"][data-name="cshunt"]').fill('2.2');
+    await page.locator('[data-testid="value-field"][data-name="cshunt"]').press('Enter');
+    await resultsAfter(before.results);
+    const s = await state();
+    expect(s.values[1]).toBeCloseTo(2.2e-12, 24);
+    s.f.forEach((f, k) => expect(Math.abs(s.db11[k]! - s11Db(f, s.values[0]!, s.values[1]!))).toBeLessThan(1e-6));
+    // a value beyond the range is held at its bound (4.7 pF)
+    await page.locator('[data-testid="value-field"][data-name="cshunt"]').fill('99');
+    await page.locator('[data-testid="value-field"][data-name="cshunt"]').press('Enter');
+    await resultsAfter(s.results);
+    expect((await state()).values[1]).toBeCloseTo(4.7e-12, 24);
+  });
+
   it('reset brings back the netlist\'s values', async () => {
     const before = await state();
     await page.locator('[data-testid="reset"]').click();
