@@ -30,6 +30,7 @@ import { runSensitivity, sensitivityBuilder, type SensitivityArgs } from './comm
 import { mergeBuilder, runMerge, runYieldCommand, yieldBuilder, type MergeArgs, type YieldArgs } from './commands/yield.js';
 import { fitBuilder, runFit, type FitArgs } from './commands/fit.js';
 import { designBuilder, runDesign, type DesignArgs } from './commands/design.js';
+import { liveBuilder, runLive, type LiveArgs } from './commands/live.js';
 import {
   convertNetwork,
   ConversionError,
@@ -264,6 +265,14 @@ export async function main(argv: string[], io: Io = defaultIo): Promise<number> 
           .example('$0 plot circuits/bandpass-2g4.sbx circuits/data/bandpass-2g45-measured.s2p -o overlay.svg --entry 21', 'simulated against measured'),
       async (args) => {
         code = await runPlot(args as unknown as PlotArgs, io);
+      },
+    )
+    .command(
+      'live <netlist>',
+      'a local page that re-solves as the netlist changes, with sliders for its design variables',
+      liveBuilder,
+      async (args) => {
+        code = await runLive(args as unknown as LiveArgs, io);
       },
     )
     .command(

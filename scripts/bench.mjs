@@ -422,6 +422,7 @@ console.log(
 console.log(
   `yield of the band-pass demo: 10,000 samples in ${yieldFigures.tenThousand.toFixed(2)} s (target ≤ 5 s); a sample costs ${yieldFigures.sampleRatio.toFixed(2)}× a plain solve of the spec frequencies (target ≤ 1.3×); ${yieldFigures.samples} samples in ${yieldFigures.shards} shards as separate processes (one thread each) plus the merge: ${yieldFigures.sharded.toFixed(2)} s against ${yieldFigures.one.toFixed(2)} s in one process on one thread, ${yieldFigures.speedup.toFixed(2)}× (target ≥ 1.7×); one process on 2 threads: ${yieldFigures.threaded.toFixed(2)} s, ${yieldFigures.threadSpeedup.toFixed(2)}×${yieldFigures.same ? '' : ' — RESULTS DIFFER'}`,
 );
+await import(new URL('./bench-live.mjs', import.meta.url).href).then(async ({ benchLive, formatLive }) => formatLive(await benchLive()).forEach((l) => console.log(l))).catch((e) => console.log(`live page: not measured (${e?.message ?? e})`));
 console.log(`two threads of plain arithmetic on this machine: ${cal.latency.toFixed(2)}× one thread latency-bound, ${cal.throughput.toFixed(2)}× throughput-bound (medians of 7)`);
 const pairRatio = median(runsOf.get('ladder N = 10,000').map((x) => x.sizeRatio));
 console.log(

@@ -41,3 +41,6 @@ export const MAX_YIELD_SAMPLES = 10_000_000;
 
 /** |S| values kept for the percentile envelopes of a yield run (envelope samples × points × ports²): 400 MB of numbers. */
 export const MAX_ENVELOPE_VALUES = 50_000_000;
+
+/** Body of one request to a live page's server (`scatterbox live`): a few numbers as JSON. */
+export const MAX_LIVE_REQUEST_BYTES = 64 * 1024;

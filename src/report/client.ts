@@ -13,6 +13,8 @@
  *   setTraceVisible(entry, on), isTraceVisible(view, entry)  view: 'db' | 'phase' | 'gd' | 'smith'
  *   failRegions(kind)         the failing intervals laid over a plot: [{ spec, left, width }]
  *   setAdmittance(on), plots, data
+ *   update(content)           draws a new result of the same layout in place (a live page, src/live/):
+ *                             content is reportContent()'s data, verdict and parts (src/report/html.ts)
  * and `data-ready="true"` on the root element once everything is drawn.
  *
  * @module
@@ -319,16 +321,19 @@ export const CLIENT_SCRIPT = String.raw`(function () {
   function sizeOf(el) {
     return { width: Math.max(260, Math.floor(el.clientWidth)), height: Number(el.getAttribute('data-height')) || 260 };
   }
-  function makePlot(kind) {
-    var el = document.querySelector('[data-testid="plot-' + kind + '"]');
-    if (!el) return;
-    var idx = data.plots[kind];
-    var ys = idx.map(function (k) {
+  function ysOf(kind) {
+    return data.plots[kind].map(function (k) {
       var e = E[k];
       if (kind === 'db') return e.db;
       if (kind === 'phase') return e.deg;
       return e.gd.map(function (v) { return v === null ? null : v / GU.scale; });
     });
+  }
+  function makePlot(kind) {
+    var el = document.querySelector('[data-testid="plot-' + kind + '"]');
+    if (!el) return;
+    var idx = data.plots[kind];
+    var ys = ysOf(kind);
     var valueFmt = kind === 'db' ? function (u, v) { return v === null || v === undefined ? '\u2014' : fix(v, 2) + ' dB'; }
       : kind === 'phase' ? function (u, v) { return v === null || v === undefined ? '\u2014' : fix(v, 1) + '\u00b0'; }
       : function (u, v) { return v === null || v === undefined ? '\u2014' : sig(v, 4) + ' ' + GU.unit; };
@@ -549,6 +554,59 @@ export const CLIENT_SCRIPT = String.raw`(function () {
   smithClear();
   showIndex(null);
 
+  // A new result of the same layout (sweep, entries, plots), drawn in place: the plots keep their
+  // zoom, the marker and the hidden traces; the Smith chart, the tables and the verdict are the
+  // server's new HTML of the same parts the page was made of.
+  var shown = {};
+  function update(c) {
+    var next = c.data, gdUnitChanged = next.gdUnit.unit !== GU.unit;
+    ['title', 'entries', 'limits', 'fails', 'gdUnit'].forEach(function (k) { data[k] = next[k]; });
+    E = data.entries;
+    GU = data.gdUnit;
+    YTITLE.gd = 'Group delay (' + GU.unit + ')';
+    syncing = true;
+    KINDS.forEach(function (kind) {
+      var u = plots[kind];
+      if (!u) return;
+      if (kind === 'gd' && gdUnitChanged) {
+        var mn = u.scales.x.min, mx = u.scales.x.max;
+        u.destroy();
+        makePlot('gd');
+        plots.gd.setScale('x', { min: mn, max: mx });
+        return;
+      }
+      u.setData([F].concat(ysOf(kind)), false);
+      // the same x range again: y is ranged anew on the new values
+      u.setScale('x', { min: u.scales.x.min, max: u.scales.x.max });
+    });
+    syncing = false;
+    if (smith) {
+      var admOn = smith.getAttribute('data-admittance') === 'shown';
+      smith.innerHTML = c.html.smithBody + '<g data-part="smith-dots" class="smith-dots"></g>';
+      dots = smith.querySelector('[data-part="smith-dots"]');
+      setAdmittance(admOn);
+      var g = smith.querySelectorAll('.smith-trace');
+      for (var i = 0; i < g.length; i++) {
+        var q = E.map(function (e) { return e.label; }).indexOf(g[i].getAttribute('data-entry'));
+        if (q >= 0 && !visible[q]) g[i].style.display = 'none';
+      }
+      if (smithHot) smithClear();
+      smithDots(markerIdx, 'smith-marker');
+    }
+    ['summary', 'specs', 'values'].forEach(function (part) {
+      var el = document.querySelector('section[data-testid="' + part + '"]');
+      // a part that did not change (the summary, mostly) is left as it is
+      if (el && shown[part] !== c.html[part]) el.innerHTML = c.html[part];
+      shown[part] = c.html[part];
+    });
+    var verdict = document.querySelector('[data-testid="verdict"]');
+    if (verdict) { verdict.textContent = c.verdict.text; verdict.setAttribute('data-status', c.verdict.status); }
+    var h1 = document.querySelector('[data-testid="title"]');
+    if (h1) h1.textContent = data.title;
+    var k = current();
+    showIndex(k, hoverIdx !== null ? 'cursor' : 'marker');
+  }
+
   window.scatterboxReport = {
     data: data,
     plots: plots,
@@ -582,6 +640,7 @@ export const CLIENT_SCRIPT = String.raw`(function () {
       return out;
     },
     setAdmittance: setAdmittance,
+    update: update,
   };
   root.setAttribute('data-ready', 'true');
 })();

@@ -25,6 +25,7 @@ import { DB_AXIS_SPAN, delayUnit, escapeXml, fixed, frequencyUnit, portReference
 import { buildModel, COLORS, entryDelay, entrySeries, PLOT_TITLES, prepareOverlay, summarizeSweep, type Dataset, type EntrySeries, type OverlayPart, type PlotFail, type PlotLimit, type ReportModel, type SweepSummary } from './model.js';
 import { smithFragment } from './smith.js';
 import { REPORT_CSS } from './style.js';
+import { LIVE_CSS, LIVE_SCRIPT, liveSection, type LivePage } from './live.js';
 
 /** Input of {@link renderReport}. */
 export interface ReportInput {
@@ -42,6 +43,8 @@ export interface ReportInput {
   tableFrequencies?: number[];
   /** Entries [to, from], 1-based, for the rectangular plots (default: all up to 4 ports). */
   entries?: [number, number][];
+  /** Makes the page a live one (src/live/): the tuning section and the script that talks to its server. */
+  live?: LivePage;
 }
 
 /**
@@ -101,23 +104,81 @@ const SMITH_FRAME = { cx: SMITH_SIZE / 2, cy: SMITH_SIZE / 2, radius: SMITH_SIZE
  */
 export function renderReport(input: ReportInput | OverlayReportInput): string {
   if ('datasets' in input) return renderOverlayReport(input);
+  const c = reportContent(input);
+  const live = input.live;
+  const assets = uplotAssets();
+  const out: string[] = [];
+  pageTop(out, { title: c.data.title, kicker: live ? 'live' : 'network report', source: input.source, verdictStatus: c.verdict.status, verdictText: c.verdict.text, css: `${styleText(REPORT_CSS)}${live ? styleText(LIVE_CSS) : ''}`, assets, live: !!live });
+  if (live) out.push(liveSection(live));
+  out.push('<section class="summary" data-testid="summary">', c.html.summary, '</section>');
+  out.push('<section class="specs" data-testid="specs">', c.html.specs, '</section>');
+  responseSection(out, { hint: '', legend: '', smith: c.html.smith, gdSub: c.gdSub });
+  out.push('<section class="values" data-testid="values">', c.html.values, '</section>');
+  pageEnd(out, assets, c.data, live);
+  return out.join('\n') + '\n';
+}
+
+/**
+ * What a single-input report shows, apart from its frame: the page's data block and the HTML of
+ * its parts (summary, spec table, Smith chart, table of values) and its verdict. The report is
+ * put together from it, and a live page (src/live/) sends it again for each new result, which
+ * the page's script (`scatterboxReport.update`) draws in place: one code path for both.
+ */
+export interface ReportContent {
+  data: ReportData;
+  verdict: { status: 'none' | 'pass' | 'fail'; text: string };
+  /** The group-delay plot's subtitle. */
+  gdSub: string;
+  html: { summary: string; specs: string; smith: string; smithBody: string; values: string };
+}
+
+/** The data block of a single-input page (see {@link reportContent}). */
+export type ReportData = ReturnType<typeof reportData>;
+
+/** The content of a single-input report (see {@link ReportContent}). */
+export function reportContent(input: ReportInput): ReportContent {
   const net = input.net;
   if (net.frequencies.length === 0) throw new RangeError('the network has no frequency points: there is nothing to report');
   const specs = input.specs ?? (input.circuit && input.circuit.specs.length > 0 ? evaluateSpecs(input.circuit.specs, net) : []);
   const model = buildModel(net, specs, input.entries);
   const s = model.s;
   const f = s.frequencies;
+  const series = model.entries.map((e) => entrySeries(s, e.i, e.j));
+  const data = reportData(input, model, series);
+  const passCount = specs.filter((r) => r.pass).length;
+  const verdict = {
+    status: specs.length === 0 ? 'none' : passCount === specs.length ? 'pass' : 'fail',
+    text: specs.length === 0 ? 'no specs' : passCount === specs.length ? `all ${specs.length} specs pass` : `${specs.length - passCount} of ${specs.length} specs fail`,
+  } as const;
+  const smith = smithFigure(model, series);
+  const gdOf = model.plots.gd.some((k) => model.entries[k]!.i !== model.entries[k]!.j) ? 'the transmissions' : 'the reflections';
+  return {
+    data,
+    verdict,
+    gdSub: `${data.gdUnit.unit}, −dφ/dω of ${gdOf}`,
+    html: {
+      summary: ['<h2>Summary</h2>', '<div class="cards">', portsCard(s, input.circuit), sweepCard(summarizeSweep(f)), networkCard(net, model, specs), '</div>'].join('\n'),
+      specs: ['<h2>Specs</h2>', specTable(specs, model)].join('\n'),
+      smith: smith.figure,
+      smithBody: smith.body,
+      values: ['<h2>Values at selected frequencies</h2>', frequencyTable(model, series, input.tableFrequencies ?? defaultTableFrequencies(f, specs))].join('\n'),
+    },
+  };
+}
+
+function reportData(input: ReportInput, model: ReportModel, series: EntrySeries[]) {
+  const net = input.net;
+  const s = model.s;
+  const f = s.frequencies;
   const title = input.title ?? input.circuit?.title ?? net.title ?? basename(input.source);
   const sweep = summarizeSweep(f);
-  const series = model.entries.map((e) => entrySeries(s, e.i, e.j));
   const delays = model.entries.map((e, k) => (model.plots.gd.includes(k) ? entryDelay(s, e.i, e.j) : null));
   let bigDelay = 0;
   for (const d of delays) if (d) for (const v of d) if (Number.isFinite(v)) bigDelay = Math.max(bigDelay, Math.abs(v));
   const gdUnit = delayUnit(bigDelay);
   const xUnit = frequencyUnit(f[f.length - 1]!);
   const logX = sweep.spacing === 'log' && sweep.start > 0 && sweep.stop / sweep.start >= 100;
-
-  const data = {
+  return {
     schema: 'scatterbox.report/1',
     title,
     source: input.source,
@@ -149,50 +210,15 @@ export function renderReport(input: ReportInput | OverlayReportInput): string {
     limits: model.limits,
     fails: model.fails,
   };
-
-  const assets = uplotAssets();
-  const passCount = specs.filter((r) => r.pass).length;
-  const verdictStatus = specs.length === 0 ? 'none' : passCount === specs.length ? 'pass' : 'fail';
-  const verdictText = specs.length === 0 ? 'no specs' : passCount === specs.length ? `all ${specs.length} specs pass` : `${specs.length - passCount} of ${specs.length} specs fail`;
-
-  const out: string[] = [];
-  pageTop(out, { title, kicker: 'network report', source: input.source, verdictStatus, verdictText, css: styleText(REPORT_CSS), assets });
-
-  // summary
-  out.push('<section class="summary" data-testid="summary">');
-  out.push('<h2>Summary</h2>');
-  out.push('<div class="cards">');
-  out.push(portsCard(s, input.circuit));
-  out.push(sweepCard(sweep));
-  out.push(networkCard(net, model, specs));
-  out.push('</div>');
-  out.push('</section>');
-
-  // specs
-  out.push('<section class="specs" data-testid="specs">');
-  out.push('<h2>Specs</h2>');
-  out.push(specTable(specs, model));
-  out.push('</section>');
-
-  // plots
-  const gdOf = model.plots.gd.some((k) => model.entries[k]!.i !== model.entries[k]!.j) ? 'the transmissions' : 'the reflections';
-  responseSection(out, { hint: '', legend: '', smith: smithFigure(model, series), gdSub: `${gdUnit.unit}, −dφ/dω of ${gdOf}` });
-
-  // table
-  out.push('<section class="values" data-testid="values">');
-  out.push('<h2>Values at selected frequencies</h2>');
-  out.push(frequencyTable(model, series, input.tableFrequencies ?? defaultTableFrequencies(f, specs)));
-  out.push('</section>');
-  pageEnd(out, assets, data);
-  return out.join('\n') + '\n';
 }
 
 /** The page up to its main part: head (styles inline, the content policy), header with the verdict. */
 function pageTop(
   out: string[],
-  o: { title: string; kicker: string; source: string; verdictStatus: string; verdictText: string; css: string; assets: { css: string; version: string } },
+  o: { title: string; kicker: string; source: string; verdictStatus: string; verdictText: string; css: string; assets: { css: string; version: string }; live?: boolean },
 ): void {
-  const csp = "default-src 'none'; script-src 'unsafe-inline'; style-src 'unsafe-inline'; img-src data:; font-src 'none'; connect-src 'none'; media-src 'none'; object-src 'none'; frame-src 'none'; worker-src 'none'; base-uri 'none'; form-action 'none'";
+  // a live page talks to the server it came from (its events and its requests), and to nothing else
+  const csp = `default-src 'none'; script-src 'unsafe-inline'; style-src 'unsafe-inline'; img-src data:; font-src 'none'; connect-src ${o.live ? "'self'" : "'none'"}; media-src 'none'; object-src 'none'; frame-src 'none'; worker-src 'none'; base-uri 'none'; form-action 'none'`;
   out.push('<!doctype html>');
   out.push('<html lang="en">');
   out.push('<head>');
@@ -200,7 +226,7 @@ function pageTop(
   out.push('<meta name="viewport" content="width=device-width, initial-scale=1">');
   out.push(`<meta http-equiv="Content-Security-Policy" content="${csp}">`);
   out.push('<meta name="generator" content="scatterbox">');
-  out.push(`<title>${escapeXml(o.title)} · scatterbox report</title>`);
+  out.push(`<title>${escapeXml(o.title)} · scatterbox ${o.live ? 'live' : 'report'}</title>`);
   out.push('<link rel="icon" href="data:,">');
   out.push(`<style>/* uPlot ${escapeXml(o.assets.version)} (MIT licence) */\n${styleText(o.assets.css)}</style>`);
   out.push(`<style>${o.css}</style>`);
@@ -241,14 +267,17 @@ function responseSection(out: string[], o: { hint: string; legend: string; smith
 }
 
 /** The end of the page: footer, the data, uPlot and the page's own script. */
-function pageEnd(out: string[], assets: { js: string; version: string }, data: unknown): void {
+function pageEnd(out: string[], assets: { js: string; version: string }, data: unknown, live?: LivePage): void {
   out.push('</main>');
   out.push(
-    `<footer>Made by scatterbox. Everything this page shows is inside this one file (data, scripts, styles); it makes no network requests. Plots drawn with uPlot ${escapeXml(assets.version)}.</footer>`,
+    live
+      ? `<footer>Made by scatterbox live. This page talks only to the local server that made it. Plots drawn with uPlot ${escapeXml(assets.version)}.</footer>`
+      : `<footer>Made by scatterbox. Everything this page shows is inside this one file (data, scripts, styles); it makes no network requests. Plots drawn with uPlot ${escapeXml(assets.version)}.</footer>`,
   );
   out.push(`<script type="application/json" id="sbx-data">${jsonBlock(data)}</script>`);
   out.push(`<script>/* uPlot ${escapeXml(assets.version)}, MIT licence */\n${scriptText(assets.js)}</script>`);
   out.push(`<script>${scriptText(CLIENT_SCRIPT)}</script>`);
+  if (live) out.push(`<script>${scriptText(LIVE_SCRIPT)}</script>`);
   out.push('</body>');
   out.push('</html>');
 }
@@ -325,7 +354,7 @@ function plotFigure(kind: string, title: string, sub: string, height: number): s
   return `<figure class="plot-card" data-plot="${kind}"><figcaption>${escapeXml(title)}<span class="sub">${escapeXml(sub)}</span></figcaption><div class="plot" data-testid="plot-${kind}" data-height="${height}"></div></figure>`;
 }
 
-function smithFigure(model: ReportModel, series: EntrySeries[]): string {
+function smithFigure(model: ReportModel, series: EntrySeries[]): { figure: string; body: string } {
   const traces = model.smith.map((k) => {
     const e = model.entries[k]!;
     return { label: e.label, display: e.display, color: e.color, re: series[k]!.re, im: series[k]!.im };
@@ -339,12 +368,12 @@ function smithFigure(model: ReportModel, series: EntrySeries[]): string {
     .join('');
   const list = referenceList(model.s);
   const refs = list.length === 1 ? list[0]! : Array.from(model.s.references, (_, p) => `${portReference(model.s, p + 1)} (port ${p + 1})`).join(', ');
-  return (
+  const figure =
     `<figure class="smith-card" data-plot="smith"><figcaption>Smith chart<span class="sub">reflections, normalised to ${escapeXml(refs)}</span></figcaption>${svg}` +
     `<div class="smith-controls">${toggles}<label><input type="checkbox" data-testid="toggle-admittance"> admittance grid</label></div>` +
     `<div class="smith-readout" data-testid="smith-readout"></div>` +
-    `<div class="smith-note">○ first sweep point · ● last sweep point · grid: constant resistance and reactance</div></figure>`
-  );
+    `<div class="smith-note">○ first sweep point · ● last sweep point · grid: constant resistance and reactance</div></figure>`;
+  return { figure, body };
 }
 
 /** The sweep's ends and the finite spec band edges inside it (sorted, at most 12), or 5 points across. */
